@@ -1,0 +1,99 @@
+#!/usr/bin/env bash
+# Shared set-up for `npm start`, `npm test` and `npm run dev`: dependencies,
+# PostgreSQL from Debian's packages, a cluster in a folder the postgres user can
+# reach. Sourced, not run.
+set -euo pipefail
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+IS_ROOT=0; [ "$(id -u)" = "0" ] && IS_ROOT=1
+# The pinned AWS SDK runs on Node 20; its notice about future releases is noise here.
+export AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED=true
+
+say() { printf '[tenthwise] %s\n' "$*"; }
+die() { printf '[tenthwise] %s\n' "$*" >&2; exit 1; }
+
+ensure_node_modules() {
+  if [ ! -x "$ROOT/node_modules/.bin/vite" ] || [ "$ROOT/package-lock.json" -nt "$ROOT/node_modules/.package-lock.json" ]; then
+    say "installing npm dependencies (npm ci)…"
+    (cd "$ROOT" && npm ci --no-audit --no-fund)
+  fi
+}
+
+apt_install() {
+  if [ "$IS_ROOT" = 1 ]; then
+    say "installing $* from Debian's packages…"
+    DEBIAN_FRONTEND=noninteractive apt-get update -qq
+    DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@" >/dev/null
+  else
+    die "$* is missing. Install it with: sudo apt-get install -y $*   (then run this command again)"
+  fi
+}
+
+pg_bin() { ls -d /usr/lib/postgresql/*/bin 2>/dev/null | sort -V | tail -1; }
+
+ensure_postgres_installed() {
+  if [ -z "$(pg_bin)" ] || [ ! -x "$(pg_bin)/initdb" ]; then apt_install postgresql; fi
+  # Debian's package starts its own cluster on 5432; ours runs on its own port.
+  PGBIN="$(pg_bin)"
+}
+
+ensure_chromium() {
+  [ -x /usr/bin/chromium ] || apt_install chromium
+}
+
+as_pg() {
+  if [ "$IS_ROOT" = 1 ]; then runuser -u postgres -- "$@"; else "$@"; fi
+}
+
+# Picks a data folder the server's user can reach; as root that is the postgres
+# user, and a project under a private home folder is not reachable by it.
+reachable_data_dir() {
+  local wanted="$1" fallback="$2"
+  mkdir -p "$wanted"
+  if [ "$IS_ROOT" = 1 ]; then
+    chown postgres:postgres "$wanted"
+    if ! runuser -u postgres -- test -w "$wanted"; then
+      say "the postgres user cannot reach $wanted; using $fallback instead" >&2
+      mkdir -p "$fallback" && chown postgres:postgres "$fallback" && chmod 700 "$fallback"
+      echo "$fallback"; return
+    fi
+  fi
+  echo "$wanted"
+}
+
+# start_cluster DIR PORT AUTH(trust|password) [PWFILE] [FAST]
+start_cluster() {
+  local dir="$1" port="$2" auth="$3" pwfile="${4:-}" fast="${5:-}"
+  local pgdata="$dir/pg"
+  if [ ! -s "$pgdata/PG_VERSION" ]; then
+    mkdir -p "$pgdata"
+    [ "$IS_ROOT" = 1 ] && chown -R postgres:postgres "$dir"
+    chmod 700 "$pgdata"
+    if [ "$auth" = trust ]; then
+      as_pg "$PGBIN/initdb" -D "$pgdata" -U app --auth=trust -E UTF8 --locale=C.UTF-8 >/dev/null
+    else
+      [ "$IS_ROOT" = 1 ] && chown postgres:postgres "$pwfile"
+      as_pg "$PGBIN/initdb" -D "$pgdata" -U app --auth=scram-sha-256 --pwfile="$pwfile" -E UTF8 --locale=C.UTF-8 >/dev/null
+    fi
+  fi
+  if as_pg "$PGBIN/pg_ctl" -D "$pgdata" status >/dev/null 2>&1; then
+    say "PostgreSQL already running on 127.0.0.1:$port"
+    return
+  fi
+  local opts="-c listen_addresses=127.0.0.1 -p $port -k $pgdata"
+  [ -n "$fast" ] && opts="$opts -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=300"
+  as_pg "$PGBIN/pg_ctl" -D "$pgdata" -l "$pgdata/server.log" -w -o "$opts" start >/dev/null \
+    || { cat "$pgdata/server.log" >&2; die "PostgreSQL did not start (log above)"; }
+}
+
+stop_cluster() {
+  local dir="$1"
+  as_pg "$PGBIN/pg_ctl" -D "$dir/pg" -m fast -w stop >/dev/null 2>&1 || true
+}
+
+# create_database URL_WITHOUT_DB NAME
+ensure_database() {
+  local port="$1" name="$2" password="${3:-}"
+  PGPASSWORD="$password" psql -h 127.0.0.1 -p "$port" -U app -d postgres -tAc "select 1 from pg_database where datname='$name'" | grep -q 1 \
+    || PGPASSWORD="$password" psql -h 127.0.0.1 -p "$port" -U app -d postgres -qc "create database \"$name\"" >/dev/null
+}

@@ -1,0 +1,85 @@
+import { Router, type Request } from "express";
+import passport from "passport";
+import { Strategy as LocalStrategy } from "passport-local";
+import { rateLimit, ipKeyGenerator } from "express-rate-limit";
+import { defineRoutes, type SessionUser } from "../http/route";
+import type { AppDeps } from "../app";
+import { usersService } from "../modules/users/users.service";
+import { usersRepository } from "../modules/users/users.repository";
+import { LoginSchema, UserSchema } from "../../shared/users/users.schemas";
+import { Errors } from "../http/errors";
+import { z } from "zod";
+
+/** Wires passport-local to the users table; sessions hold only the user id. */
+export function configurePassport(deps: AppDeps) {
+  const service = usersService(deps);
+  passport.use(
+    new LocalStrategy({ usernameField: "email", passwordField: "password" }, (email, password, done) => {
+      service
+        .verifyPassword(email, password)
+        .then((u) => done(null, u ? toSessionUser(u) : false))
+        .catch(done);
+    }),
+  );
+  passport.serializeUser((user, done) => done(null, (user as SessionUser).id));
+  passport.deserializeUser((id: string, done) => {
+    // A deactivated person is signed out on their next request.
+    usersRepository
+      .findById(deps.db, id)
+      .then((u) => done(null, u && u.active ? toSessionUser(u) : false))
+      .catch(done);
+  });
+}
+
+function toSessionUser(u: { id: string; email: string; name: string; role: SessionUser["role"] }): SessionUser {
+  return { id: u.id, email: u.email, name: u.name, role: u.role };
+}
+
+export function authRoutes(deps: AppDeps, generateToken: (req: Request, overwrite?: boolean) => string) {
+  const router = Router();
+  const route = defineRoutes(router, deps.registry, "auth");
+
+  // Only failed sign-ins count, per address and e-mail, so a shop sharing one
+  // address is not locked out by one person's typing.
+  const limiter = rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit: deps.config.LOGIN_RATE_LIMIT,
+    skipSuccessfulRequests: true,
+    standardHeaders: "draft-8",
+    legacyHeaders: false,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? "")}|${String(req.body?.email ?? "").toLowerCase()}`,
+    handler: (_req, res) => {
+      res.status(429).json({ error: { code: "too_many_attempts", message: "Too many failed sign-ins; wait 15 minutes and try again." } });
+    },
+  });
+  router.post("/api/auth/login", limiter);
+
+  route({ method: "get", path: "/api/auth/csrf", summary: "Token for the X-CSRF-Token header", access: "public", response: z.object({ token: z.string() }) }, ({ req }) => ({
+    token: generateToken(req),
+  }));
+
+  route(
+    { method: "post", path: "/api/auth/login", summary: "Sign in", access: "public", body: LoginSchema, status: 200, response: z.object({ user: UserSchema, csrfToken: z.string() }) },
+    ({ req, res }) =>
+      new Promise((resolve, reject) => {
+        passport.authenticate("local", (err: unknown, user: SessionUser | false) => {
+          if (err) return reject(err);
+          if (!user) return reject(Errors.badCredentials());
+          // passport 0.7 regenerates the session here (no fixation); the CSRF
+          // token lived in the old session, so hand out a fresh one.
+          req.login(user, (loginErr) => {
+            if (loginErr) return reject(loginErr);
+            resolve({ user, csrfToken: generateToken(req, true) });
+          });
+        })(req, res);
+      }),
+  );
+
+  route({ method: "post", path: "/api/auth/logout", summary: "Sign out", access: "signedIn", status: 204 }, ({ req }) =>
+    new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : req.session.destroy((e) => (e ? reject(e) : resolve()))))),
+  );
+
+  route({ method: "get", path: "/api/auth/me", summary: "Who is signed in", access: "signedIn", response: z.object({ user: UserSchema }) }, ({ user }) => ({ user }));
+
+  return router;
+}

@@ -1,0 +1,82 @@
+import type { Request, Response, Router } from "express";
+import type { z } from "zod";
+import { can, PERMISSIONS, type Permission, type Role } from "../../shared/auth/roles";
+import { Errors } from "./errors";
+import type { OpenApiRegistry } from "../openapi/registry";
+
+/** The signed-in person, as the session holds them. */
+export interface SessionUser {
+  id: string;
+  email: string;
+  name: string;
+  role: Role;
+}
+
+type Access = Permission | "signedIn" | "public";
+
+interface RouteSpec<B extends z.ZodType | undefined, Q extends z.ZodType | undefined> {
+  method: "get" | "post" | "put" | "patch" | "delete";
+  path: string;
+  summary: string;
+  access: Access;
+  body?: B;
+  query?: Q;
+  response?: z.ZodType;
+  /** Success status; 204 sends no body. */
+  status?: number;
+  /** For routes that answer with a file (PDF, CSV) rather than JSON. */
+  produces?: string;
+}
+
+export interface RouteContext<B, Q> {
+  body: B;
+  query: Q;
+  params: Record<string, string>;
+  user: SessionUser;
+  req: Request;
+  res: Response;
+}
+
+type Infer<T> = T extends z.ZodType ? z.infer<T> : undefined;
+
+/**
+ * Declares one HTTP route: role guard, zod validation of body and query, the
+ * handler's answer as JSON, and its entry in the OpenAPI document.
+ */
+export function defineRoutes(router: Router, registry: OpenApiRegistry, tag: string) {
+  return function route<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined>(
+    spec: RouteSpec<B, Q>,
+    handler: (ctx: RouteContext<Infer<B>, Infer<Q>>) => Promise<unknown> | unknown,
+  ) {
+    registry.add({
+      method: spec.method,
+      path: spec.path,
+      summary: spec.summary,
+      tag,
+      permission: spec.access === "public" ? "anyone" : spec.access === "signedIn" ? "any signed-in role" : `roles ${describeAccess(spec.access)}`,
+      body: spec.body,
+      query: spec.query,
+      response: spec.response,
+      status: spec.status ?? (spec.method === "post" ? 201 : 200),
+      produces: spec.produces,
+    });
+    router[spec.method](spec.path, async (req: Request, res: Response) => {
+      const user = req.user as SessionUser | undefined;
+      if (spec.access !== "public") {
+        if (!user) throw Errors.notSignedIn();
+        if (spec.access !== "signedIn" && !can(user.role, spec.access)) throw Errors.forbidden(`Your role (${user.role}) may not do this.`);
+      }
+      const body = spec.body ? spec.body.parse(req.body ?? {}) : undefined;
+      const query = spec.query ? spec.query.parse(req.query ?? {}) : undefined;
+      const out = await handler({ body, query, params: req.params as Record<string, string>, user: user as SessionUser, req, res } as RouteContext<Infer<B>, Infer<Q>>);
+      if (res.headersSent) return;
+      const status = spec.status ?? (spec.method === "post" ? 201 : 200);
+      if (status === 204) res.status(204).end();
+      else res.status(status).json(out);
+    });
+  };
+}
+
+function describeAccess(p: Permission): string {
+  return (PERMISSIONS[p] as readonly string[]).join(", ");
+}

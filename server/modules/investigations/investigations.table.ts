@@ -1,0 +1,82 @@
+import { pgTable, uuid, text, numeric, boolean, jsonb, timestamp, index } from "drizzle-orm/pg-core";
+import { users } from "../users/users.table";
+import { tools } from "../tools/tools.table";
+import { standards } from "../standards/standards.table";
+import { calibrations } from "../calibrations/calibrations.table";
+import { intermediateChecks } from "../checks/checks.table";
+import { readings } from "../readings/readings.table";
+
+export const investigations = pgTable(
+  "investigations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    toolId: uuid("tool_id").references(() => tools.id),
+    standardId: uuid("standard_id").references(() => standards.id),
+    trigger: text("trigger", { enum: ["as_found_failure", "check_failure", "lost", "damaged"] }).notNull(),
+    calibrationId: uuid("calibration_id").references(() => calibrations.id),
+    checkId: uuid("check_id").references(() => intermediateChecks.id),
+    openedAt: timestamp("opened_at", { withTimezone: true }).notNull(),
+    openedBy: uuid("opened_by").references(() => users.id),
+    windowStart: timestamp("window_start", { withTimezone: true }),
+    windowEnd: timestamp("window_end", { withTimezone: true }).notNull(),
+    /** The errors found (per check point), or null when unknown (lost tool). */
+    finding: jsonb("finding"),
+    status: text("status", { enum: ["open", "closed"] }).notNull().default("open"),
+    closedAt: timestamp("closed_at", { withTimezone: true }),
+    closedBy: uuid("closed_by").references(() => users.id),
+    closingSummary: text("closing_summary"),
+  },
+  (t) => [
+    index("investigations_tool_idx").on(t.toolId),
+    index("investigations_standard_idx").on(t.standardId),
+    index("investigations_calibration_idx").on(t.calibrationId),
+    index("investigations_check_idx").on(t.checkId),
+    index("investigations_status_idx").on(t.status, t.openedAt),
+    index("investigations_opened_by_idx").on(t.openedBy),
+    index("investigations_closed_by_idx").on(t.closedBy),
+  ],
+);
+
+/** One affected reading (or, in a cascade, one affected calibration) re-judged. */
+export const investigationItems = pgTable(
+  "investigation_items",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    investigationId: uuid("investigation_id").notNull().references(() => investigations.id),
+    readingId: uuid("reading_id").references(() => readings.id),
+    calibrationId: uuid("calibration_id").references(() => calibrations.id),
+    toolId: uuid("tool_id").references(() => tools.id),
+    verdictCouldChange: boolean("verdict_could_change").notNull(),
+    basis: text("basis").notNull(),
+    marginBefore: numeric("margin_before"),
+    marginAfter: numeric("margin_after"),
+    correctedValue: numeric("corrected_value"),
+  },
+  (t) => [
+    index("investigation_items_investigation_idx").on(t.investigationId),
+    index("investigation_items_reading_idx").on(t.readingId),
+    index("investigation_items_calibration_idx").on(t.calibrationId),
+    index("investigation_items_tool_idx").on(t.toolId),
+  ],
+);
+
+export const dispositions = pgTable(
+  "dispositions",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    investigationItemId: uuid("investigation_item_id").notNull().references(() => investigationItems.id),
+    kind: text("kind", { enum: ["no_impact", "remeasure", "notify_owner", "recall"] }).notNull(),
+    rationale: text("rationale").notNull(),
+    decidedBy: uuid("decided_by").notNull().references(() => users.id),
+    decidedAt: timestamp("decided_at", { withTimezone: true }).notNull(),
+    notifiedWhom: text("notified_whom"),
+    notifiedHow: text("notified_how"),
+    notifiedAt: timestamp("notified_at", { withTimezone: true }),
+    remeasureReadingId: uuid("remeasure_reading_id").references(() => readings.id),
+  },
+  (t) => [
+    index("dispositions_item_idx").on(t.investigationItemId),
+    index("dispositions_decided_by_idx").on(t.decidedBy),
+    index("dispositions_remeasure_idx").on(t.remeasureReadingId),
+  ],
+);

@@ -1,0 +1,7 @@
+import { Router } from "express";
+import type { AppDeps } from "../../app";
+
+export function readingsRoutes(_deps: AppDeps) {
+  const router = Router();
+  return router;
+}

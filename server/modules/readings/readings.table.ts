@@ -1,0 +1,59 @@
+import { pgTable, uuid, text, integer, numeric, boolean, jsonb, timestamp, index, primaryKey, date } from "drizzle-orm/pg-core";
+import { users } from "../users/users.table";
+import { jobs } from "../jobs/jobs.table";
+import { tools, setElements } from "../tools/tools.table";
+
+// Readings are evidence: raw values are kept exactly as entered (decimal
+// strings), never updated; a correction is a new reading that supersedes.
+export const readings = pgTable(
+  "readings",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    jobId: uuid("job_id").notNull().references(() => jobs.id),
+    itemKey: text("item_key").notNull(),
+    index: integer("index").notNull().default(1),
+    values: jsonb("values").$type<string[]>().notNull().default([]),
+    unit: text("unit", { enum: ["in", "mm"] }).notNull(),
+    size: numeric("size"),
+    outOfRound: numeric("out_of_round"),
+    goEntered: boolean("go_entered"),
+    noGoEntered: boolean("no_go_entered"),
+    goLeafId: uuid("go_leaf_id").references(() => setElements.id),
+    noGoLeafId: uuid("no_go_leaf_id").references(() => setElements.id),
+    visualResult: text("visual_result", { enum: ["serviceable", "reject"] }),
+    finding: text("finding"),
+    verdict: text("verdict", { enum: ["within_limits", "outside_limits", "pending"] }).notNull(),
+    flags: jsonb("flags").$type<string[]>().notNull().default([]),
+    temperatureC: numeric("temperature_c"),
+    partMaterial: text("part_material"),
+    takenBy: uuid("taken_by").references(() => users.id),
+    takenAt: timestamp("taken_at", { withTimezone: true }).notNull(),
+    supersedesId: uuid("supersedes_id"),
+    supersedeReason: text("supersede_reason"),
+    overrideReason: text("override_reason"),
+    overrideBy: uuid("override_by").references(() => users.id),
+  },
+  (t) => [
+    index("readings_job_item_idx").on(t.jobId, t.itemKey, t.index),
+    index("readings_taken_at_idx").on(t.takenAt),
+    index("readings_taken_by_idx").on(t.takenBy),
+    index("readings_supersedes_idx").on(t.supersedesId),
+    index("readings_go_leaf_idx").on(t.goLeafId),
+    index("readings_no_go_leaf_idx").on(t.noGoLeafId),
+    index("readings_override_by_idx").on(t.overrideBy),
+  ],
+);
+
+/** The tools a reading was taken with, with their status and due date at that moment. */
+export const readingTools = pgTable(
+  "reading_tools",
+  {
+    readingId: uuid("reading_id").notNull().references(() => readings.id),
+    toolId: uuid("tool_id").notNull().references(() => tools.id),
+    position: integer("position").notNull(),
+    statusAtReading: text("status_at_reading").notNull(),
+    dueAtReading: date("due_at_reading"),
+    takenAt: timestamp("taken_at", { withTimezone: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.readingId, t.toolId] }), index("reading_tools_tool_taken_idx").on(t.toolId, t.takenAt)],
+);

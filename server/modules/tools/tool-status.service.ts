@@ -1,0 +1,163 @@
+import { sql } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
+import { getSettings } from "../settings/settings.service";
+
+export interface StatusContext {
+  timeZone: string;
+  dueSoonDays: number;
+}
+
+export interface Custody {
+  checkoutId: string;
+  userId: string;
+  name: string;
+  email: string;
+  since: string;
+  dueBackAt: string;
+}
+
+export interface ToolStatusView extends ToolStatusResult {
+  toolId: string;
+  assetTag: string;
+  custodian: Custody | null;
+  lastCalibration: ToolStatusInput["lastCalibration"] & { id: string } | null;
+}
+
+/** Time zone and warning window from the shop's settings. */
+export async function statusContext(db: DbOrTx, defaultTimeZone: string): Promise<StatusContext> {
+  const s = await getSettings(db, defaultTimeZone);
+  return { timeZone: s.shopTimeZone, dueSoonDays: s.dueSoonDays };
+}
+
+type Row = Record<string, unknown>;
+const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : v == null ? null : new Date(String(v)).toISOString());
+const dateOnly = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString().slice(0, 10) : String(v).slice(0, 10));
+
+/**
+ * Gathers, for many tools at once, what the one status derivation needs at
+ * instant `at` (lifecycle, the calibration that counts, pending review, uses,
+ * failed checks, holds, lab trips, custody) and derives each status.
+ * Six set-based queries, whatever the number of tools.
+ */
+export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
+  const out = new Map<string, ToolStatusView>();
+  if (toolIds.length === 0) return out;
+  const ids = sql`array[${sql.join(toolIds.map((id) => sql`${id}::uuid`), sql`, `)}]`;
+  const atTs = at.toISOString();
+
+  const [tools, cals, pending, checks, holds, labs, custody] = await Promise.all([
+    db.execute(sql`
+      select t.id, t.asset_tag, t.calibration_required, t.usage_limit,
+        coalesce((select e.lifecycle from tool_lifecycle_events e where e.tool_id = t.id and e.at <= ${atTs} order by e.at desc limit 1), 'active') as lifecycle
+      from tools t where t.id = any(${ids})`),
+    // The calibration that counts: latest, not superseded, performed by `at`,
+    // in-house or outside-lab with an accepted certificate review by `at`.
+    db.execute(sql`
+      select distinct on (c.tool_id) c.id, c.tool_id, c.performed_at, c.result, c.next_due_at, c.limited_min, c.limited_max, c.limited_note, t.unit
+      from calibrations c join tools t on t.id = c.tool_id
+      where c.tool_id = any(${ids}) and c.performed_at <= ${atTs}
+        and not exists (select 1 from calibrations s where s.supersedes_id = c.id)
+        and (c.source = 'in_house' or exists (select 1 from calibration_reviews r where r.calibration_id = c.id and r.accepted and r.reviewed_at <= ${atTs}))
+      order by c.tool_id, c.performed_at desc`),
+    db.execute(sql`
+      select distinct on (c.tool_id) c.tool_id, c.performed_at, coalesce(l.name, 'outside lab') as lab
+      from calibrations c left join labs l on l.id = c.lab_id
+      where c.tool_id = any(${ids}) and c.source = 'outside_lab' and c.performed_at <= ${atTs}
+        and not exists (select 1 from calibration_reviews r where r.calibration_id = c.id and r.reviewed_at <= ${atTs})
+        and not exists (select 1 from calibrations s where s.supersedes_id = c.id)
+      order by c.tool_id, c.performed_at desc`),
+    db.execute(sql`
+      select distinct on (k.tool_id) k.tool_id, k.performed_at, k.deviation
+      from intermediate_checks k
+      where k.tool_id = any(${ids}) and not k.passed and k.performed_at <= ${atTs}
+      order by k.tool_id, k.performed_at desc`),
+    db.execute(sql`
+      select distinct on (h.tool_id) h.tool_id, h.placed_at, h.reason
+      from holds h
+      where h.tool_id = any(${ids}) and h.placed_at <= ${atTs} and (h.released_at is null or h.released_at > ${atTs})
+      order by h.tool_id, h.placed_at desc`),
+    db.execute(sql`
+      select distinct on (s.tool_id) s.tool_id, s.shipped_at, s.expected_back_at, l.name as lab
+      from lab_shipments s join labs l on l.id = s.lab_id
+      where s.tool_id = any(${ids}) and s.shipped_at <= ${atTs} and (s.received_at is null or s.received_at > ${atTs})
+      order by s.tool_id, s.shipped_at desc`),
+    db.execute(sql`
+      select distinct on (c.tool_id) c.id, c.tool_id, c.user_id, c.issued_at, c.due_back_at, u.name, u.email
+      from checkouts c join users u on u.id = c.user_id
+      where c.tool_id = any(${ids}) and c.issued_at <= ${atTs} and (c.returned_at is null or c.returned_at > ${atTs})
+      order by c.tool_id, c.issued_at desc`),
+  ]);
+
+  const byTool = (rows: Row[]) => new Map(rows.map((r) => [String(r.tool_id), r]));
+  const calMap = byTool(cals.rows as Row[]);
+  const pendingMap = byTool(pending.rows as Row[]);
+  const checkMap = byTool(checks.rows as Row[]);
+  const holdMap = byTool(holds.rows as Row[]);
+  const labMap = byTool(labs.rows as Row[]);
+  const custodyMap = byTool(custody.rows as Row[]);
+
+  // Uses since the calibration that counts: check-outs after it, up to `at`.
+  const usesRows = await db.execute(sql`
+    select c.tool_id, count(*)::int as uses
+    from checkouts c
+    left join lateral (select max(x.performed_at) as since from calibrations x where x.tool_id = c.tool_id and x.performed_at <= ${atTs}) cal on true
+    where c.tool_id = any(${ids}) and c.issued_at <= ${atTs} and (cal.since is null or c.issued_at > cal.since)
+    group by c.tool_id`);
+  const uses = new Map((usesRows.rows as Row[]).map((r) => [String(r.tool_id), Number(r.uses)]));
+
+  for (const t of tools.rows as Row[]) {
+    const id = String(t.id);
+    const cal = calMap.get(id);
+    const calAt = cal ? iso(cal.performed_at)! : null;
+    const failed = checkMap.get(id);
+    const failedAt = failed ? iso(failed.performed_at)! : null;
+    const lastCalibration = cal
+      ? {
+          id: String(cal.id),
+          performedAt: calAt!,
+          result: cal.result as "pass" | "adjusted" | "fail" | "limited",
+          nextDueAt: dateOnly(cal.next_due_at)!,
+          limitedRange:
+            cal.limited_min != null && cal.limited_max != null
+              ? { min: Number(cal.limited_min), max: Number(cal.limited_max), unit: cal.unit as "in" | "mm", note: (cal.limited_note as string) ?? null }
+              : null,
+        }
+      : null;
+    const p = pendingMap.get(id);
+    const hold = holdMap.get(id);
+    const lab = labMap.get(id);
+    const cust = custodyMap.get(id);
+    const input: ToolStatusInput = {
+      at: atTs,
+      timeZone: ctx.timeZone,
+      dueSoonDays: ctx.dueSoonDays,
+      tool: { calibrationRequired: Boolean(t.calibration_required), lifecycle: t.lifecycle as ToolStatusInput["tool"]["lifecycle"], usageLimit: t.usage_limit == null ? null : Number(t.usage_limit) },
+      lastCalibration,
+      pendingReview: p && (!calAt || iso(p.performed_at)! > calAt) ? { performedAt: iso(p.performed_at)!, lab: String(p.lab) } : null,
+      usesSinceCalibration: uses.get(id) ?? 0,
+      failedCheckSinceCalibration: failed && (!calAt || failedAt! > calAt) ? { performedAt: failedAt!, deviation: Number(failed.deviation) } : null,
+      hold: hold ? { reason: String(hold.reason), since: iso(hold.placed_at)! } : null,
+      atLab: lab ? { since: iso(lab.shipped_at)!, lab: String(lab.lab), expectedBackAt: dateOnly(lab.expected_back_at) } : null,
+    };
+    const result = deriveToolStatus(input);
+    out.set(id, {
+      ...result,
+      toolId: id,
+      assetTag: String(t.asset_tag),
+      lastCalibration,
+      custodian: cust
+        ? { checkoutId: String(cust.id), userId: String(cust.user_id), name: String(cust.name), email: String(cust.email), since: iso(cust.issued_at)!, dueBackAt: iso(cust.due_back_at)! }
+        : null,
+    });
+  }
+  return out;
+}
+
+/** One tool's status at an instant. */
+export async function statusOf(db: DbOrTx, toolId: string, at: Date, ctx: StatusContext): Promise<ToolStatusView> {
+  const m = await statusesFor(db, [toolId], at, ctx);
+  const v = m.get(toolId);
+  if (!v) throw new Error(`tool ${toolId} not found`);
+  return v;
+}

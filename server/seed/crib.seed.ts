@@ -1,0 +1,3 @@
+import type { SeedContext } from "./seed-context";
+
+export async function seedCrib(_ctx: SeedContext): Promise<void> {}

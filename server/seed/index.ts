@@ -1,0 +1,39 @@
+import { eq } from "drizzle-orm";
+import type { SeedContext } from "./seed-context";
+import { settings } from "../modules/settings/settings.table";
+import { seedUsers } from "./users.seed";
+import { seedRegister } from "./register.seed";
+import { seedCrib } from "./crib.seed";
+import { seedInspection } from "./inspection.seed";
+import { seedInvestigations } from "./investigations.seed";
+import { seedReminders } from "./reminders.seed";
+
+const MARK = "demo_seeded_at";
+
+/**
+ * Seeds the invented demo shop once. A marker row in settings records that it
+ * ran, so later starts never wipe or duplicate anything; a database that
+ * already has people in it is never seeded.
+ */
+export async function seedDemoOnce(ctx: Omit<SeedContext, "users" | "people" | "shared">, password: string): Promise<boolean> {
+  const { db } = ctx;
+  const marked = await db.query.settings.findFirst({ where: eq(settings.key, MARK) });
+  if (marked) return false;
+  const anyone = await db.query.users.findFirst();
+  if (anyone) return false;
+
+  const people = await seedUsers(db, password);
+  const full: SeedContext = {
+    ...ctx,
+    people,
+    users: { admin: people.admin, quality: people.quality, inspector: people.inspector, crib: people.crib, mechanic: people.mechanic, auditor: people.auditor },
+    shared: {},
+  };
+  await seedRegister(full);
+  await seedCrib(full);
+  await seedInspection(full);
+  await seedInvestigations(full);
+  await seedReminders(full);
+  await db.insert(settings).values({ key: MARK, value: { at: ctx.clock.now().toISOString() } });
+  return true;
+}

@@ -1,0 +1,3 @@
+import type { SeedContext } from "./seed-context";
+
+export async function seedReminders(_ctx: SeedContext): Promise<void> {}

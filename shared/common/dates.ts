@@ -1,0 +1,60 @@
+// Due dates are calendar dates in the shop's time zone (api.md); instants are converted once, here.
+
+const formatters = new Map<string, Intl.DateTimeFormat>();
+
+function formatterFor(timeZone: string): Intl.DateTimeFormat {
+  let f = formatters.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat("en-US", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
+    formatters.set(timeZone, f);
+  }
+  return f;
+}
+
+const DATE_RE = /^(\d{4})-(\d{2})-(\d{2})$/;
+const MS_PER_DAY = 86_400_000;
+
+/** True when text is a real calendar date written YYYY-MM-DD. */
+export function isCalendarDate(text: string): boolean {
+  const m = DATE_RE.exec(text);
+  if (!m) return false;
+  const d = new Date(Date.UTC(+m[1], +m[2] - 1, +m[3]));
+  return d.getUTCFullYear() === +m[1] && d.getUTCMonth() === +m[2] - 1 && d.getUTCDate() === +m[3];
+}
+
+/** True when the runtime knows the IANA time zone name. */
+export function isValidTimeZone(timeZone: string): boolean {
+  try {
+    formatterFor(timeZone);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** The calendar date (YYYY-MM-DD) an instant falls on in the given time zone. */
+export function calendarDate(instant: Date | string, timeZone: string): string {
+  const d = instant instanceof Date ? instant : new Date(instant);
+  if (Number.isNaN(d.getTime())) throw new RangeError(`Not an instant: ${String(instant)}`);
+  const parts = formatterFor(timeZone).formatToParts(d);
+  const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? "";
+  return `${get("year").padStart(4, "0")}-${get("month")}-${get("day")}`;
+}
+
+function toUtcMs(date: string): number {
+  if (!isCalendarDate(date)) throw new RangeError(`Not a calendar date (YYYY-MM-DD): ${date}`);
+  const m = DATE_RE.exec(date)!;
+  return Date.UTC(+m[1], +m[2] - 1, +m[3]);
+}
+
+/** The calendar date a whole number of days after (or before, if negative) the given date. */
+export function addDays(date: string, days: number): string {
+  if (!Number.isInteger(days)) throw new RangeError(`Days must be a whole number: ${days}`);
+  // Counting on UTC midnights keeps every day 24 h long, so DST never shifts a calendar date.
+  return new Date(toUtcMs(date) + days * MS_PER_DAY).toISOString().slice(0, 10);
+}
+
+/** Whole calendar days from one date to another (negative when toDate is earlier). */
+export function daysBetween(fromDate: string, toDate: string): number {
+  return Math.round((toUtcMs(toDate) - toUtcMs(fromDate)) / MS_PER_DAY);
+}

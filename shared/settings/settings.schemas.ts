@@ -1,0 +1,34 @@
+import { z } from "zod";
+
+/** Shop settings an admin can change; defaults apply until they do. */
+export const SettingsSchema = z.object({
+  shopName: z.string().trim().min(1).max(120),
+  shopTimeZone: z.string().min(1),
+  dueSoonDays: z.number().int().min(0).max(365),
+  reminderCron: z.string().min(9).max(100),
+  reminderStages: z.array(z.number().int().min(0).max(365)).min(1).max(10),
+  escalationDays: z.number().int().min(1).max(365),
+  endOfShift: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time HH:MM."),
+  reliabilityTarget: z.number().gt(0.5).lt(1),
+  maxIntervalStepFactor: z.number().min(1).max(5),
+  windowStartsAtPassingCheck: z.boolean(),
+  defaultLengthUnit: z.enum(["in", "mm"]),
+  recordRetentionYears: z.number().int().min(1).max(100),
+});
+export type Settings = z.infer<typeof SettingsSchema>;
+export const UpdateSettingsSchema = SettingsSchema.partial();
+export type UpdateSettings = z.infer<typeof UpdateSettingsSchema>;
+
+export const DEFAULT_SETTINGS: Omit<Settings, "shopTimeZone"> = {
+  shopName: "Tenthwise shop",
+  dueSoonDays: 30,
+  reminderCron: "0 6 * * *",
+  reminderStages: [30, 7, 0],
+  escalationDays: 7,
+  endOfShift: "17:00",
+  reliabilityTarget: 0.95,
+  maxIntervalStepFactor: 2,
+  windowStartsAtPassingCheck: false,
+  defaultLengthUnit: "in",
+  recordRetentionYears: 10,
+};

@@ -1,0 +1,128 @@
+import { useState, type ReactNode } from "react";
+import {
+  flexRender,
+  getCoreRowModel,
+  useReactTable,
+  type ColumnDef,
+  type SortingState,
+  type VisibilityState,
+  type OnChangeFn,
+} from "@tanstack/react-table";
+import { Button } from "./button";
+
+interface DataTableProps<T> {
+  columns: ColumnDef<T, any>[];
+  data: T[];
+  total: number;
+  page: number;
+  pageSize: number;
+  onPageChange: (page: number) => void;
+  sorting?: SortingState;
+  onSortingChange?: OnChangeFn<SortingState>;
+  /** Accessible name of the table. */
+  label: string;
+  loading?: boolean;
+  empty?: ReactNode;
+  toolbar?: ReactNode;
+  initialHidden?: string[];
+  rowKey?: (row: T) => string;
+}
+
+/**
+ * A server-paged, server-sorted table (TanStack Table in manual mode) with a
+ * column chooser. Filtering lives in the page above it, in the URL.
+ */
+export function DataTable<T>({ columns, data, total, page, pageSize, onPageChange, sorting, onSortingChange, label, loading, empty, toolbar, initialHidden, rowKey }: DataTableProps<T>) {
+  const [visibility, setVisibility] = useState<VisibilityState>(() => Object.fromEntries((initialHidden ?? []).map((c) => [c, false])));
+  const [choosing, setChoosing] = useState(false);
+  const table = useReactTable({
+    data,
+    columns,
+    state: { sorting: sorting ?? [], columnVisibility: visibility },
+    onSortingChange,
+    onColumnVisibilityChange: setVisibility,
+    manualSorting: true,
+    manualPagination: true,
+    enableSortingRemoval: false,
+    pageCount: Math.max(1, Math.ceil(total / pageSize)),
+    getCoreRowModel: getCoreRowModel(),
+    getRowId: rowKey ? (r) => rowKey(r) : undefined,
+  });
+  const pages = Math.max(1, Math.ceil(total / pageSize));
+  return (
+    <div className="rounded-card border border-paper-line bg-paper-raised shadow-card">
+      <div className="no-print flex flex-wrap items-center justify-between gap-2 border-b border-paper-line p-2">
+        <div className="flex flex-wrap items-center gap-2">{toolbar}</div>
+        <div className="relative">
+          <Button variant="ghost" onClick={() => setChoosing((v) => !v)} aria-expanded={choosing}>
+            Columns
+          </Button>
+          {choosing && (
+            <div className="absolute right-0 z-10 mt-1 w-56 rounded-md border border-paper-line bg-paper-raised p-2 shadow-card">
+              {table.getAllLeafColumns().map((c) => (
+                <label key={c.id} className="flex items-center gap-2 py-1 text-sm">
+                  <input type="checkbox" checked={c.getIsVisible()} onChange={c.getToggleVisibilityHandler()} />
+                  {typeof c.columnDef.header === "string" ? c.columnDef.header : c.id}
+                </label>
+              ))}
+            </div>
+          )}
+        </div>
+      </div>
+      <div className="overflow-x-auto">
+        <table className="w-full text-left text-sm" aria-label={label} aria-busy={loading}>
+          <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
+            {table.getHeaderGroups().map((hg) => (
+              <tr key={hg.id}>
+                {hg.headers.map((h) => {
+                  const sorted = h.column.getIsSorted();
+                  const sortable = h.column.getCanSort() && !!onSortingChange;
+                  return (
+                    <th key={h.id} scope="col" className="px-3 py-2 font-semibold" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
+                      {sortable ? (
+                        <button type="button" className="inline-flex items-center gap-1 uppercase" onClick={h.column.getToggleSortingHandler()}>
+                          {flexRender(h.column.columnDef.header, h.getContext())}
+                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                        </button>
+                      ) : (
+                        flexRender(h.column.columnDef.header, h.getContext())
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {table.getRowModel().rows.map((row) => (
+              <tr key={row.id} className="border-t border-paper-line hover:bg-paper">
+                {row.getVisibleCells().map((cell) => (
+                  <td key={cell.id} className="px-3 py-2 align-top">
+                    {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        {!loading && data.length === 0 && <div className="p-4">{empty ?? <p className="text-center text-ink-faint">Nothing matches.</p>}</div>}
+      </div>
+      <div className="no-print flex items-center justify-between gap-2 border-t border-paper-line p-2 text-sm">
+        <span>
+          {total === 0 ? "0" : `${(page - 1) * pageSize + 1}–${Math.min(page * pageSize, total)}`} of {total}
+        </span>
+        <div className="flex items-center gap-2">
+          <Button variant="secondary" disabled={page <= 1} onClick={() => onPageChange(page - 1)}>
+            Previous
+          </Button>
+          <span>
+            Page {page} of {pages}
+          </span>
+          <Button variant="secondary" disabled={page >= pages} onClick={() => onPageChange(page + 1)}>
+            Next
+          </Button>
+        </div>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,3 @@
+import type { FeatureModule } from "../../app/nav-types";
+
+export const feature: FeatureModule = { routes: [], nav: [] };

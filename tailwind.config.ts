@@ -1,0 +1,27 @@
+import type { Config } from "tailwindcss";
+
+// Tenthwise's own look: ink and paper like a shop traveller, a brass accent,
+// and three plain verdict colours that also carry words and shapes (never
+// colour alone) so a tag reads right in poor light or to a colour-blind eye.
+export default {
+  content: ["./index.html", "./src/**/*.{ts,tsx}"],
+  theme: {
+    extend: {
+      fontFamily: {
+        sans: ['"Noto Sans"', "system-ui", "sans-serif"],
+        mono: ['"Noto Sans Mono"', "ui-monospace", "monospace"],
+      },
+      colors: {
+        ink: { DEFAULT: "#1f2f3d", soft: "#3b4d5e", faint: "#6b7c8c" },
+        paper: { DEFAULT: "#f5f3ee", raised: "#ffffff", sunk: "#e9e5dc", line: "#d6d0c4" },
+        brass: { DEFAULT: "#b8862f", light: "#f3e3c0", dark: "#8a6320" },
+        go: { DEFAULT: "#2f7a4f", light: "#dcefe3" },
+        caution: { DEFAULT: "#a86a00", light: "#fbecc9" },
+        stop: { DEFAULT: "#b3261e", light: "#f9dedc" },
+        hold: { DEFAULT: "#5b4a8b", light: "#e7e2f4" },
+      },
+      borderRadius: { card: "0.6rem" },
+      boxShadow: { card: "0 1px 2px rgba(31,47,61,0.08), 0 2px 8px rgba(31,47,61,0.06)" },
+    },
+  },
+} satisfies Config;
