@@ -21,7 +21,7 @@ export const SCREENSHOT_DIR = path.resolve("test-results/screenshots");
  * Debian's package.
  */
 export async function startBrowserApp(opts: { clock?: Clock; seed?: boolean } = {}) {
-  const clientDir = path.resolve("dist/client");
+  const clientDir = path.resolve(process.env.TENTHWISE_CLIENT_DIR ?? "dist/client");
   if (!fs.existsSync(path.join(clientDir, "index.html"))) throw new Error("dist/client is missing: run `npm run build` (npm test does) before browser tests");
   const database = await createTestDatabase();
   const config = loadConfig({ NODE_ENV: "test", DATABASE_URL: database.url, SESSION_SECRET: "browser-test-session-secret", LOG_LEVEL: "silent", CRON_ENABLED: "false" });
