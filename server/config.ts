@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isValidTimeZone } from "../shared/common/dates";
 
 // Every environment variable is read here, once; a wrong one stops the process
 // with a message naming it.
@@ -39,11 +40,4 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   return parsed.data;
 }
 
-export function isValidTimeZone(tz: string): boolean {
-  try {
-    new Intl.DateTimeFormat("en-US", { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-}
+export { isValidTimeZone };

@@ -26,6 +26,8 @@ export const readings = pgTable(
     flags: jsonb("flags").$type<string[]>().notNull().default([]),
     temperatureC: numeric("temperature_c"),
     partMaterial: text("part_material"),
+    /** The tool's temperature when it differs from the part's (ISO 1 correction to 20 °C). */
+    toolTemperatureC: numeric("tool_temperature_c"),
     takenBy: uuid("taken_by").references(() => users.id),
     takenAt: timestamp("taken_at", { withTimezone: true }).notNull(),
     supersedesId: uuid("supersedes_id"),

@@ -1,0 +1,53 @@
+// Display only: lengths rounded for reading, never for storage or judging.
+import { formatLength, type LengthUnit } from "../../../../shared/common/units";
+
+/** Decimals to show for a tool: one more than its resolution needs, at least the unit's custom. */
+export function decimalsFor(unit: LengthUnit, resolution?: number | null): number {
+  const base = unit === "in" ? 4 : 3;
+  if (!resolution || resolution <= 0) return base;
+  const text = String(resolution);
+  const places = text.includes("e-") ? Number(text.split("e-")[1]) : (text.split(".")[1]?.length ?? 0);
+  return Math.max(base, places);
+}
+
+/** A length with its unit ("0.5000 in"), or a dash. */
+export function len(value: number | null | undefined, unit: LengthUnit, decimals?: number): string {
+  if (value == null) return "—";
+  return `${formatLength(value, unit, decimals ?? decimalsFor(unit))} ${unit}`;
+}
+
+/** A signed length for errors ("+0.00005"), without the unit. */
+export function signedLen(value: number | null | undefined, unit: LengthUnit, decimals?: number): string {
+  if (value == null) return "—";
+  const text = formatLength(value, unit, (decimals ?? decimalsFor(unit)) + 1);
+  return value > 0 && !/^0\.?0*$/.test(text) ? `+${text}` : text;
+}
+
+/** Calendar date as written in the records (YYYY-MM-DD stays as is: it is already the shop's date). */
+export function day(value: string | null | undefined): string {
+  if (!value) return "—";
+  return value.length === 10 ? value : new Date(value).toLocaleDateString(undefined, { year: "numeric", month: "short", day: "numeric" });
+}
+
+/** An instant as a short local date and time. */
+export function when(value: string | null | undefined): string {
+  if (!value) return "—";
+  return new Date(value).toLocaleString(undefined, { year: "numeric", month: "short", day: "numeric", hour: "2-digit", minute: "2-digit" });
+}
+
+export const OWNER_LABELS = { shop: "Shop", personal: "Personal (mechanic's own)", customer: "Customer's", loaner: "Loaner" } as const;
+
+export const RESULT_LABELS = { pass: "Pass", adjusted: "Adjusted (as-found out, as-left in)", fail: "Fail", limited: "Limited range" } as const;
+
+export const KIND_LABELS: Record<string, string> = {
+  outside_micrometer: "Outside micrometer",
+  inside_micrometer: "Inside micrometer",
+  telescoping_gauge: "Telescoping gauge",
+  small_hole_gauge: "Small-hole gauge",
+  feeler_set: "Feeler set",
+  dial_indicator: "Dial indicator",
+  caliper: "Caliper",
+  gauge_block_set: "Gauge block set",
+  setting_standard: "Setting standard",
+  other: "Other",
+};
