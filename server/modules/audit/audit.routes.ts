@@ -1,7 +1,41 @@
 import { Router } from "express";
+import { sql } from "drizzle-orm";
+import { defineRoutes } from "../../http/route";
 import type { AppDeps } from "../../app";
+import { auditRepository } from "./audit.repository";
+import { AuditFacetsSchema, AuditPageSchema, AuditQuerySchema } from "../../../shared/audit/audit.schemas";
+import { getSettings } from "../settings/settings.service";
 
-export function auditRoutes(_deps: AppDeps) {
+export function auditRoutes(deps: AppDeps) {
   const router = Router();
+  const route = defineRoutes(router, deps.registry, "audit");
+
+  route(
+    { method: "get", path: "/api/audit", summary: "The audit trail, newest first: filter by person, record and dates (a date is a whole day in the shop's zone)", access: "audit.read", query: AuditQuerySchema, response: AuditPageSchema },
+    async ({ query }) => {
+      const { shopTimeZone } = await getSettings(deps.db, deps.config.SHOP_TIME_ZONE);
+      // A calendar date means the whole day in the shop's time zone: from its first instant, to before the next day's.
+      const bound = (v: string | undefined, end: boolean) =>
+        !v
+          ? undefined
+          : /^\d{4}-\d{2}-\d{2}$/.test(v)
+            ? sql`((${v}::date + ${end ? 1 : 0}::int)::timestamp at time zone ${shopTimeZone}::text)`
+            : end
+              ? sql`(${v}::timestamptz + interval '1 millisecond')`
+              : sql`${v}::timestamptz`;
+      const { items, total } = await auditRepository.list(deps.db, {
+        ...query,
+        fromInstant: bound(query.from, false),
+        toInstantExclusive: bound(query.to, true),
+      });
+      return { items: items.map((e) => ({ ...e, at: e.at.toISOString() })), total };
+    },
+  );
+
+  route({ method: "get", path: "/api/audit/facets", summary: "Record types on the audit trail, for its filters", access: "audit.read", response: AuditFacetsSchema }, async () => ({
+    entityTypes: await auditRepository.entityTypes(deps.db),
+    actions: [],
+  }));
+
   return router;
 }

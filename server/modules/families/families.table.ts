@@ -1,17 +1,7 @@
 import { pgTable, uuid, text, integer, numeric, jsonb, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
+import { TOOL_KINDS } from "../../../shared/families/families.schemas";
 
-export const TOOL_KINDS = [
-  "outside_micrometer",
-  "inside_micrometer",
-  "telescoping_gauge",
-  "small_hole_gauge",
-  "feeler_set",
-  "dial_indicator",
-  "caliper",
-  "gauge_block_set",
-  "setting_standard",
-  "other",
-] as const;
+export { TOOL_KINDS };
 
 // Lengths are PostgreSQL numeric and travel through the server as exact
 // decimal strings; nothing is rounded on the way in.

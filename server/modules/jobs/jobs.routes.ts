@@ -1,7 +1,51 @@
 import { Router } from "express";
+import { z } from "zod";
+import { defineRoutes } from "../../http/route";
 import type { AppDeps } from "../../app";
+import { pageOf } from "../../../shared/common/lists.schemas";
+import { CheckSheetSchema, CreateJobSchema, JobListQuerySchema, JobSummarySchema, SignJobSchema } from "../../../shared/jobs/jobs.schemas";
+import { jobsRepository } from "./jobs.repository";
+import { jobsService } from "./jobs.service";
+import { buildCheckSheet, toJobSummary } from "./check-sheet.service";
+import { writeCheckSheetPdf } from "./check-sheet.pdf";
 
-export function jobsRoutes(_deps: AppDeps) {
+const Id = z.string().uuid("Not a job id.");
+
+export function jobsRoutes(deps: AppDeps) {
   const router = Router();
+  const route = defineRoutes(router, deps.registry, "jobs");
+  const service = jobsService(deps);
+
+  route(
+    { method: "get", path: "/api/jobs", summary: "Jobs (filters engineSerial, status open/signed, mine), newest first", access: "signedIn", query: JobListQuerySchema, response: pageOf(JobSummarySchema) },
+    async ({ query, user }) => {
+      const { items, total } = await jobsRepository.list(deps.db, query, user.id);
+      return { items: items.map(toJobSummary), total };
+    },
+  );
+
+  route({ method: "post", path: "/api/jobs", summary: "Open a job on a limits table", access: "jobs.create", body: CreateJobSchema, response: JobSummarySchema }, ({ body, user }) =>
+    service.create(body, user),
+  );
+
+  route({ method: "get", path: "/api/jobs/:id", summary: "The check sheet: items, readings, sizes, clearances, verdicts, flags, tools, sign-off", access: "signedIn", response: CheckSheetSchema }, ({ params }) =>
+    buildCheckSheet(deps.db, Id.parse(params.id)),
+  );
+
+  route(
+    { method: "post", path: "/api/jobs/:id/sign", summary: "Inspector sign-off with certificate number; locks the sheet", access: "jobs.sign", body: SignJobSchema, response: CheckSheetSchema, status: 200 },
+    ({ params, body, user }) => service.sign(Id.parse(params.id), body, user),
+  );
+
+  route(
+    { method: "get", path: "/api/jobs/:id/check-sheet.pdf", summary: "The check sheet as a printable PDF", access: "signedIn", produces: "application/pdf" },
+    async ({ params, res }) => {
+      const sheet = await buildCheckSheet(deps.db, Id.parse(params.id));
+      res.setHeader("Content-Type", "application/pdf");
+      res.setHeader("Content-Disposition", `inline; filename="check-sheet-${sheet.engineSerial.replace(/[^A-Za-z0-9_-]/g, "_")}.pdf"`);
+      res.end(await writeCheckSheetPdf(sheet, deps.clock.now(), deps.config.SHOP_TIME_ZONE));
+    },
+  );
+
   return router;
 }

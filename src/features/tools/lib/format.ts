@@ -38,16 +38,3 @@ export function when(value: string | null | undefined): string {
 export const OWNER_LABELS = { shop: "Shop", personal: "Personal (mechanic's own)", customer: "Customer's", loaner: "Loaner" } as const;
 
 export const RESULT_LABELS = { pass: "Pass", adjusted: "Adjusted (as-found out, as-left in)", fail: "Fail", limited: "Limited range" } as const;
-
-export const KIND_LABELS: Record<string, string> = {
-  outside_micrometer: "Outside micrometer",
-  inside_micrometer: "Inside micrometer",
-  telescoping_gauge: "Telescoping gauge",
-  small_hole_gauge: "Small-hole gauge",
-  feeler_set: "Feeler set",
-  dial_indicator: "Dial indicator",
-  caliper: "Caliper",
-  gauge_block_set: "Gauge block set",
-  setting_standard: "Setting standard",
-  other: "Other",
-};

@@ -1,10 +1,13 @@
-// The calibration form's live answer: the SAME shared computations the server
-// signs with (judgePoint, calibrationResult, uncertaintyBudget, nextDueAt), fed
-// with what the person has typed so far. Nothing here is a second rule set.
-import { calibrationResult, DecisionRuleError, judgePoint, type CalibrationResult, type DecisionRule, type JudgedPoint } from "../../../../shared/calibrations/decision-rules";
-import { uncertaintyBudget, type UncertaintyBudget } from "../../../../shared/calibrations/uncertainty";
+// The calibration form's live answer: the SAME shared computation the server
+// signs with (computeCalibration → judgePoint, uncertaintyBudget,
+// calibrationResult; nextDueAt), fed with what the person has typed so far.
+// Nothing here is a second rule set: it only decides what is complete enough to judge.
+import { computeCalibration, type ComputedPoint, type ComputeCalibrationInput, type ComputePointInput, type ComputeStandard } from "../../../../shared/calibrations/calibration-compute";
+import { DecisionRuleError, type CalibrationResult } from "../../../../shared/calibrations/decision-rules";
 import { nextDueAt } from "../../../../shared/calibrations/due-dates";
-import { convertLength, type LengthUnit } from "../../../../shared/common/units";
+import { dec } from "../../../../shared/common/decimal";
+import type { Certificate } from "../../../../shared/standards/standards.schemas";
+import type { LengthUnit } from "../../../../shared/common/units";
 
 /** One check point as typed in the form (text, so nothing is rounded while typing). */
 export interface PointText {
@@ -16,22 +19,7 @@ export interface PointText {
   uncertainty: string;
 }
 
-/** The certificate of a reference standard as far as the budget needs it. */
-export interface StandardCertForBudget {
-  expandedUncertainty: number;
-  coverageFactor: number;
-  unit: LengthUnit;
-}
-
-export interface LiveContext {
-  rule: DecisionRule;
-  unit: LengthUnit;
-  resolution: number | null;
-  /** The family's permissible error, used where a point leaves MPE blank. */
-  defaultMpe: number | null;
-  temperatureC: number | null;
-  /** Certificates of the standards chosen; the budget takes the largest U/k (the conservative choice). */
-  standards: StandardCertForBudget[];
+export interface LiveContext extends Omit<ComputeCalibrationInput, "points" | "limitedRange"> {
   limitedRange: { min: number; max: number } | null;
   performedAt: string | null;
   intervalDays: number | null;
@@ -39,11 +27,7 @@ export interface LiveContext {
 }
 
 export interface LivePoint {
-  judged: JudgedPoint | null;
-  /** U used for the point: typed, or from the budget. */
-  uncertainty: number | null;
-  uncertaintySource: "given" | "budget" | null;
-  budget: UncertaintyBudget | null;
+  computed: ComputedPoint | null;
   /** Why the point cannot be judged yet, in plain words. */
   problem: string | null;
 }
@@ -55,7 +39,7 @@ export interface LiveCalibration {
   lowTurPoints: number;
 }
 
-/** A typed number, or null while blank or unfinished ("0.", "-"). */
+/** A typed number, or null while blank or unfinished ("-", "abc"). */
 export function parseNumber(text: string | null | undefined): number | null {
   if (text == null) return null;
   const t = text.trim();
@@ -64,72 +48,48 @@ export function parseNumber(text: string | null | undefined): number | null {
   return Number.isFinite(n) ? n : null;
 }
 
-/** The budget the server uses when a point gives no U: certificate U/k, resolution, temperature; k = 2. */
-export function pointBudget(nominal: number, ctx: LiveContext): UncertaintyBudget | null {
-  if (ctx.resolution == null || ctx.standards.length === 0) return null;
-  const inToolUnit = ctx.standards.map((s) => ({
-    u: convertLength(s.expandedUncertainty, s.unit, ctx.unit).toNumber() / s.coverageFactor,
-    s,
-  }));
-  const worst = inToolUnit.reduce((a, b) => (b.u > a.u ? b : a));
-  return uncertaintyBudget({
-    standardU: convertLength(worst.s.expandedUncertainty, worst.s.unit, ctx.unit).toNumber(),
-    standardK: worst.s.coverageFactor,
-    resolution: ctx.resolution,
-    lengthMm: convertLength(nominal, ctx.unit, "mm").toNumber(),
-    tempC: ctx.temperatureC,
-    unit: ctx.unit,
-  });
+/** A standard's certificate as the shared computation takes it (the server builds the same from its rows). */
+export function standardForCompute(standard: { unit: LengthUnit; nominal: number | null }, cert: Certificate): ComputeStandard {
+  const certifiedValues: NonNullable<ComputeStandard["certifiedValues"]> = [];
+  if (standard.nominal != null && cert.certifiedValue != null) certifiedValues.push({ nominal: standard.nominal, value: cert.certifiedValue });
+  for (const e of cert.elementValues ?? []) certifiedValues.push({ nominal: e.nominal, value: dec(e.nominal).plus(dec(e.deviation)) });
+  return { unit: standard.unit, expandedUncertainty: cert.expandedUncertainty, coverageFactor: cert.coverageFactor, certifiedValues };
 }
 
-function livePoint(p: PointText, ctx: LiveContext): LivePoint {
-  const empty = (problem: string): LivePoint => ({ judged: null, uncertainty: null, uncertaintySource: null, budget: null, problem });
+const PROBLEMS: Record<string, string> = {
+  uncertainty_required: "Guarded acceptance needs U: type it, or choose a standard so it can be computed.",
+  invalid_mpe: "Enter the permissible error (the family gives none here).",
+};
+
+function toPoint(p: PointText): { point: ComputePointInput } | { problem: string } {
   const nominal = parseNumber(p.nominal);
   const asFound = parseNumber(p.asFound);
-  if (nominal == null) return empty("Enter the nominal size.");
-  if (asFound == null) return empty("Enter the as-found reading.");
-  const mpe = parseNumber(p.mpe) ?? ctx.defaultMpe;
-  if (mpe == null) return empty("Enter the permissible error (the family gives none).");
-  const given = parseNumber(p.uncertainty);
-  const budget = given == null ? pointBudget(nominal, ctx) : null;
-  const U = given ?? budget?.expanded ?? null;
-  try {
-    const judged = judgePoint({
-      nominal,
-      reference: parseNumber(p.reference),
-      asFound,
-      asLeft: parseNumber(p.asLeft),
-      mpe,
-      uncertainty: U,
-      rule: ctx.rule,
-    });
-    return { judged, uncertainty: U, uncertaintySource: given != null ? "given" : budget ? "budget" : null, budget, problem: null };
-  } catch (e) {
-    if (e instanceof DecisionRuleError) {
-      return empty(
-        e.code === "uncertainty_required"
-          ? "Guarded acceptance needs U: type it, or choose a standard so it can be computed."
-          : "The permissible error must be greater than zero.",
-      );
-    }
-    throw e;
-  }
+  if (nominal == null) return { problem: "Enter the nominal size." };
+  if (asFound == null) return { problem: "Enter the as-found reading." };
+  return { point: { nominal, asFound, reference: parseNumber(p.reference), asLeft: parseNumber(p.asLeft), mpe: parseNumber(p.mpe), uncertainty: parseNumber(p.uncertainty) } };
 }
 
 /** Everything the form shows while the person types: per-point error, verdict, U and TUR; overall result; next due date. */
 export function liveCalibration(points: PointText[], ctx: LiveContext): LiveCalibration {
-  const live = points.map((p) => livePoint(p, ctx));
-  const judged = live.map((l) => l.judged);
-  const complete = judged.length > 0 && judged.every((j): j is JudgedPoint => j != null);
-  let overall: LiveCalibration["overall"] = null;
-  if (complete) overall = calibrationResult(judged as JudgedPoint[], { limitedRange: ctx.limitedRange });
-  let due: string | null = null;
-  if (ctx.performedAt && ctx.intervalDays && ctx.timeZone && !Number.isNaN(Date.parse(ctx.performedAt))) {
+  const { performedAt, intervalDays, timeZone, limitedRange, ...base } = ctx;
+  const parsed = points.map(toPoint);
+  const live: LivePoint[] = parsed.map((p) => {
+    if (!("point" in p)) return { computed: null, problem: p.problem };
     try {
-      due = nextDueAt({ performedAt: new Date(ctx.performedAt).toISOString(), intervalDays: ctx.intervalDays, timeZone: ctx.timeZone });
-    } catch {
-      due = null;
+      return { computed: computeCalibration({ ...base, limitedRange: null, points: [p.point] }).points[0], problem: null };
+    } catch (e) {
+      if (e instanceof DecisionRuleError) return { computed: null, problem: PROBLEMS[e.code] ?? e.message };
+      throw e;
     }
+  });
+  let overall: LiveCalibration["overall"] = null;
+  if (live.length > 0 && live.every((l) => l.computed)) {
+    const all = computeCalibration({ ...base, limitedRange, points: parsed.flatMap((p) => ("point" in p ? [p.point] : [])) });
+    overall = { result: all.result, asFoundInTolerance: all.asFoundInTolerance };
   }
-  return { points: live, overall, nextDueAt: due, lowTurPoints: live.filter((l) => l.judged?.turAdequate === false).length };
+  let due: string | null = null;
+  if (performedAt && intervalDays && timeZone && !Number.isNaN(Date.parse(performedAt))) {
+    due = nextDueAt({ performedAt: new Date(performedAt).toISOString(), intervalDays, timeZone });
+  }
+  return { points: live, overall, nextDueAt: due, lowTurPoints: live.filter((l) => l.computed?.turAdequate === false).length };
 }

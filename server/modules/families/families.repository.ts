@@ -1,0 +1,34 @@
+import { and, asc, count, eq, ilike, sql } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+import { families } from "./families.table";
+import { tools } from "../tools/tools.table";
+
+export type FamilyRow = typeof families.$inferSelect;
+
+const toolCount = sql<number>`(select count(*)::int from ${tools} where ${tools.familyId} = ${families.id})`;
+
+export const familiesRepository = {
+  findById: (db: DbOrTx, id: string) => db.query.families.findFirst({ where: eq(families.id, id) }),
+  findByName: (db: DbOrTx, name: string) => db.query.families.findFirst({ where: sql`lower(${families.name}) = lower(${name})` }),
+  async countTools(db: DbOrTx, id: string) {
+    const [{ n }] = await db.select({ n: count() }).from(tools).where(eq(tools.familyId, id));
+    return n;
+  },
+  async list(db: DbOrTx, opts: { q?: string; kind?: FamilyRow["kind"]; page: number; pageSize: number }) {
+    const where = and(opts.q ? ilike(families.name, `%${opts.q}%`) : undefined, opts.kind ? eq(families.kind, opts.kind) : undefined);
+    const [items, [{ total }]] = await Promise.all([
+      db
+        .select({ family: families, toolCount })
+        .from(families)
+        .where(where)
+        .orderBy(asc(families.name))
+        .limit(opts.pageSize)
+        .offset((opts.page - 1) * opts.pageSize),
+      db.select({ total: count() }).from(families).where(where),
+    ]);
+    return { items, total };
+  },
+  insert: async (db: DbOrTx, values: typeof families.$inferInsert) => (await db.insert(families).values(values).returning())[0],
+  update: async (db: DbOrTx, id: string, values: Partial<typeof families.$inferInsert>) =>
+    (await db.update(families).set(values).where(eq(families.id, id)).returning())[0],
+};

@@ -1,0 +1,125 @@
+import { and, eq, sql } from "drizzle-orm";
+import { drizzle } from "drizzle-orm/node-postgres";
+import type pg from "pg";
+import * as schema from "../../db/schema";
+import type { Db, DbOrTx } from "../../db/client";
+import type { Clock } from "../../platform/clock";
+import type { Mailer } from "../../platform/mailer";
+import { recordAudit } from "../audit/audit.repository";
+import { INVESTIGATION_CAUTIONS } from "../../../shared/investigations/investigations.schemas";
+import { investigations } from "./investigations.table";
+import { itemSummaries, noticeRecipients, pendingNoticeIds } from "./investigations.repository";
+import type { StoredFinding } from "./investigations.service";
+
+export interface Recipient {
+  email: string;
+  name: string;
+  reasons: string[];
+}
+
+/**
+ * Works out who is told that an investigation opened (quality, and for every affected job the inspector who
+ * signed it and whoever measured) and records them on the investigation as pending, inside the opening
+ * transaction. The mail itself goes out only once that transaction has committed (see sendAfterCommit).
+ */
+export async function recordNotices(tx: DbOrTx, investigationId: string, finding: StoredFinding): Promise<StoredFinding> {
+  const { quality, measured, signed } = await noticeRecipients(tx, investigationId);
+  const byEmail = new Map<string, Recipient>();
+  const add = (u: { email: string; name: string }, reason: string) => {
+    const r = byEmail.get(u.email) ?? { email: u.email, name: u.name, reasons: [] };
+    if (!r.reasons.includes(reason)) r.reasons.push(reason);
+    byEmail.set(u.email, r);
+  };
+  for (const u of quality) add(u, "quality");
+  for (const u of signed) add(u, `signed the check sheet of engine ${u.engineSerial}`);
+  for (const u of measured) add(u, `measured on engine ${u.engineSerial}`);
+  const next: StoredFinding = { ...finding, notifications: { status: "pending", recipients: [...byEmail.values()], sentAt: null } };
+  await tx.update(investigations).set({ finding: next }).where(eq(investigations.id, investigationId));
+  return next;
+}
+
+/**
+ * Sends an investigation's pending notices once its opening transaction has committed. The hook runs inside the
+ * caller's transaction and cannot see its end, so the pooled connection's release (which drizzle calls after
+ * COMMIT or ROLLBACK) is where delivery starts: still on that connection, it claims the notices — a rolled-back
+ * investigation has none to claim — then lets the connection go back to the pool.
+ */
+export function sendAfterCommit(tx: DbOrTx, mailer: Mailer | undefined, clock: Clock, investigationId: string) {
+  if (!mailer) return;
+  const client = (tx as unknown as { session?: { client?: unknown } }).session?.client as (pg.PoolClient & { release: (err?: Error | boolean) => void }) | undefined;
+  if (client && typeof client.release === "function") {
+    const release = client.release;
+    client.release = (err?: Error | boolean) => {
+      client.release = release;
+      if (err) return release.call(client, err);
+      const db = drizzle(client, { schema }) as unknown as Db;
+      deliverNotices(db, mailer, clock, investigationId)
+        .catch(() => undefined)
+        .finally(() => release.call(client));
+    };
+    return;
+  }
+  // Not inside a pooled transaction: every statement has already committed.
+  queueMicrotask(() => void deliverNotices(tx as Db, mailer, clock, investigationId).catch(() => undefined));
+}
+
+/** Sends every notice still pending (a sweep for notices a crash left behind; the seed uses it too). */
+export async function deliverPendingNotices(db: Db, mailer: Mailer, clock: Clock): Promise<number> {
+  let sent = 0;
+  for (const id of await pendingNoticeIds(db)) sent += await deliverNotices(db, mailer, clock, id);
+  return sent;
+}
+
+const isPending = sql`${investigations.finding}->'notifications'->>'status' = 'pending'`;
+
+/** Claims the pending notices of one investigation (exactly once), sends them, and records who was told. */
+export async function deliverNotices(db: Db, mailer: Mailer, clock: Clock, investigationId: string): Promise<number> {
+  const [claimed] = await db
+    .update(investigations)
+    .set({ finding: sql`jsonb_set(${investigations.finding}, '{notifications,status}', '"sending"')` })
+    .where(and(eq(investigations.id, investigationId), isPending))
+    .returning();
+  if (!claimed) return 0;
+  const finding = claimed.finding as StoredFinding;
+  const recipients = finding.notifications?.recipients ?? [];
+  const { counts } = await itemSummaries(db, [investigationId]);
+  const c = counts.get(investigationId) ?? { items: 0, couldChange: 0, undisposed: 0 };
+  let error: string | null = null;
+  let sent = 0;
+  for (const r of recipients) {
+    try {
+      await mailer.send(noticeMail(r, finding, investigationId, c));
+      sent++;
+    } catch (e) {
+      error = e instanceof Error ? e.message : String(e);
+    }
+  }
+  const at = clock.now();
+  const notifications = { ...finding.notifications!, status: error ? ("failed" as const) : ("sent" as const), sentAt: at.toISOString(), error };
+  await db.update(investigations).set({ finding: { ...finding, notifications } }).where(eq(investigations.id, investigationId));
+  await recordAudit(db, {
+    actorId: null,
+    action: "investigation.notified",
+    entityType: "investigation",
+    entityId: investigationId,
+    after: { recipients: recipients.map((r) => ({ email: r.email, reasons: r.reasons })), sent, error },
+    at,
+  });
+  return sent;
+}
+
+function noticeMail(r: Recipient, finding: StoredFinding, id: string, c: { items: number; couldChange: number }) {
+  const subject = `Out-of-tolerance investigation opened: ${finding.subject}`;
+  const lines = [
+    `Hello ${r.name},`,
+    "",
+    `An out-of-tolerance investigation has opened in Tenthwise: ${finding.summary}`,
+    `Affected items: ${c.items}; verdicts that could have been different: ${c.couldChange}.`,
+    `You are told because you ${r.reasons.map((x) => (x === "quality" ? "are in quality" : x)).join("; ")}.`,
+    "",
+    `Open it in Tenthwise under Investigations (/investigations/${id}).`,
+    "",
+    ...INVESTIGATION_CAUTIONS,
+  ];
+  return { to: r.email, subject, text: lines.join("\n") };
+}

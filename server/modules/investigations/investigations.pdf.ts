@@ -1,0 +1,111 @@
+import { createRequire } from "node:module";
+import PDFDocument from "pdfkit";
+import type { LengthUnit } from "../../../shared/common/units";
+import { formatExactLength, formatSignedLength } from "../../../shared/investigations/format";
+import { DISPOSITION_LABELS, INVESTIGATION_CAUTIONS, TRIGGER_LABELS, type InvestigationDetail, type InvestigationItem } from "../../../shared/investigations/investigations.schemas";
+
+const require = createRequire(import.meta.url);
+const FONT = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-400-normal.woff");
+const FONT_BOLD = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-700-normal.woff");
+
+const when = (iso: string | null, tz: string) =>
+  iso
+    ? new Intl.DateTimeFormat("en-CA", { timeZone: tz, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit", hour12: false })
+        .format(new Date(iso))
+        .replace(",", "")
+    : "—";
+
+const len = (v: number | null, unit: LengthUnit | null) => (v == null ? "—" : unit ? `${formatExactLength(v, unit)} ${unit}` : String(v));
+const signedLen = (v: number | null, unit: LengthUnit | null) => (v == null ? "—" : unit ? `${formatSignedLength(v, unit)} ${unit}` : String(v));
+
+function itemTitle(i: InvestigationItem): string {
+  if (i.kind === "calibration") return `Calibration of ${i.toolAssetTag ?? ""} on ${i.takenAt?.slice(0, 10) ?? ""}`;
+  const job = i.job ? `Engine ${i.job.engineSerial}${i.job.workOrder ? ` (WO ${i.job.workOrder})` : ""}` : "";
+  return `${job} — ${i.itemLabel ?? i.itemKey}${i.index && i.index > 1 ? ` #${i.index}` : ""} — tool ${i.toolAssetTag ?? ""}`;
+}
+
+/**
+ * The investigation report: the finding, the window, every affected reading with its re-judged margins and
+ * disposition, the closing summary, and the cautions (the flags prompt a qualified evaluation; they are not
+ * determinations).
+ */
+export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date, tz: string): Promise<Buffer> {
+  const doc = new PDFDocument({ size: "LETTER", margin: 48, info: { Title: `Investigation ${inv.toolAssetTag ?? ""}`, Author: "Tenthwise" } });
+  doc.registerFont("body", FONT);
+  doc.registerFont("bold", FONT_BOLD);
+  const chunks: Buffer[] = [];
+  doc.on("data", (c: Buffer) => chunks.push(c));
+  const done = new Promise<Buffer>((resolve) => doc.on("end", () => resolve(Buffer.concat(chunks))));
+
+  const heading = (text: string) => doc.moveDown(0.6).font("bold").fontSize(12).text(text).font("body").fontSize(9.5);
+  const fact = (k: string, v: string) => doc.font("bold").text(`${k}: `, { continued: true }).font("body").text(v);
+
+  doc.font("bold").fontSize(16).text(`Out-of-tolerance investigation — ${inv.toolAssetTag ?? ""}`);
+  doc.font("body").fontSize(9).fillColor("#555").text(`Printed ${when(printedAt.toISOString(), tz)} (${tz}) by Tenthwise`).fillColor("black").fontSize(9.5);
+
+  heading("Finding");
+  fact("Trigger", TRIGGER_LABELS[inv.trigger]);
+  if (inv.tool) fact("Tool", `${inv.tool.assetTag} — ${inv.tool.description}`);
+  if (inv.standard) fact("Reference standard", `${inv.standard.assetTag} — ${inv.standard.name}`);
+  doc.text(inv.finding.summary);
+  if (inv.finding.errors) {
+    const u = inv.finding.unit;
+    doc.text(
+      `Errors found: ${inv.finding.errors.map((e) => `${signedLen(e.error, u)} at ${len(e.nominal, u)}${e.mpe != null ? ` (permissible ±${len(e.mpe, u)})` : ""}${e.uncertainty ? ` U ${len(e.uncertainty, u)}` : ""}`).join("; ")}`,
+    );
+  } else doc.text("Errors found: unknown — every affected reading could have been judged differently.");
+  if (inv.finding.note) fact("Note", inv.finding.note);
+  fact("Opened", `${when(inv.openedAt, tz)}${inv.openedBy ? ` by ${inv.openedBy}` : ""}`);
+  fact("Status", inv.status === "open" ? "open" : `closed ${when(inv.closedAt, tz)}${inv.closedBy ? ` by ${inv.closedBy}` : ""}`);
+  if (inv.finding.notifications) {
+    fact("Notified", inv.finding.notifications.recipients.map((r) => `${r.name} <${r.email}>`).join(", ") || "nobody");
+  }
+
+  heading("Window");
+  fact("From", inv.windowStart ? when(inv.windowStart, tz) : "never known good — every reading before the finding");
+  fact("To", when(inv.windowEnd, tz));
+  doc.text(inv.finding.windowRule);
+
+  heading(`Affected items (${inv.affectedCount}; ${inv.couldChangeCount} could have had a different verdict)`);
+  if (inv.items.length === 0) doc.text("No reading was taken with the tool in the window.");
+  for (const i of inv.items) {
+    if (doc.y > doc.page.height - 160) doc.addPage();
+    doc.moveDown(0.4).font("bold").text(itemTitle(i));
+    doc.font("body");
+    const u = i.unit;
+    const facts: string[] = [];
+    if (i.kind === "reading") {
+      if (i.values.length) facts.push(`Values ${i.values.map((v) => len(v, u)).join(" / ")}`);
+      if (i.measuredValue != null) facts.push(`size ${len(i.measuredValue, u)}`);
+      facts.push(`verdict ${i.originalVerdict?.replace("_", " ") ?? "—"}`);
+      facts.push(`measured ${when(i.takenAt, tz)}${i.takenBy ? ` by ${i.takenBy}` : ""}`);
+      if (i.override) facts.push("taken under an override");
+    } else {
+      facts.push(`result ${i.originalVerdict ?? "—"}; as-found error corrected ${signedLen(i.correctedValue, inv.tool?.unit ?? inv.standard?.unit ?? null)}`);
+    }
+    doc.text(facts.join("; "));
+    doc.text(
+      `Margin to the nearest limit: before ${signedLen(i.marginBefore, u)}, after ${signedLen(i.marginAfter, u)}; corrected value ${len(i.correctedValue, u)}. ` +
+        `Verdict could change: ${i.verdictCouldChange ? "YES" : "no"}.`,
+    );
+    doc.fontSize(8.5).fillColor("#333").text(i.basis).fillColor("black").fontSize(9.5);
+    if (i.dispositions.length === 0) doc.fillColor("#a33").text("Disposition: none yet").fillColor("black");
+    for (const d of i.dispositions) {
+      doc.text(
+        `Disposition: ${DISPOSITION_LABELS[d.kind]} — ${d.rationale} (${d.decidedBy.name}, ${when(d.decidedAt, tz)})` +
+          (d.notifiedWhom ? `; notified ${d.notifiedWhom} by ${d.notifiedHow ?? "—"} at ${when(d.notifiedAt, tz)}` : "") +
+          (d.remeasureReadingId ? `; remeasured as reading ${d.remeasureReadingId}` : ""),
+      );
+    }
+  }
+
+  if (inv.closingSummary) {
+    heading("Closing summary");
+    doc.text(inv.closingSummary);
+  }
+
+  heading("Cautions");
+  for (const c of INVESTIGATION_CAUTIONS) doc.text(c);
+  doc.end();
+  return done;
+}

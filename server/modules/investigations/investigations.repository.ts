@@ -1,0 +1,370 @@
+import { and, asc, desc, eq, gte, inArray, isNotNull, lte, lt, ne, or, sql, type SQL } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import type { DbOrTx } from "../../db/client";
+import {
+  calibrationPoints,
+  calibrationStandards,
+  calibrations,
+  intermediateChecks,
+  jobSignoffs,
+  jobs,
+  limitItems,
+  readingTools,
+  readings,
+  setElements,
+  standardCertificates,
+  standards,
+  tools,
+  users,
+} from "../../db/schema";
+import { dispositions, investigationItems, investigations } from "./investigations.table";
+
+export type InvestigationRow = typeof investigations.$inferSelect;
+export type InvestigationItemRow = typeof investigationItems.$inferSelect;
+export type ReadingRow = typeof readings.$inferSelect;
+
+/** A reading counts until a later reading supersedes it (corrections are new records). */
+const readingNotSuperseded = sql`not exists (select 1 from ${readings} as superseding where superseding.supersedes_id = ${readings.id})`;
+const calibrationNotSuperseded = sql`not exists (select 1 from ${calibrations} as superseding_cal where superseding_cal.supersedes_id = ${calibrations.id})`;
+
+/**
+ * The instant the tool was last known good before `before`: the latest calibration that left it in tolerance
+ * (as-found in tolerance, or adjusted so that its as-left is), or — when the shop's setting says so — the latest
+ * passing intermediate check. Null when it never was.
+ */
+export async function lastKnownGood(
+  tx: DbOrTx,
+  args: { toolId: string; before: Date; excludeCalibrationId?: string | null; excludeCheckId?: string | null; countPassingChecks: boolean },
+): Promise<{ at: Date; source: "calibration" | "check"; id: string } | null> {
+  const [cal] = await tx
+    .select({ id: calibrations.id, at: calibrations.performedAt })
+    .from(calibrations)
+    .where(
+      and(
+        eq(calibrations.toolId, args.toolId),
+        lt(calibrations.performedAt, args.before),
+        args.excludeCalibrationId ? ne(calibrations.id, args.excludeCalibrationId) : undefined,
+        or(eq(calibrations.asFoundInTolerance, true), eq(calibrations.result, "adjusted")),
+        calibrationNotSuperseded,
+      ),
+    )
+    .orderBy(desc(calibrations.performedAt))
+    .limit(1);
+  let best: { at: Date; source: "calibration" | "check"; id: string } | null = cal ? { at: cal.at, source: "calibration", id: cal.id } : null;
+  if (args.countPassingChecks) {
+    const [check] = await tx
+      .select({ id: intermediateChecks.id, at: intermediateChecks.performedAt })
+      .from(intermediateChecks)
+      .where(
+        and(
+          eq(intermediateChecks.toolId, args.toolId),
+          eq(intermediateChecks.passed, true),
+          lt(intermediateChecks.performedAt, args.before),
+          args.excludeCheckId ? ne(intermediateChecks.id, args.excludeCheckId) : undefined,
+        ),
+      )
+      .orderBy(desc(intermediateChecks.performedAt))
+      .limit(1);
+    if (check && (!best || check.at > best.at)) best = { at: check.at, source: "check", id: check.id };
+  }
+  return best;
+}
+
+/** Readings naming the tool taken in [start, end] (start null: since ever), superseded ones left out; overrides included. */
+export async function readingsWithTool(tx: DbOrTx, toolId: string, start: Date | null, end: Date) {
+  return tx
+    .select({ reading: readings })
+    .from(readingTools)
+    .innerJoin(readings, eq(readings.id, readingTools.readingId))
+    .where(and(eq(readingTools.toolId, toolId), start ? gte(readingTools.takenAt, start) : undefined, lte(readingTools.takenAt, end), readingNotSuperseded))
+    .orderBy(asc(readingTools.takenAt))
+    .then((rows) => rows.map((r) => r.reading));
+}
+
+/** What re-judging a batch of readings needs: their jobs, the limit items of those jobs' tables, the other sides of clearances, the leaves used. */
+export async function rejudgeContext(tx: DbOrTx, rs: ReadingRow[]) {
+  const jobIds = [...new Set(rs.map((r) => r.jobId))];
+  const jobRows = jobIds.length ? await tx.select().from(jobs).where(inArray(jobs.id, jobIds)) : [];
+  const tableIds = [...new Set(jobRows.map((j) => j.limitTableId))];
+  const items = tableIds.length ? await tx.select().from(limitItems).where(inArray(limitItems.limitTableId, tableIds)) : [];
+  const siblings = jobIds.length
+    ? await tx.select().from(readings).where(and(inArray(readings.jobId, jobIds), readingNotSuperseded)).orderBy(asc(readings.takenAt))
+    : [];
+  const leafIds = [...new Set(rs.flatMap((r) => [r.goLeafId, r.noGoLeafId]).filter((x): x is string => !!x))];
+  const leaves = leafIds.length ? await tx.select().from(setElements).where(inArray(setElements.id, leafIds)) : [];
+  return { jobs: jobRows, items, siblings, leaves };
+}
+
+export async function calibrationPointsOf(tx: DbOrTx, calibrationId: string) {
+  return tx.select().from(calibrationPoints).where(eq(calibrationPoints.calibrationId, calibrationId)).orderBy(asc(calibrationPoints.seq));
+}
+
+/** The first calibration of a tool at or after an instant (for a damaged tool: its as-found tells the error). */
+export async function firstCalibrationFrom(tx: DbOrTx, toolId: string, from: Date) {
+  const [row] = await tx
+    .select()
+    .from(calibrations)
+    .where(and(eq(calibrations.toolId, toolId), gte(calibrations.performedAt, from), calibrationNotSuperseded))
+    .orderBy(asc(calibrations.performedAt))
+    .limit(1);
+  return row ?? null;
+}
+
+/** The next calibration of a tool after one (the end of the stretch that calibration vouched for). */
+export async function nextCalibrationAfter(tx: DbOrTx, toolId: string, after: Date) {
+  const [row] = await tx
+    .select({ performedAt: calibrations.performedAt })
+    .from(calibrations)
+    .where(and(eq(calibrations.toolId, toolId), sql`${calibrations.performedAt} > ${after.toISOString()}`, calibrationNotSuperseded))
+    .orderBy(asc(calibrations.performedAt))
+    .limit(1);
+  return row?.performedAt ?? null;
+}
+
+/** Calibrations performed with a standard in [start, end], superseded ones left out. */
+export async function calibrationsWithStandard(tx: DbOrTx, standardId: string, start: Date | null, end: Date) {
+  return tx
+    .select({ calibration: calibrations, tool: tools })
+    .from(calibrationStandards)
+    .innerJoin(calibrations, eq(calibrations.id, calibrationStandards.calibrationId))
+    .innerJoin(tools, eq(tools.id, calibrations.toolId))
+    .where(
+      and(
+        eq(calibrationStandards.standardId, standardId),
+        start ? gte(calibrations.performedAt, start) : undefined,
+        lte(calibrations.performedAt, end),
+        calibrationNotSuperseded,
+      ),
+    )
+    .orderBy(asc(calibrations.performedAt));
+}
+
+/** Start of the day (shop time zone) the standard's latest certificate before the finding was issued: when it was last known good. */
+export async function standardKnownGoodSince(tx: DbOrTx, standardId: string, foundAt: Date, timeZone: string): Promise<Date | null> {
+  const [row] = await tx
+    .select({ at: sql<string>`(${standardCertificates.issuedAt}::timestamp at time zone ${timeZone})` })
+    .from(standardCertificates)
+    .where(and(eq(standardCertificates.standardId, standardId), sql`(${standardCertificates.issuedAt}::timestamp at time zone ${timeZone}) < ${foundAt.toISOString()}`))
+    .orderBy(desc(standardCertificates.issuedAt))
+    .limit(1);
+  return row ? new Date(row.at) : null;
+}
+
+export async function findStandard(tx: DbOrTx, id: string) {
+  return (await tx.select().from(standards).where(eq(standards.id, id)))[0] ?? null;
+}
+
+export async function findTool(tx: DbOrTx, id: string) {
+  return (await tx.select().from(tools).where(eq(tools.id, id)))[0] ?? null;
+}
+
+export async function insertInvestigation(tx: DbOrTx, values: typeof investigations.$inferInsert) {
+  const [row] = await tx.insert(investigations).values(values).returning();
+  return row;
+}
+
+export async function insertItems(tx: DbOrTx, values: (typeof investigationItems.$inferInsert)[]) {
+  // Batches keep each statement well under PostgreSQL's parameter limit.
+  for (let i = 0; i < values.length; i += 1000) await tx.insert(investigationItems).values(values.slice(i, i + 1000));
+}
+
+/** People to tell when an investigation opens: quality users, and for each affected job the inspector who signed it and whoever measured. */
+export async function noticeRecipients(tx: DbOrTx, investigationId: string) {
+  const quality = await tx.select({ id: users.id, email: users.email, name: users.name }).from(users).where(and(eq(users.role, "quality"), eq(users.active, true)));
+  const measured = await tx
+    .selectDistinct({ id: users.id, email: users.email, name: users.name, engineSerial: jobs.engineSerial })
+    .from(investigationItems)
+    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
+    .innerJoin(jobs, eq(jobs.id, readings.jobId))
+    .innerJoin(users, eq(users.id, readings.takenBy))
+    .where(and(eq(investigationItems.investigationId, investigationId), eq(users.active, true)));
+  const signed = await tx
+    .selectDistinct({ id: users.id, email: users.email, name: users.name, engineSerial: jobs.engineSerial })
+    .from(investigationItems)
+    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
+    .innerJoin(jobs, eq(jobs.id, readings.jobId))
+    .innerJoin(jobSignoffs, eq(jobSignoffs.jobId, jobs.id))
+    .innerJoin(users, eq(users.id, jobSignoffs.inspectorId))
+    .where(and(eq(investigationItems.investigationId, investigationId), eq(users.active, true)));
+  return { quality, measured, signed };
+}
+
+export async function lockInvestigation(tx: DbOrTx, id: string) {
+  const [row] = await tx.select().from(investigations).where(eq(investigations.id, id)).for("update");
+  return row ?? null;
+}
+
+export async function findInvestigation(tx: DbOrTx, id: string) {
+  return (await tx.select().from(investigations).where(eq(investigations.id, id)))[0] ?? null;
+}
+
+export async function updateInvestigation(tx: DbOrTx, id: string, set: Partial<typeof investigations.$inferInsert>) {
+  const [row] = await tx.update(investigations).set(set).where(eq(investigations.id, id)).returning();
+  return row;
+}
+
+export async function itemsOf(tx: DbOrTx, investigationId: string) {
+  return tx.select().from(investigationItems).where(eq(investigationItems.investigationId, investigationId));
+}
+
+/** Items of the investigation whose reading belongs to a job. */
+export async function itemsOfJob(tx: DbOrTx, investigationId: string, jobId: string) {
+  return tx
+    .select({ item: investigationItems })
+    .from(investigationItems)
+    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
+    .where(and(eq(investigationItems.investigationId, investigationId), eq(readings.jobId, jobId)))
+    .then((rows) => rows.map((r) => r.item));
+}
+
+export async function itemIdsWithoutDisposition(tx: DbOrTx, investigationId: string): Promise<string[]> {
+  const rows = await tx
+    .select({ id: investigationItems.id })
+    .from(investigationItems)
+    .where(
+      and(
+        eq(investigationItems.investigationId, investigationId),
+        sql`not exists (select 1 from ${dispositions} where ${dispositions.investigationItemId} = ${investigationItems.id})`,
+      ),
+    );
+  return rows.map((r) => r.id);
+}
+
+export async function insertDispositions(tx: DbOrTx, values: (typeof dispositions.$inferInsert)[]) {
+  const out: (typeof dispositions.$inferSelect)[] = [];
+  for (let i = 0; i < values.length; i += 1000) out.push(...(await tx.insert(dispositions).values(values.slice(i, i + 1000)).returning()));
+  return out;
+}
+
+export async function findReading(tx: DbOrTx, id: string) {
+  return (await tx.select().from(readings).where(eq(readings.id, id)))[0] ?? null;
+}
+
+/** Investigations for the list, open first then newest; filters on the tool (or standard, or a cascaded tool), status and job. */
+export async function listInvestigations(tx: DbOrTx, f: { toolAssetTag?: string; status?: "open" | "closed"; jobId?: string; page: number; pageSize: number }) {
+  const conds: SQL[] = [];
+  if (f.status) conds.push(eq(investigations.status, f.status));
+  if (f.toolAssetTag) {
+    const tag = f.toolAssetTag;
+    conds.push(
+      or(
+        sql`${investigations.toolId} in (select ${tools.id} from ${tools} where ${tools.assetTag} = ${tag})`,
+        sql`${investigations.standardId} in (select ${standards.id} from ${standards} where ${standards.assetTag} = ${tag})`,
+        sql`exists (select 1 from ${investigationItems} join ${tools} on ${tools.id} = ${investigationItems.toolId}
+                    where ${investigationItems.investigationId} = ${investigations.id} and ${tools.assetTag} = ${tag})`,
+      )!,
+    );
+  }
+  if (f.jobId) {
+    conds.push(sql`exists (select 1 from ${investigationItems} join ${readings} on ${readings.id} = ${investigationItems.readingId}
+                           where ${investigationItems.investigationId} = ${investigations.id} and ${readings.jobId} = ${f.jobId})`);
+  }
+  const where = conds.length ? and(...conds) : undefined;
+  const [{ total }] = await tx.select({ total: sql<number>`count(*)::int` }).from(investigations).where(where);
+  const rows = await tx
+    .select({ inv: investigations, toolAssetTag: tools.assetTag, toolDescription: tools.description, standardAssetTag: standards.assetTag, standardName: standards.name })
+    .from(investigations)
+    .leftJoin(tools, eq(tools.id, investigations.toolId))
+    .leftJoin(standards, eq(standards.id, investigations.standardId))
+    .where(where)
+    .orderBy(sql`case when ${investigations.status} = 'open' then 0 else 1 end`, desc(investigations.openedAt), desc(investigations.id))
+    .limit(f.pageSize)
+    .offset((f.page - 1) * f.pageSize);
+  return { total, rows };
+}
+
+/** Per investigation: its affected readings (with job), and counts of items, could-change items and items without a disposition. */
+export async function itemSummaries(tx: DbOrTx, investigationIds: string[]) {
+  if (investigationIds.length === 0) return { readingsOf: new Map<string, { readingId: string; jobId: string; verdictCouldChange: boolean }[]>(), counts: new Map<string, { items: number; couldChange: number; undisposed: number }>() };
+  const rs = await tx
+    .select({ investigationId: investigationItems.investigationId, readingId: investigationItems.readingId, jobId: readings.jobId, verdictCouldChange: investigationItems.verdictCouldChange, takenAt: readings.takenAt })
+    .from(investigationItems)
+    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
+    .where(and(inArray(investigationItems.investigationId, investigationIds), isNotNull(investigationItems.readingId)))
+    .orderBy(asc(readings.takenAt));
+  const readingsOf = new Map<string, { readingId: string; jobId: string; verdictCouldChange: boolean }[]>();
+  const seen = new Set<string>();
+  for (const r of rs) {
+    // One entry per reading, even when a cascade reaches it through two tools; could change if either says so.
+    const key = `${r.investigationId}:${r.readingId}`;
+    const list = readingsOf.get(r.investigationId) ?? [];
+    if (seen.has(key)) {
+      const e = list.find((x) => x.readingId === r.readingId)!;
+      e.verdictCouldChange ||= r.verdictCouldChange;
+      continue;
+    }
+    seen.add(key);
+    list.push({ readingId: r.readingId!, jobId: r.jobId, verdictCouldChange: r.verdictCouldChange });
+    readingsOf.set(r.investigationId, list);
+  }
+  const countRows = await tx
+    .select({
+      investigationId: investigationItems.investigationId,
+      items: sql<number>`count(*)::int`,
+      couldChange: sql<number>`count(*) filter (where ${investigationItems.verdictCouldChange})::int`,
+      undisposed: sql<number>`count(*) filter (where not exists (select 1 from ${dispositions} where ${dispositions.investigationItemId} = ${investigationItems.id}))::int`,
+    })
+    .from(investigationItems)
+    .where(inArray(investigationItems.investigationId, investigationIds))
+    .groupBy(investigationItems.investigationId);
+  return { readingsOf, counts: new Map(countRows.map((c) => [c.investigationId, c])) };
+}
+
+/** Everything the investigation page and the report show about its items. */
+export async function itemDetails(tx: DbOrTx, investigationId: string) {
+  const taker = alias(users, "taker");
+  const rows = await tx
+    .select({
+      item: investigationItems,
+      toolAssetTag: tools.assetTag,
+      reading: readings,
+      job: jobs,
+      takenByName: taker.name,
+      calibration: calibrations,
+    })
+    .from(investigationItems)
+    .leftJoin(tools, eq(tools.id, investigationItems.toolId))
+    .leftJoin(readings, eq(readings.id, investigationItems.readingId))
+    .leftJoin(jobs, eq(jobs.id, readings.jobId))
+    .leftJoin(taker, eq(taker.id, readings.takenBy))
+    .leftJoin(calibrations, eq(calibrations.id, investigationItems.calibrationId))
+    .where(eq(investigationItems.investigationId, investigationId))
+    .orderBy(asc(jobs.engineSerial), asc(readings.takenAt), asc(calibrations.performedAt), asc(investigationItems.id));
+  const tableIds = [...new Set(rows.map((r) => r.job?.limitTableId).filter((x): x is string => !!x))];
+  const labels = tableIds.length
+    ? await tx.select({ limitTableId: limitItems.limitTableId, key: limitItems.key, label: limitItems.label, seq: limitItems.seq }).from(limitItems).where(inArray(limitItems.limitTableId, tableIds))
+    : [];
+  const itemIds = rows.map((r) => r.item.id);
+  const disp = itemIds.length
+    ? await tx
+        .select({ d: dispositions, byName: users.name })
+        .from(dispositions)
+        .innerJoin(users, eq(users.id, dispositions.decidedBy))
+        .where(inArray(dispositions.investigationItemId, itemIds))
+        .orderBy(asc(dispositions.decidedAt))
+    : [];
+  return { rows, labels, dispositions: disp };
+}
+
+export async function userName(tx: DbOrTx, id: string | null) {
+  if (!id) return null;
+  return (await tx.select({ name: users.name }).from(users).where(eq(users.id, id)))[0]?.name ?? null;
+}
+
+/** Reading ids, among those given, that are affected readings of an open investigation. */
+export async function openInvestigationReadingIds(tx: DbOrTx, readingIds: string[]): Promise<Set<string>> {
+  if (readingIds.length === 0) return new Set();
+  const rows = await tx
+    .selectDistinct({ id: investigationItems.readingId })
+    .from(investigationItems)
+    .innerJoin(investigations, eq(investigations.id, investigationItems.investigationId))
+    .where(and(inArray(investigationItems.readingId, readingIds), eq(investigations.status, "open")));
+  return new Set(rows.map((r) => r.id!));
+}
+
+/** Investigations whose notices were recorded but not yet sent (delivered after the opening transaction commits). */
+export async function pendingNoticeIds(tx: DbOrTx) {
+  const rows = await tx.select({ id: investigations.id }).from(investigations).where(sql`${investigations.finding}->'notifications'->>'status' = 'pending'`);
+  return rows.map((r) => r.id);
+}
+

@@ -1,0 +1,476 @@
+import type { Db, DbOrTx } from "../../db/client";
+import type { Clock } from "../../platform/clock";
+import { AppError, notFound, refused } from "../../http/errors";
+import { recordAudit } from "../audit/audit.repository";
+import { getSettings } from "../settings/settings.service";
+import { dec, num } from "../../../shared/common/decimal";
+import { convertLength, type LengthUnit } from "../../../shared/common/units";
+import { rejudgeAffectedReading, type ReadingUnderReview, type ToolErrorPoint, type ToolErrors } from "../../../shared/investigations/affected-reading";
+import { rejudgeCalibration, type StandardError } from "../../../shared/investigations/cascade";
+import type {
+  CreateDisposition,
+  Disposition,
+  InvestigationDetail,
+  InvestigationItem,
+  InvestigationListQuery,
+  InvestigationSummary,
+} from "../../../shared/investigations/investigations.schemas";
+import { InvestigationListQuerySchema } from "../../../shared/investigations/investigations.schemas";
+import { investigationItems, type dispositions } from "./investigations.table";
+import * as repo from "./investigations.repository";
+import { recordNotices, sendAfterCommit, type Recipient } from "./investigations.notify";
+import type { Finding, FindingDeps } from "./investigations.hooks";
+
+/** The `finding` JSON of an investigation. */
+export interface StoredFinding {
+  /** A short name for mail subjects, e.g. "MIC-0104 (as-found out of tolerance)". */
+  subject: string;
+  summary: string;
+  unit: LengthUnit | null;
+  errors: { nominal: number; error: number; uncertainty: number | null; mpe: number | null }[] | null;
+  windowRule: string;
+  note: string | null;
+  checkoutId: string | null;
+  knownGood: { source: "calibration" | "check" | "certificate"; id: string | null; at: string } | null;
+  notifications: { status: "pending" | "sending" | "sent" | "failed"; recipients: Recipient[]; sentAt: string | null; error?: string | null } | null;
+}
+
+type ItemInsert = Omit<typeof investigationItems.$inferInsert, "investigationId">;
+
+const n = (x: string | null | undefined) => (x == null ? null : Number(x));
+const s = (x: number | null | undefined) => (x == null ? null : dec(x).toString());
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+const WINDOW_RULE =
+  "From the last time the tool was known good (its last calibration before the finding that left it in tolerance — as-found in tolerance, or adjusted so that its as-left is — " +
+  "or, where the shop's setting says so, its last passing intermediate check), inclusive, up to the finding, inclusive. Never known good: every reading before the finding.";
+
+/** Re-judges readings taken with one tool whose error is `errors`: one item per reading. */
+async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolErrors, toolId: string): Promise<ItemInsert[]> {
+  if (rs.length === 0) return [];
+  const ctx = await repo.rejudgeContext(tx, rs);
+  const jobById = new Map(ctx.jobs.map((j) => [j.id, j]));
+  const leafById = new Map(ctx.leaves.map((l) => [l.id, l]));
+  const limits = (li: { min: string | null; max: string | null; serviceableMin: string | null; serviceableMax: string | null }) => ({
+    min: n(li.min),
+    max: n(li.max),
+    serviceableMin: n(li.serviceableMin),
+    serviceableMax: n(li.serviceableMax),
+  });
+  return rs.map((r) => {
+    const job = jobById.get(r.jobId)!;
+    const tableItems = ctx.items.filter((i) => i.limitTableId === job.limitTableId);
+    const li = tableItems.find((i) => i.key === r.itemKey);
+    const otherSize = (key: string | null) => {
+      if (!key) return null;
+      const other = ctx.siblings.filter((x) => x.jobId === r.jobId && x.itemKey === key && x.index === r.index && x.size != null).at(-1);
+      return n(other?.size ?? null);
+    };
+    const review: ReadingUnderReview = {
+      unit: r.unit,
+      size: n(r.size),
+      kind: li?.kind ?? "visual",
+      itemLabel: li ? `${li.label}${li.repeat > 1 ? ` #${r.index}` : ""}` : r.itemKey,
+      sizeLimits: li && (li.kind === "journal" || li.kind === "bore") ? limits(li) : null,
+      clearances: tableItems
+        .filter((c) => c.kind === "clearance" && (c.boreKey === r.itemKey || c.journalKey === r.itemKey))
+        .map((c) => {
+          const side = c.boreKey === r.itemKey ? ("bore" as const) : ("journal" as const);
+          return { label: c.label, side, otherSize: otherSize(side === "bore" ? c.journalKey : c.boreKey), limits: limits(c) };
+        }),
+      feeler:
+        li?.kind === "feeler"
+          ? {
+              goLeaf: r.goLeafId && leafById.get(r.goLeafId) ? { id: r.goLeafId, nominal: Number(leafById.get(r.goLeafId)!.nominal) } : null,
+              noGoLeaf: r.noGoLeafId && leafById.get(r.noGoLeafId) ? { id: r.noGoLeafId, nominal: Number(leafById.get(r.noGoLeafId)!.nominal) } : null,
+              goEntered: r.goEntered,
+              noGoEntered: r.noGoEntered,
+              limits: limits(li),
+            }
+          : undefined,
+      verdict: r.verdict,
+    };
+    const j = rejudgeAffectedReading(review, errors);
+    return {
+      readingId: r.id,
+      toolId,
+      verdictCouldChange: j.verdictCouldChange,
+      basis: j.basis,
+      marginBefore: s(j.marginBefore),
+      marginAfter: s(j.marginAfter),
+      correctedValue: s(j.correctedValue),
+    };
+  });
+}
+
+function pointsOf(rows: { nominal: string; errorAsFound: string; uncertainty: string | null; elementId: string | null }[]): ToolErrorPoint[] {
+  return rows.map((p) => ({ nominal: Number(p.nominal), error: Number(p.errorAsFound), uncertainty: n(p.uncertainty), elementId: p.elementId }));
+}
+
+/** Opens the investigation of a finding on a tool, inside the caller's transaction. */
+export async function openToolInvestigation(tx: DbOrTx, deps: FindingDeps, finding: Finding): Promise<{ investigationId: string }> {
+  const tool = await repo.findTool(tx, finding.toolId);
+  if (!tool) throw new Error(`investigation: tool ${finding.toolId} missing`);
+  const settings = await getSettings(tx, deps.timeZone);
+  const good = await repo.lastKnownGood(tx, {
+    toolId: tool.id,
+    before: finding.at,
+    excludeCalibrationId: finding.kind === "as_found_failure" ? finding.calibrationId : null,
+    excludeCheckId: finding.kind === "check_failure" ? finding.checkId : null,
+    countPassingChecks: settings.windowStartsAtPassingCheck,
+  });
+  const windowStart = good?.at ?? null;
+
+  let points: ToolErrorPoint[] | null = null;
+  let mpes: (number | null)[] = [];
+  let summary: string;
+  let label: string;
+  if (finding.kind === "as_found_failure") {
+    const rows = await repo.calibrationPointsOf(tx, finding.calibrationId);
+    points = pointsOf(rows);
+    mpes = rows.map((p) => n(p.mpe));
+    const failed = rows.filter((p) => !p.asFoundInTolerance);
+    label = "as-found out of tolerance";
+    summary = `${tool.assetTag} (${tool.description}) was found out of tolerance at calibration: ${failed
+      .map((p) => `${dec(p.errorAsFound).gt(0) ? "+" : ""}${p.errorAsFound} ${tool.unit} at ${p.nominal} ${tool.unit} (permissible ±${p.mpe})`)
+      .join("; ")}.`;
+  } else if (finding.kind === "check_failure") {
+    const check = await tx.query.intermediateChecks.findFirst({ where: (c, { eq }) => eq(c.id, finding.checkId) });
+    if (!check) throw new Error(`investigation: check ${finding.checkId} missing`);
+    points = [{ nominal: Number(check.nominal), error: Number(check.deviation), uncertainty: null }];
+    mpes = [n(check.tolerance)];
+    label = "failed intermediate check";
+    summary = `${tool.assetTag} (${tool.description}) failed an intermediate check: ${dec(check.deviation).gt(0) ? "+" : ""}${check.deviation} ${tool.unit} at ${check.nominal} ${tool.unit} (permissible ±${check.tolerance}).`;
+  } else {
+    // A lost tool's error is unknown; a damaged one's too, unless a calibration since the damage found its as-found.
+    const later = finding.kind === "damaged" ? await repo.firstCalibrationFrom(tx, tool.id, finding.at) : null;
+    if (later) {
+      const rows = await repo.calibrationPointsOf(tx, later.id);
+      points = pointsOf(rows);
+      mpes = rows.map((p) => n(p.mpe));
+    }
+    label = finding.kind === "lost" ? "lost" : "returned damaged";
+    summary =
+      finding.kind === "lost"
+        ? `${tool.assetTag} (${tool.description}) was marked lost; its error is unknown, so every reading it took since it was last known good could have been judged differently.`
+        : `${tool.assetTag} (${tool.description}) was returned damaged; ${later ? "the as-found of its next calibration gives its error" : "its error is unknown until a calibration finds its as-found"}.`;
+  }
+
+  const rs = await repo.readingsWithTool(tx, tool.id, windowStart, finding.at);
+  const items = await rejudgeReadings(tx, rs, { unit: tool.unit, points }, tool.id);
+  const stored: StoredFinding = {
+    subject: `${tool.assetTag} (${label})`,
+    summary,
+    unit: tool.unit,
+    errors: points ? points.map((p, i) => ({ nominal: p.nominal, error: p.error, uncertainty: p.uncertainty, mpe: mpes[i] ?? null })) : null,
+    windowRule: WINDOW_RULE,
+    note: null,
+    checkoutId: finding.kind === "damaged" ? finding.checkoutId : null,
+    knownGood: good ? { source: good.source, id: good.id, at: good.at.toISOString() } : null,
+    notifications: null,
+  };
+  const inv = await repo.insertInvestigation(tx, {
+    toolId: tool.id,
+    trigger: finding.kind,
+    calibrationId: finding.kind === "as_found_failure" ? finding.calibrationId : null,
+    checkId: finding.kind === "check_failure" ? finding.checkId : null,
+    openedAt: deps.clock.now(),
+    openedBy: finding.actorId,
+    windowStart,
+    windowEnd: finding.at,
+    finding: stored,
+  });
+  return finishOpening(tx, deps, inv, items, finding.actorId);
+}
+
+async function finishOpening(tx: DbOrTx, deps: FindingDeps, inv: repo.InvestigationRow, items: ItemInsert[], actorId: string | null) {
+  await repo.insertItems(tx, items.map((i) => ({ ...i, investigationId: inv.id })));
+  await recordAudit(tx, {
+    actorId,
+    action: "investigation.open",
+    entityType: "investigation",
+    entityId: inv.id,
+    after: {
+      trigger: inv.trigger,
+      toolId: inv.toolId,
+      standardId: inv.standardId,
+      windowStart: iso(inv.windowStart),
+      windowEnd: iso(inv.windowEnd),
+      items: items.length,
+      couldChange: items.filter((i) => i.verdictCouldChange).length,
+    },
+    at: deps.clock.now(),
+  });
+  await recordNotices(tx, inv.id, inv.finding as StoredFinding);
+  sendAfterCommit(tx, deps.mailer, deps.clock, inv.id);
+  return { investigationId: inv.id };
+}
+
+/**
+ * Opens the investigation of a finding on a reference standard: every calibration performed with it since its
+ * last certificate before the finding is re-judged with its error, and every tool whose verdict could change is
+ * carried in with the readings it took while that calibration vouched for it.
+ */
+export async function openStandardInvestigation(
+  db: Db,
+  deps: FindingDeps,
+  args: { standardId: string; foundAt: Date; errors: { nominal: number; error: number; uncertainty?: number }[]; note?: string; actorId: string },
+): Promise<{ investigationId: string }> {
+  return db.transaction(async (tx) => {
+    const std = await repo.findStandard(tx, args.standardId);
+    if (!std) throw notFound("standard", args.standardId);
+    if (args.foundAt > deps.clock.now()) throw new AppError("found_in_future", 400, "A finding cannot be dated in the future.");
+    const windowStart = await repo.standardKnownGoodSince(tx, std.id, args.foundAt, deps.timeZone);
+    const cals = await repo.calibrationsWithStandard(tx, std.id, windowStart, args.foundAt);
+    const items: ItemInsert[] = [];
+    const seen = new Set<string>();
+    for (const { calibration: cal, tool } of cals) {
+      const pts = await repo.calibrationPointsOf(tx, cal.id);
+      if (pts.length === 0) continue;
+      const stdErrors: StandardError[] = args.errors.map((e) => ({
+        nominal: num(convertLength(e.nominal, std.unit, tool.unit)),
+        error: num(convertLength(e.error, std.unit, tool.unit)),
+        uncertainty: e.uncertainty == null ? null : num(convertLength(e.uncertainty, std.unit, tool.unit)),
+      }));
+      const rj = rejudgeCalibration(
+        pts.map((p) => ({ nominal: Number(p.nominal), reference: Number(p.reference), asFound: Number(p.asFound), asLeft: n(p.asLeft), mpe: Number(p.mpe), uncertainty: n(p.uncertainty) })),
+        stdErrors,
+        cal.decisionRule,
+        tool.unit,
+      );
+      items.push({
+        calibrationId: cal.id,
+        toolId: tool.id,
+        verdictCouldChange: rj.verdictCouldChange,
+        basis: `Calibration of ${tool.assetTag} on ${cal.performedAt.toISOString().slice(0, 10)} with ${std.assetTag}. ${rj.basis}`,
+        marginBefore: s(rj.marginBefore),
+        marginAfter: s(rj.marginAfter),
+        correctedValue: s(rj.correctedValue),
+      });
+      if (!rj.verdictCouldChange) continue;
+      // The calibration vouched for the tool until its next one; the readings of that stretch are re-judged with the tool's true as-left error.
+      const next = await repo.nextCalibrationAfter(tx, tool.id, cal.performedAt);
+      const end = next ? new Date(next.getTime() - 1) : deps.clock.now();
+      const rs = (await repo.readingsWithTool(tx, tool.id, cal.performedAt, end)).filter((r) => !seen.has(`${r.id}:${tool.id}`));
+      rs.forEach((r) => seen.add(`${r.id}:${tool.id}`));
+      items.push(...(await rejudgeReadings(tx, rs, { unit: tool.unit, points: rj.toolErrorsAsLeft }, tool.id)));
+    }
+    const couldChangeCals = items.filter((i) => i.calibrationId && i.verdictCouldChange).length;
+    const stored: StoredFinding = {
+      subject: `${std.assetTag} (reference standard out of tolerance)`,
+      summary:
+        `Reference standard ${std.assetTag} (${std.name}) was found off: ${args.errors.map((e) => `${e.error > 0 ? "+" : ""}${dec(e.error).toString()} ${std.unit} at ${dec(e.nominal).toString()} ${std.unit}`).join("; ")}. ` +
+        `${cals.length} calibration(s) were performed with it in the window; ${couldChangeCals} could have had a different verdict.`,
+      unit: std.unit,
+      errors: args.errors.map((e) => ({ nominal: e.nominal, error: e.error, uncertainty: e.uncertainty ?? null, mpe: null })),
+      windowRule: "From the day the standard's last certificate before the finding was issued (shop time zone), inclusive, up to the finding, inclusive.",
+      note: args.note ?? null,
+      checkoutId: null,
+      knownGood: windowStart ? { source: "certificate", id: null, at: windowStart.toISOString() } : null,
+      notifications: null,
+    };
+    const inv = await repo.insertInvestigation(tx, {
+      standardId: std.id,
+      trigger: "as_found_failure",
+      openedAt: deps.clock.now(),
+      openedBy: args.actorId,
+      windowStart,
+      windowEnd: args.foundAt,
+      finding: stored,
+    });
+    return finishOpening(tx, deps, inv, items, args.actorId);
+  });
+}
+
+/** The list: api.md's fields, plus counts for the screens. */
+export async function listInvestigations(db: DbOrTx, query: InvestigationListQuery): Promise<{ items: InvestigationSummary[]; total: number }> {
+  const q = InvestigationListQuerySchema.parse(query);
+  const { total, rows } = await repo.listInvestigations(db, q);
+  const { readingsOf, counts } = await repo.itemSummaries(db, rows.map((r) => r.inv.id));
+  const items = rows.map((r) => summaryOf(r, readingsOf.get(r.inv.id) ?? [], counts.get(r.inv.id)));
+  return { items, total };
+}
+
+function summaryOf(
+  r: { inv: repo.InvestigationRow; toolAssetTag: string | null; toolDescription: string | null; standardAssetTag: string | null; standardName: string | null },
+  affectedReadings: { readingId: string; jobId: string; verdictCouldChange: boolean }[],
+  c: { items: number; couldChange: number; undisposed: number } | undefined,
+): InvestigationSummary {
+  return {
+    id: r.inv.id,
+    toolAssetTag: r.toolAssetTag ?? r.standardAssetTag,
+    status: r.inv.status,
+    windowStart: iso(r.inv.windowStart),
+    windowEnd: r.inv.windowEnd.toISOString(),
+    affectedReadings,
+    trigger: r.inv.trigger,
+    standardAssetTag: r.standardAssetTag,
+    description: r.toolDescription ?? r.standardName ?? "",
+    openedAt: r.inv.openedAt.toISOString(),
+    closedAt: iso(r.inv.closedAt),
+    affectedCount: c?.items ?? 0,
+    couldChangeCount: c?.couldChange ?? 0,
+    undisposedCount: c?.undisposed ?? 0,
+  };
+}
+
+/** One investigation with its finding, window and every item re-judged, with dispositions. */
+export async function getInvestigation(db: DbOrTx, id: string): Promise<InvestigationDetail> {
+  const inv = await repo.findInvestigation(db, id);
+  if (!inv) throw notFound("investigation", id);
+  const tool = inv.toolId ? await repo.findTool(db, inv.toolId) : null;
+  const std = inv.standardId ? await repo.findStandard(db, inv.standardId) : null;
+  const { readingsOf, counts } = await repo.itemSummaries(db, [id]);
+  const summary = summaryOf(
+    { inv, toolAssetTag: tool?.assetTag ?? null, toolDescription: tool?.description ?? null, standardAssetTag: std?.assetTag ?? null, standardName: std?.name ?? null },
+    readingsOf.get(id) ?? [],
+    counts.get(id),
+  );
+  const d = await repo.itemDetails(db, id);
+  const labelOf = new Map(d.labels.map((l) => [`${l.limitTableId}:${l.key}`, l.label]));
+  const dispOf = new Map<string, Disposition[]>();
+  for (const { d: x, byName } of d.dispositions) {
+    const list = dispOf.get(x.investigationItemId) ?? [];
+    list.push(dispositionView(x, byName));
+    dispOf.set(x.investigationItemId, list);
+  }
+  const items: InvestigationItem[] = d.rows.map(({ item, toolAssetTag, reading, job, takenByName, calibration }) => ({
+    id: item.id,
+    kind: item.readingId ? "reading" : "calibration",
+    toolAssetTag,
+    readingId: item.readingId,
+    calibrationId: item.calibrationId,
+    job: job ? { id: job.id, engineSerial: job.engineSerial, engineModel: job.engineModel, workOrder: job.workOrder } : null,
+    itemKey: reading?.itemKey ?? null,
+    itemLabel: reading && job ? (labelOf.get(`${job.limitTableId}:${reading.itemKey}`) ?? reading.itemKey) : calibration ? "Calibration (as-found error)" : null,
+    index: reading?.index ?? null,
+    unit: reading?.unit ?? null,
+    values: (reading?.values ?? []).map(Number),
+    measuredValue: reading ? n(reading.size) : null,
+    originalVerdict: reading?.verdict ?? (calibration ? calibration.result : null),
+    correctedValue: n(item.correctedValue),
+    marginBefore: n(item.marginBefore),
+    marginAfter: n(item.marginAfter),
+    verdictCouldChange: item.verdictCouldChange,
+    basis: item.basis,
+    takenAt: reading ? reading.takenAt.toISOString() : calibration ? calibration.performedAt.toISOString() : null,
+    takenBy: takenByName ?? calibration?.performedByName ?? null,
+    override: !!reading?.overrideReason,
+    dispositions: dispOf.get(item.id) ?? [],
+  }));
+  const f = inv.finding as StoredFinding;
+  return {
+    ...summary,
+    tool: tool ? { assetTag: tool.assetTag, description: tool.description, unit: tool.unit } : null,
+    standard: std ? { assetTag: std.assetTag, name: std.name, unit: std.unit } : null,
+    calibrationId: inv.calibrationId,
+    checkId: inv.checkId,
+    checkoutId: f.checkoutId ?? null,
+    openedBy: await repo.userName(db, inv.openedBy),
+    closedBy: await repo.userName(db, inv.closedBy),
+    closingSummary: inv.closingSummary,
+    finding: { summary: f.summary, unit: f.unit, errors: f.errors, windowRule: f.windowRule, note: f.note, notifications: f.notifications },
+    items,
+  };
+}
+
+function dispositionView(x: typeof dispositions.$inferSelect, byName: string): Disposition {
+  return {
+    id: x.id,
+    itemId: x.investigationItemId,
+    kind: x.kind,
+    rationale: x.rationale,
+    decidedBy: { id: x.decidedBy, name: byName },
+    decidedAt: x.decidedAt.toISOString(),
+    notifiedWhom: x.notifiedWhom,
+    notifiedHow: x.notifiedHow,
+    notifiedAt: iso(x.notifiedAt),
+    remeasureReadingId: x.remeasureReadingId,
+  };
+}
+
+function assertOpen(inv: repo.InvestigationRow) {
+  if (inv.status === "closed") throw refused("investigation_closed", "This investigation is closed; a closed investigation is kept as it was and takes no more dispositions.");
+}
+
+/** True when `newer` supersedes `older`, directly or through a chain of corrections. */
+async function supersedes(tx: DbOrTx, newer: repo.ReadingRow, olderId: string): Promise<boolean> {
+  let cur: repo.ReadingRow | null = newer;
+  for (let hops = 0; cur && cur.supersedesId && hops < 50; hops++) {
+    if (cur.supersedesId === olderId) return true;
+    cur = await repo.findReading(tx, cur.supersedesId);
+  }
+  return false;
+}
+
+/** Records a disposition for some items (or every item of one job) of an open investigation. */
+export async function addDispositions(db: Db, clock: Clock, id: string, input: CreateDisposition, actor: { id: string; name: string }) {
+  return db.transaction(async (tx) => {
+    const inv = await repo.lockInvestigation(tx, id);
+    if (!inv) throw notFound("investigation", id);
+    assertOpen(inv);
+    let items: repo.InvestigationItemRow[];
+    if (input.jobId) {
+      items = await repo.itemsOfJob(tx, id, input.jobId);
+      if (items.length === 0) throw refused("job_not_in_investigation", "No reading of that job is affected by this investigation.");
+    } else {
+      const all = await repo.itemsOf(tx, id);
+      const wanted = new Set(input.itemIds);
+      items = all.filter((i) => wanted.has(i.id));
+      if (items.length !== wanted.size) {
+        const known = new Set(items.map((i) => i.id));
+        throw refused("items_not_in_investigation", "Some of the items named are not affected items of this investigation.", { itemIds: [...wanted].filter((x) => !known.has(x)) });
+      }
+    }
+    const now = clock.now();
+    if (input.kind === "remeasure") {
+      const item = items[0];
+      if (!item.readingId) throw refused("remeasure_needs_reading", "Only an affected reading can be remeasured; a calibration in a cascade is answered otherwise.");
+      const newer = await repo.findReading(tx, input.remeasureReadingId!);
+      if (!newer || !(await supersedes(tx, newer, item.readingId))) {
+        throw refused("remeasure_not_superseding", "The remeasurement must be a new reading that supersedes the affected one (record it on the check sheet as a correction).");
+      }
+    }
+    const rows = await repo.insertDispositions(
+      tx,
+      items.map((i) => ({
+        investigationItemId: i.id,
+        kind: input.kind,
+        rationale: input.rationale,
+        decidedBy: actor.id,
+        decidedAt: now,
+        notifiedWhom: input.notifiedWhom ?? null,
+        notifiedHow: input.notifiedHow ?? null,
+        notifiedAt: input.kind === "notify_owner" ? (input.notifiedAt ? new Date(input.notifiedAt) : now) : null,
+        remeasureReadingId: input.remeasureReadingId ?? null,
+      })),
+    );
+    await recordAudit(tx, {
+      actorId: actor.id,
+      action: "investigation.disposition",
+      entityType: "investigation",
+      entityId: id,
+      after: { kind: input.kind, rationale: input.rationale, itemIds: items.map((i) => i.id), jobId: input.jobId ?? null, notifiedWhom: input.notifiedWhom ?? null, notifiedHow: input.notifiedHow ?? null, remeasureReadingId: input.remeasureReadingId ?? null },
+      at: now,
+    });
+    return { dispositions: rows.map((r) => dispositionView(r, actor.name)) };
+  });
+}
+
+/** Closes an investigation with a summary, once every affected item has a disposition; after that it only reads. */
+export async function closeInvestigation(db: Db, clock: Clock, id: string, summary: string, actorId: string) {
+  return db.transaction(async (tx) => {
+    const inv = await repo.lockInvestigation(tx, id);
+    if (!inv) throw notFound("investigation", id);
+    assertOpen(inv);
+    const missing = await repo.itemIdsWithoutDisposition(tx, id);
+    if (missing.length) {
+      throw refused("dispositions_missing", `${missing.length} affected item(s) still need a disposition before the investigation can close.`, { itemIds: missing });
+    }
+    const now = clock.now();
+    const after = await repo.updateInvestigation(tx, id, { status: "closed", closedAt: now, closedBy: actorId, closingSummary: summary });
+    await recordAudit(tx, { actorId, action: "investigation.close", entityType: "investigation", entityId: id, before: { status: "open" }, after: { status: "closed", summary }, at: now });
+    return { id: after.id, status: after.status, closedAt: now.toISOString(), closingSummary: summary };
+  });
+}
+

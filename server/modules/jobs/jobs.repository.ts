@@ -1,0 +1,81 @@
+import { and, asc, count, desc, eq, ilike, sql, type SQL } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+import { jobs, jobSignoffs } from "./jobs.table";
+import { limitTables } from "../limit-tables/limit-tables.table";
+import { users } from "../users/users.table";
+
+export type JobRow = typeof jobs.$inferSelect;
+
+// A sheet is signed when it has a sign-off and no reading was taken after the latest one.
+const lastSignedAt = sql<Date | null>`(select max(s.signed_at) from job_signoffs s where s.job_id = ${jobs.id})`;
+const lastReadingAt = sql`(select max(r.taken_at) from readings r where r.job_id = ${jobs.id})`;
+const signedCondition = sql`(${lastSignedAt} is not null and (${lastReadingAt} is null or ${lastReadingAt} <= ${lastSignedAt}))`;
+
+const SORTS: Record<string, SQL[]> = {
+  openedAt: [asc(jobs.openedAt)],
+  "-openedAt": [desc(jobs.openedAt)],
+  engineSerial: [asc(jobs.engineSerial), desc(jobs.openedAt)],
+  "-engineSerial": [desc(jobs.engineSerial), desc(jobs.openedAt)],
+};
+
+const summaryColumns = {
+  job: jobs,
+  openerName: users.name,
+  tableName: limitTables.name,
+  tableVersion: limitTables.version,
+  signed: sql<boolean>`${signedCondition}`,
+  signedAt: lastSignedAt,
+  readingCount: sql<number>`(select count(*)::int from readings r where r.job_id = ${jobs.id} and not exists (select 1 from readings x where x.supersedes_id = r.id))`,
+};
+
+export const jobsRepository = {
+  insert: async (db: DbOrTx, values: typeof jobs.$inferInsert) => (await db.insert(jobs).values(values).returning())[0],
+
+  async summary(db: DbOrTx, id: string) {
+    const [row] = await db
+      .select(summaryColumns)
+      .from(jobs)
+      .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
+      .leftJoin(users, eq(users.id, jobs.openedBy))
+      .where(eq(jobs.id, id));
+    return row;
+  },
+
+  async list(db: DbOrTx, q: { engineSerial?: string; status?: "open" | "signed"; mine?: boolean; sort: string; page: number; pageSize: number }, userId: string) {
+    const where = and(
+      q.engineSerial ? ilike(jobs.engineSerial, `%${q.engineSerial}%`) : undefined,
+      q.status === "signed" ? signedCondition : q.status === "open" ? sql`not ${signedCondition}` : undefined,
+      q.mine ? sql`(${jobs.openedBy} = ${userId} or exists (select 1 from readings r where r.job_id = ${jobs.id} and r.taken_by = ${userId}))` : undefined,
+    );
+    const [items, [{ total }]] = await Promise.all([
+      db
+        .select(summaryColumns)
+        .from(jobs)
+        .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
+        .leftJoin(users, eq(users.id, jobs.openedBy))
+        .where(where)
+        .orderBy(...SORTS[q.sort])
+        .limit(q.pageSize)
+        .offset((q.page - 1) * q.pageSize),
+      db.select({ total: count() }).from(jobs).where(where),
+    ]);
+    return { items, total };
+  },
+
+  /** Locks the job while a reading or sign-off is recorded, so they cannot cross. */
+  async lock(db: DbOrTx, id: string) {
+    const res = await db.execute(sql`select id from jobs where id = ${id} for update`);
+    return res.rows.length > 0;
+  },
+
+  signoffs: (db: DbOrTx, jobId: string) =>
+    db
+      .select({ s: jobSignoffs, inspectorName: users.name })
+      .from(jobSignoffs)
+      .innerJoin(users, eq(users.id, jobSignoffs.inspectorId))
+      .where(eq(jobSignoffs.jobId, jobId))
+      .orderBy(asc(jobSignoffs.signedAt)),
+
+  insertSignoff: async (db: DbOrTx, values: typeof jobSignoffs.$inferInsert) => (await db.insert(jobSignoffs).values(values).returning())[0],
+};
+export type JobSummaryRow = NonNullable<Awaited<ReturnType<typeof jobsRepository.summary>>>;

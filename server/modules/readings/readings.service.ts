@@ -1,0 +1,302 @@
+import { z } from "zod";
+import type { Db, Tx } from "../../db/client";
+import type { Clock } from "../../platform/clock";
+import type { SessionUser } from "../../http/route";
+import { AppError, Errors, notFound, refused } from "../../http/errors";
+import { recordAudit } from "../audit/audit.repository";
+import { statusContext, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { jobsRepository } from "../jobs/jobs.repository";
+import { limitTablesRepository, type LimitItemRow } from "../limit-tables/limit-tables.repository";
+import { toItemView } from "../limit-tables/limit-tables.service";
+import { readingsRepository, type ReadingInsert } from "./readings.repository";
+import { can } from "../../../shared/auth/roles";
+import { num } from "../../../shared/common/decimal";
+import { convertLength, type LengthUnit } from "../../../shared/common/units";
+import { selectFeelerLeaves, judgeFeeler, leafThickness } from "../../../shared/inspection/feeler";
+import { clearanceAt, judgeSizeReading, resolutionFlag, toTableUnit, withinToolRange, type SheetReading } from "../../../shared/inspection/check-sheet";
+import type { CreateReading, ReadingFlag, ReadingResult } from "../../../shared/readings/readings.schemas";
+import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
+
+type ToolHit = Awaited<ReturnType<typeof readingsRepository.toolsByTags>>[number];
+
+// Transfer gauges carry a size to a micrometer; the values are read on the micrometer.
+const TRANSFER_KINDS = new Set(["telescoping_gauge", "small_hole_gauge"]);
+const READ_KINDS = new Set(["outside_micrometer", "inside_micrometer", "dial_indicator", "caliper", "other"]);
+
+const STATUS_FLAGS: Partial<Record<string, ReadingFlag>> = {
+  overdue: "tool_overdue",
+  out_of_tolerance: "tool_out_of_tolerance",
+  quarantined: "tool_quarantined",
+  never_calibrated: "tool_never_calibrated",
+};
+
+/** A 400 shaped like the zod issues every other bad input gets. */
+function badInput(path: (string | number)[], message: string): never {
+  throw new z.ZodError([{ code: "custom", path, message, input: undefined }]);
+}
+
+interface Place {
+  jobId: string;
+  itemKey: string;
+  index: number;
+}
+
+export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIME_ZONE: string } }) {
+  const { db, clock } = deps;
+
+  /** Leaves of a set for a feeler item: go (must enter) and no-go (must not), in the table's unit. */
+  async function feelerLeaves(tx: Db | Tx, item: LimitItemView, tableUnit: LengthUnit, set: ToolHit, status: ToolStatusView | undefined, at: Date) {
+    const raw = await readingsRepository.leavesOf(tx, set.tool.id, status?.lastCalibration?.id ?? null, at);
+    const leaves = raw.map((l) => ({
+      id: l.id,
+      label: l.label,
+      nominal: num(convertLength(l.nominal, set.tool.unit, tableUnit)),
+      calibratedThickness: l.calibrated == null ? null : num(convertLength(l.calibrated, set.tool.unit, tableUnit)),
+      rejected: l.rejected,
+    }));
+    const { goLeaf, noGoLeaf } = selectFeelerLeaves({ leaves, min: item.min!, max: item.max! });
+    const view = (l: (typeof leaves)[number] | null) => (l ? { id: l.id, label: l.label, thickness: leafThickness(l) } : null);
+    return { goLeaf: view(goLeaf), noGoLeaf: view(noGoLeaf) };
+  }
+
+  async function loadItem(tx: Db | Tx, limitTableId: string, itemKey: string) {
+    const items = await limitTablesRepository.items(tx, limitTableId);
+    const row = items.find((i) => i.key === itemKey);
+    return { row, items };
+  }
+
+  /**
+   * Records one reading at `place`, after every rule of the trade: the job is not signed, the item and index exist,
+   * enough values, tools exist, are usable at this instant (or quality overrides with a reason), suit the item.
+   * Flags what is allowed but worth a second look. Inside the caller's transaction, with the job locked.
+   */
+  async function record(tx: Tx, place: Place, input: CreateReading, user: SessionUser, extra: { supersedesId?: string; supersedeReason?: string } = {}): Promise<ReadingResult> {
+    const at = clock.now();
+    const summary = await jobsRepository.summary(tx, place.jobId);
+    if (!summary) throw notFound("job", place.jobId);
+    const tableUnit = (await limitTablesRepository.summary(tx, summary.job.limitTableId))!.table.unit;
+    const { row: itemRow, items } = await loadItem(tx, summary.job.limitTableId, place.itemKey);
+    if (!itemRow) badInput(["itemKey"], `This sheet has no item "${place.itemKey}".`);
+    const item = toItemView(itemRow as LimitItemRow);
+    if (place.index > item.repeat) badInput(["index"], `${item.label} has ${item.repeat} place${item.repeat === 1 ? "" : "s"}; there is no number ${place.index}.`);
+    if (item.kind === "clearance") badInput(["itemKey"], "A clearance is worked out from its bore and journal readings; record those instead.");
+
+    // What each kind of item needs (beyond the shared schema, which cannot know the item).
+    if (item.kind === "journal" || item.kind === "bore") {
+      const values = input.values ?? [];
+      if (values.length < item.directions) badInput(["values"], `${item.label} needs a value in each of ${item.directions} directions; ${values.length} given.`);
+      if (input.toolAssetTags.length === 0) badInput(["toolAssetTags"], "Name the tool (or tools) the values were read with.");
+    } else if (item.kind === "feeler") {
+      if (input.goEntered == null) badInput(["goEntered"], "Say whether the go leaf entered.");
+      if (input.noGoEntered == null) badInput(["noGoEntered"], "Say whether the no-go leaf entered.");
+      if (input.toolAssetTags.length === 0) badInput(["toolAssetTags"], "Name the feeler set used.");
+    } else if (item.kind === "visual") {
+      if (!input.visualResult) badInput(["visualResult"], "Say whether the part is serviceable or rejected.");
+      if (input.visualResult === "reject" && !input.finding) badInput(["finding"], "Describe what was found.");
+    }
+    const tags = [...new Set(input.toolAssetTags.map((t) => t.toUpperCase()))];
+    if (tags.length !== input.toolAssetTags.length) badInput(["toolAssetTags"], "A tool is named twice.");
+    const found = await readingsRepository.toolsByTags(tx, tags);
+    const hits = tags.map((tag) => {
+      const hit = found.find((f) => f.tool.assetTag.toUpperCase() === tag);
+      if (!hit) throw notFound("tool", tag);
+      return hit;
+    });
+
+    // Which tool the values are read on, and which set gives the leaves.
+    let readTool: ToolHit | undefined;
+    let feelerSet: ToolHit | undefined;
+    if (item.kind === "journal" || item.kind === "bore") {
+      readTool = hits.find((h) => READ_KINDS.has(h.kind));
+      if (!readTool) {
+        throw refused(
+          hits.some((h) => TRANSFER_KINDS.has(h.kind)) ? "micrometer_not_named" : "tool_kind_unsuitable",
+          hits.some((h) => TRANSFER_KINDS.has(h.kind))
+            ? "A bore read through a telescoping or small-hole gauge names the micrometer that read the gauge too."
+            : "None of these tools reads a size; name the micrometer used.",
+        );
+      }
+      if (item.toolKinds?.length && !hits.some((h) => item.toolKinds!.includes(h.kind))) {
+        throw refused("tool_kind_unsuitable", `${item.label} is measured with: ${item.toolKinds.join(", ").replace(/_/g, " ")}.`);
+      }
+    } else if (item.kind === "feeler") {
+      feelerSet = hits.find((h) => h.kind === "feeler_set");
+      if (!feelerSet) throw refused("tool_kind_unsuitable", "A feeler gap is checked with a feeler set; name the set.");
+    }
+
+    // Usable at this instant? The one status derivation decides.
+    const ctx = await statusContext(tx, deps.config.SHOP_TIME_ZONE);
+    const statuses = await statusesFor(tx, hits.map((h) => h.tool.id), at, ctx);
+    const flags = new Set<ReadingFlag>();
+    const unusable: { assetTag: string; status: string; reasons: string[] }[] = [];
+    for (const h of hits) {
+      const s = statuses.get(h.tool.id)!;
+      let usable = s.usableForAcceptance;
+      const reasons = [...s.reasons];
+      // A limited tool may read only inside the part of its range it was calibrated for.
+      const lim = s.lastCalibration?.limitedRange;
+      if (usable && s.status === "limited" && lim && h === readTool) {
+        if (!withinToolRange(input.values ?? [], convertLength(lim.min, lim.unit, h.tool.unit), convertLength(lim.max, lim.unit, h.tool.unit))) {
+          usable = false;
+          reasons.unshift(`Values outside the calibrated part of the range (${lim.min}–${lim.max} ${lim.unit}).`);
+        }
+      }
+      if (!h.tool.acceptanceUse && usable) {
+        usable = false;
+        reasons.push("This tool is not for acceptance readings.");
+      }
+      if (!usable) {
+        unusable.push({ assetTag: h.tool.assetTag, status: s.status, reasons });
+        const f = STATUS_FLAGS[s.status];
+        if (f) flags.add(f);
+      }
+      const mine = s.custodian?.userId === user.id || h.tool.ownerUserId === user.id;
+      if (!mine) flags.add("not_in_custody");
+    }
+    let override: { reason: string; by: string } | null = null;
+    if (unusable.length) {
+      if (!input.override) {
+        const first = unusable[0];
+        throw refused("tool_not_usable", `${first.assetTag} may not be used now: ${first.reasons[0] ?? first.status}`, { tools: unusable });
+      }
+      if (!can(user.role, "readings.override")) throw Errors.forbidden("Only quality may accept a reading taken with an unusable tool.");
+      override = { reason: input.override.reason, by: user.id };
+      flags.add("override");
+    } else {
+      for (const f of ["tool_overdue", "tool_out_of_tolerance", "tool_quarantined", "tool_never_calibrated"] as const) flags.delete(f);
+    }
+
+    // One reading per place; a second one is a correction with a reason.
+    if (!extra.supersedesId) {
+      const existing = await readingsRepository.currentAt(tx, place.jobId, item.key, place.index);
+      if (existing) throw refused("reading_exists", `${item.label} no. ${place.index} already has a reading; correct it with a reason instead.`, { readingId: existing.id });
+    }
+
+    const base = {
+      jobId: place.jobId,
+      itemKey: item.key,
+      index: place.index,
+      takenBy: user.id,
+      takenAt: at,
+      temperatureC: input.temperatureC == null ? null : String(input.temperatureC),
+      toolTemperatureC: input.toolTemperatureC == null ? null : String(input.toolTemperatureC),
+      partMaterial: input.partMaterial ?? null,
+      supersedesId: extra.supersedesId ?? null,
+      supersedeReason: extra.supersedeReason ?? null,
+      overrideReason: override?.reason ?? null,
+      overrideBy: override?.by ?? null,
+      finding: input.finding ?? null,
+    };
+    let result: Omit<ReadingResult, "id" | "flags">;
+    let values: Omit<ReadingInsert, "flags">;
+
+    if (item.kind === "journal" || item.kind === "bore") {
+      const rt = readTool!;
+      const typed = input.values!;
+      const inTable = toTableUnit(typed, rt.tool.unit, tableUnit);
+      const out = judgeSizeReading(item, inTable);
+      if (!withinToolRange(typed, rt.tool.rangeMin, rt.tool.rangeMax)) flags.add("outside_tool_range");
+      for (const h of hits.filter((x) => TRANSFER_KINDS.has(x.kind))) {
+        if (!withinToolRange([convertLength(out.size, tableUnit, h.tool.unit)], h.tool.rangeMin, h.tool.rangeMax)) flags.add("outside_tool_range");
+      }
+      if (resolutionFlag(item, rt.tool.resolution, rt.tool.unit, tableUnit)) flags.add("resolution_too_coarse");
+      // Stored exactly: the values as typed (in the read tool's unit), the size in the table's unit.
+      values = { ...base, values: typed.map(String), unit: rt.tool.unit, size: String(out.size), outOfRound: String(out.outOfRound), verdict: out.judgement.verdict };
+      result = { size: out.size, outOfRound: out.outOfRound, verdict: out.judgement.verdict };
+    } else if (item.kind === "feeler") {
+      const leaves = await feelerLeaves(tx, item, tableUnit, feelerSet!, statuses.get(feelerSet!.tool.id), at);
+      if (!leaves.goLeaf || !leaves.noGoLeaf) {
+        throw refused("feeler_leaf_missing", `${feelerSet!.tool.assetTag} has no serviceable leaf ${!leaves.goLeaf ? "thinner than the minimum" : "thicker than the maximum"} of ${item.label}; use another set.`);
+      }
+      const j = judgeFeeler({ goEntered: input.goEntered!, noGoEntered: input.noGoEntered! });
+      values = { ...base, values: [], unit: tableUnit, goEntered: input.goEntered!, noGoEntered: input.noGoEntered!, goLeafId: leaves.goLeaf.id, noGoLeafId: leaves.noGoLeaf.id, verdict: j.verdict, finding: input.finding ?? j.note ?? null };
+      result = { goLeaf: leaves.goLeaf, noGoLeaf: leaves.noGoLeaf, verdict: j.verdict };
+    } else {
+      const verdict = input.visualResult === "serviceable" ? "within_limits" : "outside_limits";
+      values = { ...base, values: [], unit: tableUnit, visualResult: input.visualResult!, verdict };
+      result = { verdict };
+    }
+
+    const flagList = [...flags];
+    const row = await readingsRepository.insert(
+      tx,
+      { ...values, flags: flagList },
+      hits.map((h, i) => {
+        const s = statuses.get(h.tool.id)!;
+        return { toolId: h.tool.id, position: i + 1, statusAtReading: s.status, dueAtReading: s.dueAt, takenAt: at };
+      }),
+    );
+
+    // The clearance this reading completes, if its partner is on the sheet.
+    const clearanceItem = items.map(toItemView).find((c) => c.kind === "clearance" && (c.boreKey === item.key || c.journalKey === item.key) && place.index <= c.repeat);
+    if (clearanceItem && row.size != null) {
+      const partnerKey = clearanceItem.boreKey === item.key ? clearanceItem.journalKey! : clearanceItem.boreKey!;
+      const partnerRow = await readingsRepository.currentAt(tx, place.jobId, partnerKey, place.index);
+      const sides: Record<string, SheetReading | undefined> = {
+        [item.key]: { itemKey: item.key, index: place.index, size: Number(row.size) },
+        [partnerKey]: partnerRow ? { itemKey: partnerKey, index: place.index, size: partnerRow.size == null ? null : Number(partnerRow.size) } : undefined,
+      };
+      const c = clearanceAt(clearanceItem, place.index, (k) => sides[k]);
+      if (c.clearance != null) result.clearance = c.clearance;
+    }
+
+    await recordAudit(tx, {
+      actorId: user.id,
+      action: extra.supersedesId ? "reading.supersede" : "reading.create",
+      entityType: "reading",
+      entityId: row.id,
+      after: { jobId: place.jobId, itemKey: item.key, index: place.index, values: row.values, tools: tags, flags: flagList, supersedesId: extra.supersedesId, reason: extra.supersedeReason, override: override?.reason },
+      at,
+    });
+    return { id: row.id, ...result, flags: flagList };
+  }
+
+  async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean) {
+    if (!(await jobsRepository.lock(tx, jobId))) throw notFound("job", jobId);
+    const s = await jobsRepository.summary(tx, jobId);
+    if (s!.signed && !allowSigned) {
+      throw refused("sheet_signed", "This check sheet is signed and locked; correct a reading with a reason instead.");
+    }
+    return s!;
+  }
+
+  return {
+    /** POST /api/jobs/:id/readings */
+    create(jobId: string, input: CreateReading, user: SessionUser) {
+      return db.transaction(async (tx) => {
+        await lockOpenJob(tx, jobId, false);
+        return record(tx, { jobId, itemKey: input.itemKey, index: input.index ?? 1 }, input, user);
+      });
+    },
+
+    /** POST /api/readings/:id/supersede — append-only correction; the old reading stays, marked superseded. */
+    supersede(readingId: string, input: Omit<CreateReading, "itemKey" | "index"> & { reason: string }, user: SessionUser) {
+      return db.transaction(async (tx) => {
+        const old = await readingsRepository.findById(tx, readingId);
+        if (!old) throw notFound("reading", readingId);
+        // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
+        await lockOpenJob(tx, old.jobId, true);
+        const newer = await readingsRepository.successorOf(tx, readingId);
+        if (newer) throw refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId: newer.id });
+        const { reason, ...rest } = input;
+        return record(tx, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, { supersedesId: old.id, supersedeReason: reason });
+      });
+    },
+
+    /** The leaves a mechanic should pick for a feeler item from a set, as the server would. */
+    async leavesFor(jobId: string, itemKey: string, setTag: string) {
+      const summary = await jobsRepository.summary(db, jobId);
+      if (!summary) throw notFound("job", jobId);
+      const tableUnit = (await limitTablesRepository.summary(db, summary.job.limitTableId))!.table.unit;
+      const { row } = await loadItem(db, summary.job.limitTableId, itemKey);
+      if (!row || row.kind !== "feeler") throw new AppError("item_not_found", 404, `This sheet has no feeler item "${itemKey}".`);
+      const [hit] = await readingsRepository.toolsByTags(db, [setTag.toUpperCase()]);
+      if (!hit) throw notFound("tool", setTag);
+      if (hit.kind !== "feeler_set") throw refused("tool_kind_unsuitable", `${hit.tool.assetTag} is not a feeler set.`);
+      const at = clock.now();
+      const ctx = await statusContext(db, deps.config.SHOP_TIME_ZONE);
+      const statuses = await statusesFor(db, [hit.tool.id], at, ctx);
+      return { ...(await feelerLeaves(db, toItemView(row), tableUnit, hit, statuses.get(hit.tool.id), at)), unit: tableUnit };
+    },
+  };
+}

@@ -1,0 +1,154 @@
+import { and, count, desc, eq, inArray, or, sql } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+import { reminderLog, reminderRuns, notificationPreferences } from "./reminders.table";
+import { users } from "../users/users.table";
+import { tools } from "../tools/tools.table";
+import type { PlannedReminder } from "../../../shared/reminders/reminder-plan";
+
+export type ReminderRunRow = typeof reminderRuns.$inferSelect;
+export type ReminderLogRow = typeof reminderLog.$inferSelect;
+
+const CHUNK = 1000;
+const chunks = <T>(xs: T[], n = CHUNK) => Array.from({ length: Math.ceil(xs.length / n) }, (_, i) => xs.slice(i * n, (i + 1) * n));
+
+export const remindersRepository = {
+  /**
+   * Tools that may need a reminder at `at`: in service with a calibration due
+   * by the horizon or a usage limit, or out past the time they were due back.
+   * A superset; the status derivation decides.
+   */
+  async candidateToolIds(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
+    const res = await db.execute(sql`
+      select t.id from tools t
+      where t.lifecycle = 'active' and t.calibration_required
+        and (t.usage_limit is not null or exists (select 1 from calibrations c where c.tool_id = t.id and c.next_due_at <= ${horizon}))
+      union
+      select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
+    return (res.rows as { id?: string; tool_id?: string }[]).map((r) => String(r.id ?? r.tool_id));
+  },
+
+  async toolFacts(db: DbOrTx, ids: string[]) {
+    const out: { id: string; assetTag: string; description: string; location: string | null; ownerType: string; ownerUserId: string | null; ownerName: string | null; usageLimit: number | null }[] = [];
+    for (const part of chunks(ids)) {
+      out.push(
+        ...(await db
+          .select({
+            id: tools.id,
+            assetTag: tools.assetTag,
+            description: tools.description,
+            location: tools.location,
+            ownerType: tools.ownerType,
+            ownerUserId: tools.ownerUserId,
+            ownerName: tools.ownerName,
+            usageLimit: tools.usageLimit,
+          })
+          .from(tools)
+          .where(inArray(tools.id, part))),
+      );
+    }
+    return out;
+  },
+
+  /** Active people who may receive mail: by id, plus everyone holding one of the roles. */
+  async people(db: DbOrTx, ids: string[], roles: ("crib" | "quality")[]) {
+    const rows = await db
+      .select({ id: users.id, name: users.name, email: users.email, role: users.role, digests: notificationPreferences.digests })
+      .from(users)
+      .leftJoin(notificationPreferences, eq(notificationPreferences.userId, users.id))
+      .where(and(eq(users.active, true), or(ids.length ? inArray(users.id, ids) : undefined, inArray(users.role, roles))));
+    return rows;
+  },
+
+  async insertRun(db: DbOrTx, values: typeof reminderRuns.$inferInsert) {
+    return (await db.insert(reminderRuns).values(values).returning())[0];
+  },
+
+  async updateRun(db: DbOrTx, id: string, values: Partial<typeof reminderRuns.$inferInsert>) {
+    return (await db.update(reminderRuns).set(values).where(eq(reminderRuns.id, id)).returning())[0];
+  },
+
+  /** Runs left "running" by a process that stopped; only called while holding the run lock. */
+  async closeInterruptedRuns(db: DbOrTx, at: Date) {
+    await db
+      .update(reminderRuns)
+      .set({ status: "failed", finishedAt: at, error: "Interrupted before it finished (the process stopped); its unsent reminders were retried by the next run." })
+      .where(eq(reminderRuns.status, "running"));
+  },
+
+  /**
+   * Claims reminders for a run: a new key is inserted; a key an earlier run
+   * claimed but never sent (crash, SMTP failure) is taken over; a key already
+   * sent is left alone and not returned.
+   */
+  async claim(db: DbOrTx, runId: string, at: Date, planned: PlannedReminder[]): Promise<ReminderLogRow[]> {
+    const claimed: ReminderLogRow[] = [];
+    for (const part of chunks(planned)) {
+      claimed.push(
+        ...(await db
+          .insert(reminderLog)
+          .values(part.map((p) => ({ toolId: p.toolId, dueAt: p.dueAt, stage: p.stage, recipientId: p.recipientId, runId, status: "claimed" as const, claimedAt: at })))
+          .onConflictDoUpdate({
+            target: [reminderLog.toolId, reminderLog.dueAt, reminderLog.stage, reminderLog.recipientId],
+            set: { runId, status: "claimed", claimedAt: at },
+            setWhere: sql`${reminderLog.status} <> 'sent' and ${reminderLog.runId} is distinct from ${runId}::uuid`,
+          })
+          .returning()),
+      );
+    }
+    return claimed;
+  },
+
+  async markSent(db: DbOrTx, ids: string[], at: Date, attempts: number) {
+    await db
+      .update(reminderLog)
+      .set({ status: "sent", sentAt: at, attempts: sql`${reminderLog.attempts} + ${attempts}`, lastError: null })
+      .where(inArray(reminderLog.id, ids));
+  },
+
+  async markFailed(db: DbOrTx, ids: string[], attempts: number, error: string) {
+    await db
+      .update(reminderLog)
+      .set({ status: "failed", attempts: sql`${reminderLog.attempts} + ${attempts}`, lastError: error })
+      .where(inArray(reminderLog.id, ids));
+  },
+
+  async listRuns(db: DbOrTx, page: number, pageSize: number) {
+    const [items, [{ total }]] = await Promise.all([
+      db.select().from(reminderRuns).orderBy(desc(reminderRuns.startedAt), desc(reminderRuns.id)).limit(pageSize).offset((page - 1) * pageSize),
+      db.select({ total: count() }).from(reminderRuns),
+    ]);
+    return { items, total };
+  },
+
+  findRun: (db: DbOrTx, id: string) => db.query.reminderRuns.findFirst({ where: eq(reminderRuns.id, id) }),
+
+  async entriesOfRun(db: DbOrTx, runId: string) {
+    return db
+      .select({
+        assetTag: tools.assetTag,
+        dueAt: reminderLog.dueAt,
+        stage: reminderLog.stage,
+        recipientName: users.name,
+        recipientEmail: users.email,
+        status: reminderLog.status,
+        attempts: reminderLog.attempts,
+        sentAt: reminderLog.sentAt,
+        lastError: reminderLog.lastError,
+      })
+      .from(reminderLog)
+      .innerJoin(tools, eq(tools.id, reminderLog.toolId))
+      .innerJoin(users, eq(users.id, reminderLog.recipientId))
+      .where(eq(reminderLog.runId, runId))
+      .orderBy(users.name, tools.assetTag, reminderLog.stage)
+      .limit(5000);
+  },
+
+  findPreferences: (db: DbOrTx, userId: string) => db.query.notificationPreferences.findFirst({ where: eq(notificationPreferences.userId, userId) }),
+
+  async savePreferences(db: DbOrTx, userId: string, digests: Record<string, boolean>, at: Date) {
+    await db
+      .insert(notificationPreferences)
+      .values({ userId, digests, updatedAt: at })
+      .onConflictDoUpdate({ target: notificationPreferences.userId, set: { digests, updatedAt: at } });
+  },
+};

@@ -1,0 +1,253 @@
+import type pg from "pg";
+import type { Logger } from "pino";
+import type { Db } from "../../db/client";
+import type { Clock } from "../../platform/clock";
+import type { Mailer } from "../../platform/mailer";
+import type { Config } from "../../config";
+import { getSettings } from "../settings/settings.service";
+import { statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { recordAudit } from "../audit/audit.repository";
+import { remindersRepository as repo, type ReminderLogRow } from "./reminders.repository";
+import { renderDigest, type DigestLine } from "./reminder-digest";
+import { planReminders, type DigestKey, type PlannedReminder, type ReminderStage, type ToolForReminders } from "../../../shared/reminders/reminder-plan";
+import type { RunRemindersResult } from "../../../shared/reminders/reminders.schemas";
+import { addDays, calendarDate } from "../../../shared/common/dates";
+
+/** How a failed SMTP delivery is tried again; tests pass a sleep that does not wait. */
+export interface RetryPolicy {
+  attempts: number;
+  backoffMs: (attempt: number) => number;
+  sleep: (ms: number) => Promise<void>;
+}
+
+/** Three tries, waiting 2 s then 8 s: rides out a relay's brief hiccup without holding the run for long. */
+export const DEFAULT_RETRY: RetryPolicy = {
+  attempts: 3,
+  backoffMs: (attempt) => 2000 * 4 ** (attempt - 1),
+  sleep: (ms) => new Promise((resolve) => setTimeout(resolve, ms)),
+};
+
+export interface RemindersDeps {
+  db: Db;
+  /** Where the run lock's dedicated connection comes from (defaults to the Drizzle handle's pool). */
+  pool?: pg.Pool;
+  clock: Clock;
+  mailer: Mailer;
+  config: Pick<Config, "SHOP_TIME_ZONE" | "PUBLIC_URL" | "PORT">;
+  logger?: Pick<Logger, "info" | "warn" | "error">;
+  retry?: RetryPolicy;
+}
+
+export interface RunOptions {
+  trigger: "schedule" | "manual" | "cli";
+  /** The admin who ran it by hand, for the audit trail. */
+  actorId?: string;
+  /** Test seams: after the claim is committed, and after each digest is sent (throwing there simulates a crash). */
+  hooks?: { afterClaim?: () => Promise<void> | void; afterSend?: (sentSoFar: number) => Promise<void> | void };
+}
+
+// One application-wide key for pg_try_advisory_lock: every instance of Tenthwise
+// on the same database competes for it, so only one run sends at a time.
+const RUN_LOCK_KEY = "7301455120";
+
+const STATUS_CHUNK = 500;
+
+/** Base of the links in mail: PUBLIC_URL when the shop set one, else the loopback address of this server. */
+export function publicBaseUrl(config: Pick<Config, "PUBLIC_URL" | "PORT">): string {
+  return (config.PUBLIC_URL ?? `http://127.0.0.1:${config.PORT}`).replace(/\/+$/, "");
+}
+
+function poolOf(deps: RemindersDeps): pg.Pool {
+  return deps.pool ?? (deps.db as unknown as { $client: pg.Pool }).$client;
+}
+
+/**
+ * Runs the due-reminder job once: under the run lock, works out every
+ * reminder due now, claims the ones not yet sent in one transaction (the
+ * reminder log's unique key makes each exactly once), then sends one digest
+ * per recipient, retrying SMTP failures, and records the outcome.
+ */
+export async function runReminders(deps: RemindersDeps, opts: RunOptions): Promise<RunRemindersResult> {
+  const { db, clock } = deps;
+  const startedAt = clock.now();
+  const lockConn = await poolOf(deps).connect();
+  let broken: Error | undefined;
+  try {
+    const got = await lockConn.query<{ locked: boolean }>("select pg_try_advisory_lock($1::bigint) as locked", [RUN_LOCK_KEY]);
+    if (!got.rows[0].locked) {
+      const run = await repo.insertRun(db, { trigger: opts.trigger, startedAt, finishedAt: startedAt, status: "skipped_locked", error: "Another run was already sending reminders." });
+      return { sent: 0, skipped: 0, failed: 0, reminders: 0, runId: run.id, status: "skipped_locked" };
+    }
+    try {
+      return await runLocked(deps, opts, startedAt);
+    } finally {
+      await lockConn.query("select pg_advisory_unlock($1::bigint)", [RUN_LOCK_KEY]).catch((e: Error) => (broken = e));
+    }
+  } finally {
+    // A connection whose unlock failed is discarded, which ends its session and so its lock.
+    lockConn.release(broken);
+  }
+}
+
+async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date): Promise<RunRemindersResult> {
+  const { db, clock } = deps;
+  await repo.closeInterruptedRuns(db, startedAt);
+  const run = await repo.insertRun(db, { trigger: opts.trigger, startedAt, status: "running" });
+  if (opts.actorId) await recordAudit(db, { actorId: opts.actorId, action: "reminders.run", entityType: "reminder_run", entityId: run.id, at: startedAt });
+  try {
+    const world = await gatherWorld(deps, startedAt);
+    const planned = world.planned;
+    const claimed = await db.transaction(async (tx) => {
+      const rows = await repo.claim(tx, run.id, startedAt, planned);
+      await repo.updateRun(tx, run.id, { skipped: planned.length - rows.length });
+      return rows;
+    });
+    await opts.hooks?.afterClaim?.();
+
+    const byRecipient = new Map<string, ReminderLogRow[]>();
+    for (const r of claimed) byRecipient.set(r.recipientId, [...(byRecipient.get(r.recipientId) ?? []), r]);
+    let sent = 0;
+    let failed = 0;
+    for (const [recipientId, rows] of byRecipient) {
+      const person = world.people.get(recipientId)!;
+      const mail = renderDigest({
+        recipient: person,
+        shopName: world.shopName,
+        baseUrl: world.baseUrl,
+        lines: rows.map((r) => world.lineFor(r.toolId, r.stage as ReminderStage)),
+      });
+      const outcome = await sendWithRetry(deps, () => deps.mailer.send(mail));
+      const ids = rows.map((r) => r.id);
+      if (outcome.ok) {
+        sent++;
+        await repo.markSent(db, ids, clock.now(), outcome.attempts);
+      } else {
+        failed++;
+        deps.logger?.warn({ to: person.email, err: outcome.error }, "reminder digest could not be sent");
+        await repo.markFailed(db, ids, outcome.attempts, outcome.error);
+      }
+      await repo.updateRun(db, run.id, { sent, failed });
+      await opts.hooks?.afterSend?.(sent);
+    }
+    const finished = await repo.updateRun(db, run.id, {
+      status: "finished",
+      finishedAt: clock.now(),
+      sent,
+      failed,
+      error: failed ? `${failed} digest${failed === 1 ? "" : "s"} could not be sent after ${(deps.retry ?? DEFAULT_RETRY).attempts} tries; the next run tries again.` : null,
+    });
+    deps.logger?.info({ runId: run.id, sent, failed, skipped: finished.skipped }, "reminder run finished");
+    return { sent, skipped: finished.skipped, failed, reminders: claimed.length, runId: run.id, status: "finished" };
+  } catch (e) {
+    await repo.updateRun(db, run.id, { status: "failed", finishedAt: clock.now(), error: (e as Error).message || String(e) });
+    throw e;
+  }
+}
+
+async function sendWithRetry(deps: RemindersDeps, send: () => Promise<void>): Promise<{ ok: true; attempts: number } | { ok: false; attempts: number; error: string }> {
+  const policy = deps.retry ?? DEFAULT_RETRY;
+  let lastError = "";
+  for (let attempt = 1; attempt <= policy.attempts; attempt++) {
+    try {
+      await send();
+      return { ok: true, attempts: attempt };
+    } catch (e) {
+      lastError = (e as Error).message || String(e);
+      if (attempt < policy.attempts) await policy.sleep(policy.backoffMs(attempt));
+    }
+  }
+  return { ok: false, attempts: policy.attempts, error: lastError };
+}
+
+interface Person {
+  id: string;
+  name: string;
+  email: string;
+  role: string;
+  digests: Record<string, boolean> | null;
+}
+
+/** True when the person wants this digest; escalations cannot be turned off. */
+function wants(p: Person, digest: DigestKey): boolean {
+  return digest === "escalations" || p.digests?.[digest] !== false;
+}
+
+/** Everything the run decides from: statuses at the instant, people, preferences, and what each reminder's line says. */
+async function gatherWorld(deps: RemindersDeps, at: Date) {
+  const { db, config } = deps;
+  const settings = await getSettings(db, config.SHOP_TIME_ZONE);
+  const tz = settings.shopTimeZone;
+  const today = calendarDate(at, tz);
+  const ids = await repo.candidateToolIds(db, at, addDays(today, Math.max(...settings.reminderStages)));
+  const ctx = { timeZone: tz, dueSoonDays: settings.dueSoonDays };
+  const statuses = new Map<string, ToolStatusView>();
+  for (let i = 0; i < ids.length; i += STATUS_CHUNK) {
+    for (const [id, v] of await statusesFor(db, ids.slice(i, i + STATUS_CHUNK), at, ctx)) statuses.set(id, v);
+  }
+  const facts = new Map((await repo.toolFacts(db, ids)).map((f) => [f.id, f]));
+
+  const holderIds = new Set<string>();
+  for (const f of facts.values()) if (f.ownerType === "personal" && f.ownerUserId) holderIds.add(f.ownerUserId);
+  for (const s of statuses.values()) if (s.custodian) holderIds.add(s.custodian.userId);
+  const people = new Map<string, Person>((await repo.people(db, [...holderIds], ["crib", "quality"])).map((p) => [p.id, p]));
+  const withRole = (role: string) => [...people.values()].filter((p) => p.role === role).map((p) => p.id);
+
+  const tools: ToolForReminders[] = [...statuses.values()].map((s) => {
+    const f = facts.get(s.toolId)!;
+    return {
+      toolId: s.toolId,
+      status: s.status,
+      dueAt: s.dueAt,
+      daysToDue: s.daysToDue,
+      usageLimit: f.usageLimit,
+      usesRemaining: s.usesRemaining,
+      ownerUserId: f.ownerType === "personal" ? f.ownerUserId : null,
+      custodian: s.custodian ? { userId: s.custodian.userId, dueBackAt: s.custodian.dueBackAt } : null,
+    };
+  });
+  const planned: PlannedReminder[] = planReminders({
+    tools,
+    at: at.toISOString(),
+    today,
+    dayOf: (instant) => calendarDate(instant, tz),
+    stages: settings.reminderStages,
+    escalationDays: settings.escalationDays,
+    cribIds: withRole("crib"),
+    qualityIds: withRole("quality"),
+  }).filter((p) => {
+    const person = people.get(p.recipientId);
+    return person !== undefined && wants(person, p.digest);
+  });
+
+  const baseUrl = publicBaseUrl(config);
+  const when = (instant: string) => `${calendarDate(instant, tz)} ${new Intl.DateTimeFormat("en-GB", { timeZone: tz, hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(new Date(instant))}`;
+  const plural = (n: number, what: string) => `${n} ${what}${n === 1 ? "" : "s"}`;
+
+  function lineFor(toolId: string, stage: ReminderStage): DigestLine {
+    const s = statuses.get(toolId)!;
+    const f = facts.get(toolId)!;
+    const days = s.daysToDue ?? 0;
+    const overdueWhy = days < 0 ? `${plural(-days, "day")} overdue` : "usage limit reached";
+    const detail: Record<string, string> = {
+      overdue: `${plural(-days, "day")} overdue; do not use until recalibrated`,
+      usage_low: `${plural(s.usesRemaining ?? 0, "use")} left of ${f.usageLimit}`,
+      usage_limit: `all ${f.usageLimit} uses since calibration taken; recalibrate before further use`,
+      not_returned: s.custodian ? `was due back ${when(s.custodian.dueBackAt)}` : "",
+      escalation: `${overdueWhy}${s.custodian ? " and still issued" : ""}`,
+    };
+    const owner = f.ownerType === "personal" ? (people.get(f.ownerUserId ?? "")?.name ?? f.ownerName ?? "its owner") : null;
+    const c = s.custodian;
+    return {
+      stage,
+      assetTag: s.assetTag,
+      description: f.description,
+      dueAt: s.dueAt,
+      detail: detail[stage] ?? (days === 0 ? "runs out today; usable until the end of the day" : `in ${plural(days, "day")}`),
+      where: c ? `Issued out of the crib${f.location ? ` (kept at ${f.location})` : ""}` : (f.location ?? (owner ? "With its owner" : "In the crib")),
+      who: c ? `${c.name} (${c.email}), since ${when(c.since)}` : owner ? `${owner} (owner)` : "Nobody: not issued",
+      link: `${baseUrl}/tools/${encodeURIComponent(s.assetTag)}`,
+    };
+  }
+
+  return { planned, people, lineFor, baseUrl, shopName: settings.shopName };
+}

@@ -1,0 +1,95 @@
+import { sql } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+
+type Row = Record<string, unknown>;
+const iso = (v: unknown) => (v == null ? null : new Date(String(v instanceof Date ? v.toISOString() : v)).toISOString());
+
+/** A job summary row: counts of readings and the last one; a sheet is open until an inspector signs it. */
+const jobSummary = (r: Row) => ({
+  id: String(r.id),
+  engineSerial: String(r.engine_serial),
+  engineModel: String(r.engine_model),
+  workOrder: (r.work_order as string | null) ?? null,
+  openedAt: iso(r.opened_at)!,
+  readings: Number(r.readings ?? 0),
+  lastReadingAt: iso(r.last_reading_at),
+});
+
+export const statsRepository = {
+  async allToolIds(db: DbOrTx): Promise<string[]> {
+    const r = await db.execute(sql`select id from tools`);
+    return (r.rows as Row[]).map((x) => String(x.id));
+  },
+
+  async openInvestigations(db: DbOrTx): Promise<number> {
+    const r = await db.execute(sql`select count(*)::int as n from investigations where status = 'open'`);
+    return Number((r.rows[0] as Row).n);
+  },
+
+  /** Tools still out on check-out past the time they were due back. */
+  async notReturned(db: DbOrTx, at: Date): Promise<number> {
+    const r = await db.execute(sql`select count(*)::int as n from checkouts where returned_at is null and due_back_at < ${at.toISOString()}`);
+    return Number((r.rows[0] as Row).n);
+  },
+
+  /** Tools the person holds on check-out, or owns. */
+  async myToolIds(db: DbOrTx, userId: string) {
+    const r = await db.execute(sql`
+      select t.id, t.description, 'personal' as relation from tools t where t.owner_user_id = ${userId}::uuid and t.lifecycle <> 'retired'
+      union
+      select t.id, t.description, 'issued' as relation from checkouts c join tools t on t.id = c.tool_id where c.user_id = ${userId}::uuid and c.returned_at is null`);
+    return r.rows as { id: string; description: string; relation: "issued" | "personal" }[];
+  },
+
+  /** Unsigned check sheets the person opened or took readings on, newest activity first. */
+  async myOpenJobs(db: DbOrTx, userId: string, limit = 50) {
+    const r = await db.execute(sql`
+      select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at,
+        (select count(*) from readings r where r.job_id = j.id) as readings,
+        (select max(r.taken_at) from readings r where r.job_id = j.id) as last_reading_at
+      from jobs j
+      where not exists (select 1 from job_signoffs s where s.job_id = j.id)
+        and (j.opened_by = ${userId}::uuid or exists (select 1 from readings r where r.job_id = j.id and r.taken_by = ${userId}::uuid))
+      order by coalesce((select max(r.taken_at) from readings r where r.job_id = j.id), j.opened_at) desc
+      limit ${limit}`);
+    return (r.rows as Row[]).map(jobSummary);
+  },
+
+  /** Check sheets with readings and no sign-off. */
+  async sheetsAwaitingSignature(db: DbOrTx, limit = 50) {
+    const where = sql`exists (select 1 from readings r where r.job_id = j.id) and not exists (select 1 from job_signoffs s where s.job_id = j.id)`;
+    const [rows, count] = await Promise.all([
+      db.execute(sql`
+        select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at,
+          (select count(*) from readings r where r.job_id = j.id) as readings,
+          (select max(r.taken_at) from readings r where r.job_id = j.id) as last_reading_at
+        from jobs j where ${where} order by j.opened_at limit ${limit}`),
+      db.execute(sql`select count(*)::int as n from jobs j where ${where}`),
+    ]);
+    return { items: (rows.rows as Row[]).map(jobSummary), total: Number((count.rows[0] as Row).n) };
+  },
+
+  /** Open investigations with affected items that have no disposition yet. */
+  async investigationsNeedingDisposition(db: DbOrTx, limit = 50) {
+    const pending = sql`(select count(*) from investigation_items i where i.investigation_id = v.id and not exists (select 1 from dispositions d where d.investigation_item_id = i.id))`;
+    const [rows, count] = await Promise.all([
+      db.execute(sql`
+        select v.id, t.asset_tag as tool_tag, s.asset_tag as standard_tag, v.trigger, v.opened_at, ${pending}::int as pending
+        from investigations v left join tools t on t.id = v.tool_id left join standards s on s.id = v.standard_id
+        where v.status = 'open' and ${pending} > 0
+        order by v.opened_at limit ${limit}`),
+      db.execute(sql`select count(*)::int as n from investigations v where v.status = 'open' and ${pending} > 0`),
+    ]);
+    return {
+      items: (rows.rows as Row[]).map((r) => ({
+        id: String(r.id),
+        toolAssetTag: (r.tool_tag as string | null) ?? null,
+        standardAssetTag: (r.standard_tag as string | null) ?? null,
+        trigger: String(r.trigger),
+        openedAt: iso(r.opened_at)!,
+        itemsAwaitingDisposition: Number(r.pending),
+      })),
+      total: Number((count.rows[0] as Row).n),
+    };
+  },
+};

@@ -1,0 +1,114 @@
+import type { Db } from "../../db/client";
+import type { Clock } from "../../platform/clock";
+import { statsRepository } from "./stats.repository";
+import { intervalsRepository } from "../intervals/intervals.repository";
+import { statusContext, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
+import { addDays, calendarDate } from "../../../shared/common/dates";
+import type { StatsDashboard, StatsInspection, StatsMine, StatsOverview } from "../../../shared/stats/stats.schemas";
+
+/** Tools per status query; keeps each query's parameter list well inside PostgreSQL's limit. */
+const CHUNK = 5000;
+
+/** Statuses under which a tool is still in calibration, so its due date is ahead of it. */
+const IN_CALIBRATION: ReadonlySet<ToolStatus> = new Set(["in_calibration", "due_soon", "limited"]);
+
+export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; timeZone: string }) {
+  /** Every tool's status now, from the one derivation, in chunks. */
+  async function allStatuses(at: Date) {
+    const ctx = await statusContext(db, timeZone);
+    const ids = await statsRepository.allToolIds(db);
+    const views: ToolStatusView[] = [];
+    for (let i = 0; i < ids.length; i += CHUNK) {
+      const m = await statusesFor(db, ids.slice(i, i + CHUNK), at, ctx);
+      views.push(...m.values());
+    }
+    return { views, ctx };
+  }
+
+  function counts(views: ToolStatusView[]) {
+    const byStatus = Object.fromEntries(TOOL_STATUSES.map((s) => [s, 0])) as Record<ToolStatus, number>;
+    let dueWithin30Days = 0;
+    let dueWithin7Days = 0;
+    for (const v of views) {
+      byStatus[v.status]++;
+      if (IN_CALIBRATION.has(v.status) && v.daysToDue != null && v.daysToDue >= 0) {
+        if (v.daysToDue <= 30) dueWithin30Days++;
+        if (v.daysToDue <= 7) dueWithin7Days++;
+      }
+    }
+    return { byStatus, dueWithin30Days, dueWithin7Days, overdue: byStatus.overdue };
+  }
+
+  return {
+    async overview(): Promise<StatsOverview> {
+      const now = clock.now();
+      const [{ views }, openInvestigations] = await Promise.all([allStatuses(now), statsRepository.openInvestigations(db)]);
+      const c = counts(views);
+      return { byStatus: c.byStatus, dueWithin30Days: c.dueWithin30Days, overdue: c.overdue, openInvestigations };
+    },
+
+    async dashboard(): Promise<StatsDashboard> {
+      const now = clock.now();
+      const [{ views, ctx }, openInvestigations, notReturned, sheets, needing, rates] = await Promise.all([
+        allStatuses(now),
+        statsRepository.openInvestigations(db),
+        statsRepository.notReturned(db, now),
+        statsRepository.sheetsAwaitingSignature(db, 1),
+        statsRepository.investigationsNeedingDisposition(db, 1),
+        intervalsRepository.familyRates(db),
+      ]);
+      const c = counts(views);
+      const today = calendarDate(now, ctx.timeZone);
+      // Twelve weeks counted from today (a shop's week start varies; "the next seven days" does not).
+      const dueByWeek = Array.from({ length: 12 }, (_, w) => ({ weekStart: addDays(today, 7 * w), weekEnd: addDays(today, 7 * w + 6), count: 0 }));
+      for (const v of views) {
+        if (!IN_CALIBRATION.has(v.status) || v.daysToDue == null || v.daysToDue < 0) continue;
+        const w = Math.floor(v.daysToDue / 7);
+        if (w < 12) dueByWeek[w].count++;
+      }
+      return {
+        ...c,
+        openInvestigations,
+        today,
+        totalTools: views.length,
+        notReturned,
+        sheetsAwaitingSignature: sheets.total,
+        investigationsNeedingDisposition: needing.total,
+        dueByWeek,
+        inToleranceRateByFamily: rates
+          .filter((r) => r.tools > 0)
+          .map((r) => ({ familyId: r.familyId, name: r.name, recalibrations: r.recalibrations, inTolerance: r.inTolerance, rate: r.recalibrations ? r.inTolerance / r.recalibrations : null })),
+      };
+    },
+
+    async mine(userId: string): Promise<StatsMine> {
+      const now = clock.now();
+      const ctx = await statusContext(db, timeZone);
+      const rows = await statsRepository.myToolIds(db, userId);
+      const statuses = await statusesFor(db, [...new Set(rows.map((r) => r.id))], now, ctx);
+      const tools = rows
+        .map((r) => {
+          const s = statuses.get(r.id)!;
+          return {
+            assetTag: s.assetTag,
+            description: r.description,
+            status: s.status,
+            usable: s.usable,
+            dueAt: s.dueAt,
+            daysToDue: s.daysToDue,
+            reasons: s.reasons,
+            relation: r.relation,
+            dueBackAt: r.relation === "issued" && s.custodian ? s.custodian.dueBackAt : null,
+          };
+        })
+        .sort((a, b) => (a.dueAt ?? "0000").localeCompare(b.dueAt ?? "0000") || a.assetTag.localeCompare(b.assetTag));
+      return { tools, openJobs: await statsRepository.myOpenJobs(db, userId) };
+    },
+
+    async inspection(): Promise<StatsInspection> {
+      const [sheets, needing] = await Promise.all([statsRepository.sheetsAwaitingSignature(db), statsRepository.investigationsNeedingDisposition(db)]);
+      return { sheetsAwaitingSignature: sheets.items, sheetsTotal: sheets.total, investigationsNeedingDisposition: needing.items, investigationsTotal: needing.total };
+    },
+  };
+}

@@ -1,0 +1,126 @@
+import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+import { tools, setElements, toolLifecycleEvents } from "./tools.table";
+import { families } from "../families/families.table";
+import { users } from "../users/users.table";
+import { checkouts } from "../checkouts/checkouts.table";
+import { intermediateChecks } from "../checks/checks.table";
+import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
+
+export type ToolRow = typeof tools.$inferSelect;
+export type SetElementRow = typeof setElements.$inferSelect;
+export type ToolListRow = { tool: ToolRow; familyName: string; kind: (typeof families.$inferSelect)["kind"] };
+
+/** Filters of the register that SQL can apply (status is derived, see tools.service listTools). */
+export type ToolSqlFilters = Pick<ToolListQuery, "familyId" | "kind" | "q" | "custodianId" | "ownerUserId" | "location" | "ownerType">;
+
+/** Sort keys SQL can order by; the others (status, dueAt, custodian) are derived. */
+export const SQL_SORTS = {
+  assetTag: tools.assetTag,
+  description: tools.description,
+  family: families.name,
+  location: tools.location,
+  createdAt: tools.createdAt,
+} as const;
+export type SqlSortKey = keyof typeof SQL_SORTS;
+
+function whereOf(f: ToolSqlFilters): SQL | undefined {
+  const like = f.q ? `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : null;
+  return and(
+    f.familyId ? eq(tools.familyId, f.familyId) : undefined,
+    f.kind ? eq(families.kind, f.kind) : undefined,
+    f.ownerType ? eq(tools.ownerType, f.ownerType) : undefined,
+    f.ownerUserId ? eq(tools.ownerUserId, f.ownerUserId) : undefined,
+    f.location ? sql`lower(${tools.location}) = lower(${f.location})` : undefined,
+    like
+      ? or(
+          ilike(tools.assetTag, like),
+          ilike(tools.description, like),
+          ilike(tools.serialNumber, like),
+          ilike(tools.maker, like),
+          ilike(tools.model, like),
+          ilike(tools.location, like),
+          ilike(tools.ownerName, like),
+        )
+      : undefined,
+    // Current custody: the open checkout (one per tool, partial unique index).
+    f.custodianId
+      ? sql`exists (select 1 from ${checkouts} where ${checkouts.toolId} = ${tools.id} and ${checkouts.userId} = ${f.custodianId} and ${checkouts.returnedAt} is null)`
+      : undefined,
+  );
+}
+
+function orderOf(sort: { key: SqlSortKey; desc: boolean }) {
+  const col = SQL_SORTS[sort.key];
+  return sort.desc ? sql`${col} desc nulls last` : sql`${col} asc nulls last`;
+}
+
+const listColumns = { tool: tools, familyName: families.name, kind: families.kind };
+
+export const toolsRepository = {
+  async findByTag(db: DbOrTx, tag: string) {
+    return (
+      (await db.query.tools.findFirst({ where: eq(tools.assetTag, tag) })) ??
+      // Scanned or typed tags may differ in case only.
+      (await db.query.tools.findFirst({ where: sql`lower(${tools.assetTag}) = lower(${tag})` }))
+    );
+  },
+  findById: (db: DbOrTx, id: string) => db.query.tools.findFirst({ where: eq(tools.id, id) }),
+  tagTaken: async (db: DbOrTx, tag: string) => !!(await db.query.tools.findFirst({ where: sql`lower(${tools.assetTag}) = lower(${tag})`, columns: { id: true } })),
+
+  /** One SQL-sorted page of the register and the total. */
+  async page(db: DbOrTx, f: ToolSqlFilters, sort: { key: SqlSortKey; desc: boolean }, page: number, pageSize: number) {
+    const where = whereOf(f);
+    const [items, [{ total }]] = await Promise.all([
+      db
+        .select(listColumns)
+        .from(tools)
+        .innerJoin(families, eq(families.id, tools.familyId))
+        .where(where)
+        .orderBy(orderOf(sort), asc(tools.assetTag))
+        .limit(pageSize)
+        .offset((page - 1) * pageSize),
+      db.select({ total: count() }).from(tools).innerJoin(families, eq(families.id, tools.familyId)).where(where),
+    ]);
+    return { items: items as ToolListRow[], total };
+  },
+
+  /** Every tool matching the SQL filters, in the given order: the candidate set for status filters and derived sorts. */
+  async candidates(db: DbOrTx, f: ToolSqlFilters, sort: { key: SqlSortKey; desc: boolean } = { key: "assetTag", desc: false }) {
+    return (await db
+      .select(listColumns)
+      .from(tools)
+      .innerJoin(families, eq(families.id, tools.familyId))
+      .where(whereOf(f))
+      .orderBy(orderOf(sort), asc(tools.assetTag))) as ToolListRow[];
+  },
+
+  insert: async (db: DbOrTx, values: typeof tools.$inferInsert) => (await db.insert(tools).values(values).returning())[0],
+  update: async (db: DbOrTx, id: string, values: Partial<typeof tools.$inferInsert>) => (await db.update(tools).set(values).where(eq(tools.id, id)).returning())[0],
+
+  elementsOf: (db: DbOrTx, toolId: string) => db.select().from(setElements).where(eq(setElements.toolId, toolId)).orderBy(asc(setElements.nominal), asc(setElements.label)),
+  findElement: (db: DbOrTx, toolId: string, elementId: string) =>
+    db.query.setElements.findFirst({ where: and(eq(setElements.toolId, toolId), eq(setElements.id, elementId)) }),
+  insertElements: (db: DbOrTx, values: (typeof setElements.$inferInsert)[]) => (values.length ? db.insert(setElements).values(values).returning() : Promise.resolve([])),
+  rejectElement: async (db: DbOrTx, elementId: string, at: Date, reason: string) =>
+    (await db.update(setElements).set({ rejectedAt: at, rejectedReason: reason }).where(and(eq(setElements.id, elementId), isNull(setElements.rejectedAt))).returning())[0],
+
+  lifecycleEvents: (db: DbOrTx, toolId: string) =>
+    db
+      .select({ at: toolLifecycleEvents.at, lifecycle: toolLifecycleEvents.lifecycle, reason: toolLifecycleEvents.reason, byName: users.name })
+      .from(toolLifecycleEvents)
+      .leftJoin(users, eq(users.id, toolLifecycleEvents.byUserId))
+      .where(eq(toolLifecycleEvents.toolId, toolId))
+      .orderBy(desc(toolLifecycleEvents.at)),
+
+  /** The latest failed intermediate check after an instant (or ever, when null). */
+  failedCheckSince: (db: DbOrTx, toolId: string, since: Date | null) =>
+    db.query.intermediateChecks.findFirst({
+      where: and(eq(intermediateChecks.toolId, toolId), eq(intermediateChecks.passed, false), since ? sql`${intermediateChecks.performedAt} > ${since.toISOString()}` : undefined),
+      orderBy: desc(intermediateChecks.performedAt),
+    }),
+
+  userNames: async (db: DbOrTx, ids: string[]) =>
+    new Map((ids.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids)) : []).map((u) => [u.id, u.name])),
+  userExists: async (db: DbOrTx, id: string) => !!(await db.query.users.findFirst({ where: eq(users.id, id), columns: { id: true } })),
+};

@@ -1,0 +1,36 @@
+import { z } from "zod";
+import { PageQuerySchema, pageOf } from "../common/lists.schemas";
+
+const dateOrInstant = z.union([
+  z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date YYYY-MM-DD or an ISO 8601 instant."),
+  z.string().datetime({ offset: true, message: "Use a date YYYY-MM-DD or an ISO 8601 instant." }),
+]);
+
+/** GET /api/audit filters: who, which record, when (from and to inclusive; a date means that whole day in the shop's zone). */
+export const AuditQuerySchema = PageQuerySchema.extend({
+  actorId: z.string().uuid("Pick a person from the list.").optional(),
+  entityType: z.string().trim().min(1).max(60).optional(),
+  entityId: z.string().trim().min(1).max(200).optional(),
+  action: z.string().trim().min(1).max(80).optional(),
+  from: dateOrInstant.optional(),
+  to: dateOrInstant.optional(),
+});
+export type AuditQuery = z.infer<typeof AuditQuerySchema>;
+
+export const AuditEventSchema = z.object({
+  id: z.number().int(),
+  at: z.string(),
+  actorId: z.string().nullable(),
+  actorName: z.string().nullable(),
+  action: z.string(),
+  entityType: z.string(),
+  entityId: z.string(),
+  before: z.unknown(),
+  after: z.unknown(),
+});
+export type AuditEvent = z.infer<typeof AuditEventSchema>;
+
+export const AuditPageSchema = pageOf(AuditEventSchema);
+
+/** Distinct record types and actions on the trail, for the filter lists. */
+export const AuditFacetsSchema = z.object({ entityTypes: z.array(z.string()), actions: z.array(z.string()) });

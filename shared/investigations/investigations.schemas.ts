@@ -1,0 +1,209 @@
+import { z } from "zod";
+import { InstantSchema, LengthSchema, UnitSchema, optionalText } from "../common/lists.schemas";
+
+/** What opened an investigation (the finding), one investigation per finding. */
+export const INVESTIGATION_TRIGGERS = ["as_found_failure", "check_failure", "lost", "damaged"] as const;
+export type InvestigationTrigger = (typeof INVESTIGATION_TRIGGERS)[number];
+
+export const TRIGGER_LABELS: Record<InvestigationTrigger, string> = {
+  as_found_failure: "As-found out of tolerance at calibration",
+  check_failure: "Failed intermediate check",
+  lost: "Tool lost",
+  damaged: "Tool returned damaged",
+};
+
+export const INVESTIGATION_STATUSES = ["open", "closed"] as const;
+export type InvestigationStatus = (typeof INVESTIGATION_STATUSES)[number];
+
+export const DISPOSITION_KINDS = ["no_impact", "remeasure", "notify_owner", "recall"] as const;
+export type DispositionKind = (typeof DISPOSITION_KINDS)[number];
+
+export const DISPOSITION_LABELS: Record<DispositionKind, string> = {
+  no_impact: "No impact",
+  remeasure: "Remeasured",
+  notify_owner: "Owner notified",
+  recall: "Recall",
+};
+
+const uuid = z.string().uuid("Not a valid id.");
+
+/**
+ * GET /api/investigations. api.md fixes `?toolAssetTag=` and the answer (an array); the other filters are
+ * extras: `status`, `jobId` (for the check sheet's banner), and `page`/`pageSize` (the total travels in the
+ * `X-Total-Count` header so the answer stays an array).
+ */
+export const InvestigationListQuerySchema = z.object({
+  toolAssetTag: optionalText(60),
+  status: z.enum(INVESTIGATION_STATUSES).optional(),
+  jobId: uuid.optional(),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(100),
+});
+export type InvestigationListQuery = z.input<typeof InvestigationListQuerySchema>;
+
+export const AffectedReadingSchema = z.object({ readingId: uuid, jobId: uuid, verdictCouldChange: z.boolean() });
+
+/** One entry of GET /api/investigations: the api.md fields first, then extras for the screens. */
+export const InvestigationSummarySchema = z.object({
+  id: uuid,
+  toolAssetTag: z.string().nullable(),
+  status: z.enum(INVESTIGATION_STATUSES),
+  windowStart: z.string().nullable(),
+  windowEnd: z.string(),
+  affectedReadings: z.array(AffectedReadingSchema),
+  trigger: z.enum(INVESTIGATION_TRIGGERS),
+  /** Set when the finding is on a reference standard (the cascade); toolAssetTag then carries the standard's tag. */
+  standardAssetTag: z.string().nullable(),
+  description: z.string(),
+  openedAt: z.string(),
+  closedAt: z.string().nullable(),
+  affectedCount: z.number().int(),
+  couldChangeCount: z.number().int(),
+  /** Items (readings and, in a cascade, calibrations) still waiting for a disposition. */
+  undisposedCount: z.number().int(),
+});
+export type InvestigationSummary = z.infer<typeof InvestigationSummarySchema>;
+export const InvestigationListSchema = z.array(InvestigationSummarySchema);
+
+export const DispositionSchema = z.object({
+  id: uuid,
+  itemId: uuid,
+  kind: z.enum(DISPOSITION_KINDS),
+  rationale: z.string(),
+  decidedBy: z.object({ id: uuid, name: z.string() }),
+  decidedAt: z.string(),
+  notifiedWhom: z.string().nullable(),
+  notifiedHow: z.string().nullable(),
+  notifiedAt: z.string().nullable(),
+  remeasureReadingId: z.string().nullable(),
+});
+export type Disposition = z.infer<typeof DispositionSchema>;
+
+/** One affected reading (or, in a standard's cascade, one affected calibration) as re-judged. */
+export const InvestigationItemSchema = z.object({
+  id: uuid,
+  kind: z.enum(["reading", "calibration"]),
+  toolAssetTag: z.string().nullable(),
+  readingId: z.string().nullable(),
+  calibrationId: z.string().nullable(),
+  job: z.object({ id: uuid, engineSerial: z.string(), engineModel: z.string(), workOrder: z.string().nullable() }).nullable(),
+  itemKey: z.string().nullable(),
+  itemLabel: z.string().nullable(),
+  index: z.number().int().nullable(),
+  unit: UnitSchema.nullable(),
+  values: z.array(z.number()),
+  /** The size (or, for a calibration, the as-found error) as it was judged. */
+  measuredValue: z.number().nullable(),
+  originalVerdict: z.string().nullable(),
+  correctedValue: z.number().nullable(),
+  marginBefore: z.number().nullable(),
+  marginAfter: z.number().nullable(),
+  verdictCouldChange: z.boolean(),
+  basis: z.string(),
+  takenAt: z.string().nullable(),
+  takenBy: z.string().nullable(),
+  override: z.boolean(),
+  dispositions: z.array(DispositionSchema),
+});
+export type InvestigationItem = z.infer<typeof InvestigationItemSchema>;
+
+export const FindingErrorSchema = z.object({
+  nominal: z.number(),
+  error: z.number(),
+  uncertainty: z.number().nullable(),
+  mpe: z.number().nullable(),
+});
+
+export const NotificationRecordSchema = z.object({
+  status: z.enum(["pending", "sending", "sent", "failed"]),
+  recipients: z.array(z.object({ email: z.string(), name: z.string(), reasons: z.array(z.string()) })),
+  sentAt: z.string().nullable(),
+  error: z.string().nullable().optional(),
+});
+
+export const InvestigationDetailSchema = InvestigationSummarySchema.extend({
+  tool: z.object({ assetTag: z.string(), description: z.string(), unit: UnitSchema }).nullable(),
+  standard: z.object({ assetTag: z.string(), name: z.string(), unit: UnitSchema }).nullable(),
+  calibrationId: z.string().nullable(),
+  checkId: z.string().nullable(),
+  checkoutId: z.string().nullable(),
+  openedBy: z.string().nullable(),
+  closedBy: z.string().nullable(),
+  closingSummary: z.string().nullable(),
+  finding: z.object({
+    summary: z.string(),
+    unit: UnitSchema.nullable(),
+    /** The errors found, per check point; null when unknown (a lost or damaged tool). */
+    errors: z.array(FindingErrorSchema).nullable(),
+    windowRule: z.string(),
+    note: z.string().nullable(),
+    notifications: NotificationRecordSchema.nullable(),
+  }),
+  items: z.array(InvestigationItemSchema),
+});
+export type InvestigationDetail = z.infer<typeof InvestigationDetailSchema>;
+
+/**
+ * A disposition for some items of one investigation: either `itemIds` or a whole `jobId`. Every kind needs a
+ * rationale; `notify_owner` records whom and how; `remeasure` names the new reading that supersedes.
+ */
+export const CreateDispositionSchema = z
+  .object({
+    itemIds: z.array(uuid).min(1).max(5000).optional(),
+    jobId: uuid.optional(),
+    kind: z.enum(DISPOSITION_KINDS, { message: "Choose a disposition." }),
+    rationale: z.string().trim().min(1, "Give the reason for this disposition.").max(4000),
+    notifiedWhom: optionalText(200),
+    notifiedHow: optionalText(200),
+    notifiedAt: InstantSchema.optional(),
+    remeasureReadingId: uuid.optional(),
+  })
+  .superRefine((v, ctx) => {
+    if (!!v.itemIds === !!v.jobId) ctx.addIssue({ code: "custom", path: ["itemIds"], message: "Name the affected items, or a whole job — one of the two." });
+    if (v.kind === "notify_owner") {
+      if (!v.notifiedWhom) ctx.addIssue({ code: "custom", path: ["notifiedWhom"], message: "Say who was notified." });
+      if (!v.notifiedHow) ctx.addIssue({ code: "custom", path: ["notifiedHow"], message: "Say how they were notified." });
+    }
+    if (v.kind === "remeasure") {
+      if (!v.remeasureReadingId) ctx.addIssue({ code: "custom", path: ["remeasureReadingId"], message: "Name the new reading that supersedes the affected one." });
+      if (v.jobId || (v.itemIds && v.itemIds.length !== 1)) ctx.addIssue({ code: "custom", path: ["itemIds"], message: "A remeasurement answers one affected reading." });
+    }
+  });
+export type CreateDispositionInput = z.input<typeof CreateDispositionSchema>;
+export type CreateDisposition = z.output<typeof CreateDispositionSchema>;
+
+export const CreateDispositionResultSchema = z.object({ dispositions: z.array(DispositionSchema) });
+
+export const CloseInvestigationSchema = z.object({
+  summary: z.string().trim().min(1, "Write the closing summary.").max(8000),
+});
+export type CloseInvestigationInput = z.infer<typeof CloseInvestigationSchema>;
+
+/**
+ * A finding on a reference standard: the errors found at its recalibration (error = the standard's actual
+ * value − the value it was used as; positive means it is larger than was assumed), in the standard's unit.
+ */
+export const StandardFindingSchema = z.object({
+  foundAt: InstantSchema,
+  errors: z
+    .array(z.object({ nominal: LengthSchema.nonnegative(), error: LengthSchema, uncertainty: LengthSchema.nonnegative().optional() }))
+    .min(1, "Give at least one error found.")
+    .max(200),
+  note: optionalText(2000),
+});
+export type StandardFindingInput = z.input<typeof StandardFindingSchema>;
+
+export const StandardFindingResultSchema = z.object({ investigationId: uuid });
+
+/** The three sentences the Cautions component shows wherever the product judges (product.md, Cautions), for PDFs and mail. */
+export const CAUTION_SENTENCES = [
+  "Limits must come from the manufacturer's current data for the exact engine model and revision.",
+  "Verdicts and flags here support, and never replace, the judgement of appropriately certificated persons, who alone decide airworthiness and return to service under the applicable regulations.",
+  "Local regulations and the shop's approved procedures govern.",
+] as const;
+
+/** What an investigation's flags are, and are not. */
+export const INVESTIGATION_FLAG_CAUTION =
+  "The flags of this investigation (\"verdict could change\") prompt a qualified evaluation of each affected reading; they are not determinations.";
+
+export const INVESTIGATION_CAUTIONS = [...CAUTION_SENTENCES, INVESTIGATION_FLAG_CAUTION] as const;

@@ -1,0 +1,110 @@
+import { z } from "zod";
+import { InstantSchema, UnitSchema, optionalText, PageQuerySchema } from "../common/lists.schemas";
+import { LimitItemSchema } from "../limit-tables/limit-tables.schemas";
+import { ReadingViewSchema } from "../readings/readings.schemas";
+
+/** Open a job: an engine on a limits table revision (kept for the life of the job). */
+export const CreateJobSchema = z.object({
+  limitTableId: z.string().uuid("Choose a limits table."),
+  engineSerial: z.string().trim().min(1, "Give the engine serial number.").max(60),
+  workOrder: optionalText(60),
+});
+export type CreateJobInput = z.input<typeof CreateJobSchema>;
+
+export const JOB_STATUSES = ["open", "signed"] as const;
+export const JobStatusSchema = z.enum(JOB_STATUSES);
+
+export const JobListQuerySchema = PageQuerySchema.extend({
+  engineSerial: z.string().trim().max(60).optional(),
+  status: JobStatusSchema.optional(),
+  /** Jobs I opened or took readings on. */
+  mine: z.enum(["true", "false"]).transform((v) => v === "true").optional(),
+  sort: z.enum(["openedAt", "-openedAt", "engineSerial", "-engineSerial"]).default("-openedAt"),
+});
+export type JobListQuery = z.input<typeof JobListQuerySchema>;
+
+const PersonRef = z.object({ id: z.string(), name: z.string() });
+
+export const JobSummarySchema = z.object({
+  id: z.string().uuid(),
+  engineSerial: z.string(),
+  engineModel: z.string(),
+  workOrder: z.string().nullable(),
+  limitTableId: z.string().uuid(),
+  limitTableName: z.string(),
+  limitTableVersion: z.number().int(),
+  openedAt: InstantSchema,
+  openedBy: PersonRef.nullable(),
+  status: JobStatusSchema,
+  readingCount: z.number().int(),
+  signedAt: InstantSchema.nullable(),
+});
+export type JobSummary = z.infer<typeof JobSummarySchema>;
+
+export const SignJobSchema = z.object({
+  certificateNumber: z.string().trim().min(1, "Give your inspector certificate number.").max(64),
+  note: optionalText(1000),
+});
+export type SignJobInput = z.input<typeof SignJobSchema>;
+
+export const SignoffSchema = z.object({
+  id: z.string().uuid(),
+  inspector: PersonRef,
+  certificateNumber: z.string(),
+  signedAt: InstantSchema,
+  note: z.string().nullable(),
+});
+
+const LimitJudgementSchema = z.object({
+  verdict: z.enum(["within_limits", "outside_limits"]),
+  band: z.enum(["new", "serviceable", "reject"]),
+  marginToNearestLimit: z.number(),
+  decidingLimits: z.object({ min: z.number().nullable(), max: z.number().nullable() }),
+});
+
+export const SheetRowSchema = z.object({
+  index: z.number().int(),
+  /** The current reading (latest, not superseded); clearance rows have none. */
+  reading: ReadingViewSchema.nullable(),
+  /** Readings this place held before, each superseded with a reason. */
+  history: z.array(ReadingViewSchema),
+  clearance: z.number().nullable(),
+  judgement: LimitJudgementSchema.nullable(),
+  verdict: z.enum(["within_limits", "outside_limits", "pending"]),
+  verdictText: z.string(),
+  flags: z.array(z.string()),
+});
+export type SheetRow = z.infer<typeof SheetRowSchema>;
+
+export const SheetItemSchema = LimitItemSchema.extend({ rows: z.array(SheetRowSchema) });
+export type SheetItem = z.infer<typeof SheetItemSchema>;
+
+/** GET /api/jobs/:id — the check sheet. */
+export const CheckSheetSchema = JobSummarySchema.extend({
+  limitTable: z.object({
+    id: z.string().uuid(),
+    name: z.string(),
+    engineModel: z.string(),
+    unit: UnitSchema,
+    sourceDocument: z.string(),
+    sourceRevision: z.string(),
+    version: z.number().int(),
+    isDemo: z.boolean(),
+    supersededById: z.string().uuid().nullable(),
+  }),
+  items: z.array(SheetItemSchema),
+  signoffs: z.array(SignoffSchema),
+  /** The sheet is locked: signed, and nothing corrected since. */
+  locked: z.boolean(),
+  /** A reading was corrected after the last sign-off: the sheet needs signing again. */
+  changedSinceSignoff: z.boolean(),
+  summary: z.object({
+    places: z.number().int(),
+    recorded: z.number().int(),
+    missing: z.array(z.object({ itemKey: z.string(), index: z.number().int(), label: z.string() })),
+    outside: z.number().int(),
+    flagged: z.number().int(),
+  }),
+  tools: z.array(z.object({ assetTag: z.string(), description: z.string(), statusAtReading: z.string(), dueAtReading: z.string().nullable(), readings: z.number().int() })),
+});
+export type CheckSheet = z.infer<typeof CheckSheetSchema>;

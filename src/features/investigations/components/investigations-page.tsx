@@ -1,0 +1,81 @@
+import { Link } from "react-router-dom";
+import { createColumnHelper } from "@tanstack/react-table";
+import { TRIGGER_LABELS, type InvestigationSummary } from "../../../../shared/investigations/investigations.schemas";
+import { useInvestigations } from "../api/investigations";
+import { PageHeader, ErrorNote } from "../../../components/ui/layout";
+import { DataTable } from "../../../components/ui/data-table";
+import { Cautions } from "../../../components/ui/cautions";
+import { errorMessage } from "../../../lib/api-client";
+import { useListParams } from "../../../lib/use-list-params";
+import { when } from "./format";
+import { InvestigationStatus } from "./investigation-status";
+
+const col = createColumnHelper<InvestigationSummary>();
+const PAGE_SIZE = 50;
+
+const columns = [
+  col.accessor("toolAssetTag", {
+    header: "Tool",
+    cell: (c) => (
+      <Link className="font-semibold text-ink underline decoration-brass underline-offset-2" to={`/investigations/${c.row.original.id}`}>
+        {c.getValue() ?? "—"}
+        <span className="sr-only"> investigation opened {when(c.row.original.openedAt)}</span>
+      </Link>
+    ),
+  }),
+  col.accessor("description", { header: "Description" }),
+  col.accessor("trigger", { header: "Finding", cell: (c) => TRIGGER_LABELS[c.getValue()] }),
+  col.accessor("status", { header: "Status", cell: (c) => <InvestigationStatus status={c.getValue()} /> }),
+  col.display({ id: "window", header: "Window", cell: (c) => `${c.row.original.windowStart ? when(c.row.original.windowStart) : "since ever"} → ${when(c.row.original.windowEnd)}` }),
+  col.accessor("affectedCount", { header: "Affected" }),
+  col.accessor("couldChangeCount", {
+    header: "Could change",
+    cell: (c) => <span className={c.getValue() > 0 ? "font-semibold text-stop" : ""}>{c.getValue()}</span>,
+  }),
+  col.accessor("undisposedCount", { header: "Awaiting disposition" }),
+  col.accessor("openedAt", { header: "Opened", cell: (c) => when(c.getValue()) }),
+];
+
+export function InvestigationsPage() {
+  const list = useListParams(["toolAssetTag", "status"] as const);
+  const q = useInvestigations({ toolAssetTag: list.filters.toolAssetTag, status: list.filters.status, page: list.page, pageSize: PAGE_SIZE });
+  return (
+    <div className="flex flex-col gap-4">
+      <PageHeader
+        title="Out-of-tolerance investigations"
+        subtitle="Opened by themselves when a tool fails as found, fails a check, is lost or comes back damaged. Open ones first."
+      />
+      {q.isError && <ErrorNote>{errorMessage(q.error)}</ErrorNote>}
+      <DataTable
+        label="Investigations"
+        columns={columns}
+        data={q.data?.items ?? []}
+        total={q.data?.total ?? 0}
+        page={list.page}
+        pageSize={PAGE_SIZE}
+        onPageChange={list.setPage}
+        loading={q.isPending}
+        rowKey={(r) => r.id}
+        initialHidden={["description"]}
+        empty="No investigation matches. One opens by itself when a tool is found out of tolerance."
+        toolbar={
+          <>
+            <input
+              aria-label="Filter by tool asset tag"
+              placeholder="Tool asset tag"
+              className="rounded-md border border-paper-line px-3 py-1.5"
+              defaultValue={list.filters.toolAssetTag}
+              onChange={(e) => list.setFilter("toolAssetTag", e.target.value.trim())}
+            />
+            <select aria-label="Filter by status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
+              <option value="">Open and closed</option>
+              <option value="open">Open</option>
+              <option value="closed">Closed</option>
+            </select>
+          </>
+        }
+      />
+      <Cautions compact />
+    </div>
+  );
+}

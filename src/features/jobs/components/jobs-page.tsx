@@ -1,0 +1,98 @@
+import { Link, useNavigate } from "react-router-dom";
+import { useForm } from "react-hook-form";
+import { zodResolver } from "@hookform/resolvers/zod";
+import { createColumnHelper } from "@tanstack/react-table";
+import { CreateJobSchema, type CreateJobInput, type JobSummary } from "../../../../shared/jobs/jobs.schemas";
+import { useJobs, useOpenJob } from "../api/jobs";
+import { useLimitTables } from "../../limit-tables/api/limit-tables";
+import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
+import { DataTable } from "../../../components/ui/data-table";
+import { TextField, SelectField } from "../../../components/ui/field";
+import { Button } from "../../../components/ui/button";
+import { errorMessage } from "../../../lib/api-client";
+import { useListParams } from "../../../lib/use-list-params";
+import { useCan } from "../../auth/api/auth";
+
+const col = createColumnHelper<JobSummary>();
+const columns = [
+  col.accessor("engineSerial", { header: "Engine serial", cell: (c) => <Link className="font-semibold underline" to={`/jobs/${c.row.original.id}`}>{c.getValue()}</Link> }),
+  col.accessor("engineModel", { header: "Model", enableSorting: false }),
+  col.accessor("workOrder", { header: "Work order", enableSorting: false }),
+  col.accessor("limitTableName", { header: "Limits table", enableSorting: false, cell: (c) => `${c.getValue()} (v${c.row.original.limitTableVersion})` }),
+  col.accessor("readingCount", { header: "Readings", enableSorting: false }),
+  col.accessor("status", { header: "Status", enableSorting: false, cell: (c) => (c.getValue() === "signed" ? <span className="font-semibold text-go">✓ Signed</span> : "Open") }),
+  col.accessor("openedAt", { header: "Opened", cell: (c) => `${c.getValue().slice(0, 10)}${c.row.original.openedBy ? ` · ${c.row.original.openedBy.name}` : ""}` }),
+];
+
+export function JobsPage() {
+  const list = useListParams(["engineSerial", "status", "mine"] as const, { sort: "-openedAt" });
+  const jobs = useJobs({
+    engineSerial: list.filters.engineSerial || undefined,
+    status: (list.filters.status || undefined) as "open" | "signed" | undefined,
+    mine: (list.filters.mine || undefined) as "true" | undefined,
+    page: list.page,
+    pageSize: 50,
+    sort: (list.sort || "-openedAt") as "-openedAt",
+  });
+  const canOpen = useCan("jobs.create");
+  return (
+    <div>
+      <PageHeader title="Check sheets" subtitle="One job per engine: every item measured, tied to the tools that measured it, then signed by an inspector." />
+      <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
+        <DataTable
+          label="Jobs"
+          columns={columns}
+          data={jobs.data?.items ?? []}
+          total={jobs.data?.total ?? 0}
+          page={list.page}
+          pageSize={50}
+          onPageChange={list.setPage}
+          sorting={list.sorting}
+          onSortingChange={list.setSorting}
+          loading={jobs.isPending}
+          rowKey={(j) => j.id}
+          toolbar={
+            <>
+              <input aria-label="Engine serial" placeholder="Engine serial" className="rounded-md border border-paper-line px-3 py-1.5" defaultValue={list.filters.engineSerial} onChange={(e) => list.setFilter("engineSerial", e.target.value)} />
+              <select aria-label="Status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
+                <option value="">Open and signed</option>
+                <option value="open">Open</option>
+                <option value="signed">Signed</option>
+              </select>
+              <label className="flex items-center gap-1 text-sm">
+                <input type="checkbox" checked={list.filters.mine === "true"} onChange={(e) => list.setFilter("mine", e.target.checked ? "true" : "")} /> Mine
+              </label>
+            </>
+          }
+        />
+        {canOpen && <OpenJobCard />}
+      </div>
+    </div>
+  );
+}
+
+function OpenJobCard() {
+  const navigate = useNavigate();
+  const open = useOpenJob();
+  const tables = useLimitTables({ current: "true", pageSize: 200, page: 1, sort: "engineModel" });
+  const form = useForm<CreateJobInput>({ resolver: zodResolver(CreateJobSchema) as never, defaultValues: { limitTableId: "", engineSerial: "", workOrder: "" } });
+  const e = form.formState.errors;
+  return (
+    <Card title="Open a job">
+      <form noValidate className="flex flex-col gap-3" onSubmit={form.handleSubmit((v) => open.mutate(v, { onSuccess: (j) => navigate(`/jobs/${j.id}`) }))}>
+        <SelectField label="Engine model and limits table" error={e.limitTableId?.message} {...form.register("limitTableId")}>
+          <option value="">Choose…</option>
+          {(tables.data?.items ?? []).map((t) => (
+            <option key={t.id} value={t.id}>
+              {t.engineModel} — {t.name} (v{t.version}){t.isDemo ? " [demo]" : ""}
+            </option>
+          ))}
+        </SelectField>
+        <TextField label="Engine serial" error={e.engineSerial?.message} {...form.register("engineSerial")} />
+        <TextField label="Work order (optional)" error={e.workOrder?.message} {...form.register("workOrder")} />
+        {open.isError && <ErrorNote>{errorMessage(open.error)}</ErrorNote>}
+        <Button type="submit" disabled={open.isPending}>Open job</Button>
+      </form>
+    </Card>
+  );
+}

@@ -1,0 +1,88 @@
+import { Link, useParams } from "react-router-dom";
+import { useLimitTable } from "../api/limit-tables";
+import { PageHeader, Card, Facts, Loading, ErrorNote } from "../../../components/ui/layout";
+import { ButtonLink } from "../../../components/ui/button";
+import { Cautions, DemoNotice } from "../../../components/ui/cautions";
+import { errorMessage } from "../../../lib/api-client";
+import { useCan } from "../../auth/api/auth";
+import { LIMIT_ITEM_KIND_LABELS, VERIFY_NOTICE, type LimitItemView } from "../../../../shared/limit-tables/limit-tables.schemas";
+import { formatLimit, formatRange } from "./limit-format";
+
+/** Items grouped by their section, in table order. */
+export function bySection<T extends { section: string | null }>(items: T[]): [string, T[]][] {
+  const groups = new Map<string, T[]>();
+  for (const it of items) groups.set(it.section ?? "General", [...(groups.get(it.section ?? "General") ?? []), it]);
+  return [...groups.entries()];
+}
+
+export function LimitTablePage() {
+  const { id } = useParams();
+  const table = useLimitTable(id);
+  const canWrite = useCan("limitTables.write");
+  if (table.isPending) return <Loading />;
+  if (table.isError) return <ErrorNote>{errorMessage(table.error)}</ErrorNote>;
+  const t = table.data;
+  const describe = (it: LimitItemView) =>
+    it.kind === "clearance" ? `${it.boreKey} − ${it.journalKey}${it.radial ? " (radial)" : " (diametral)"}` : it.kind === "journal" || it.kind === "bore" ? `${it.directions} directions` : "";
+  return (
+    <div className="flex flex-col gap-4">
+      <PageHeader
+        title={t.name}
+        subtitle={`${t.engineModel} — version ${t.version}`}
+        actions={canWrite && !t.supersededById && <ButtonLink to={`/limit-tables/${t.id}/revise`}>Revise this table</ButtonLink>}
+      />
+      {t.isDemo && <DemoNotice what="limits" />}
+      <p role="note" className="rounded-md border border-caution/40 bg-caution-light px-3 py-1.5 text-sm font-semibold text-caution">{VERIFY_NOTICE}</p>
+      {t.supersededById && (
+        <p className="text-sm">
+          This version has been revised. <Link className="underline" to={`/limit-tables/${t.supersededById}`}>Open the newer version</Link>; jobs opened on this one keep it.
+        </p>
+      )}
+      <Card>
+        <Facts items={[["Source document", t.sourceDocument], ["Revision", t.sourceRevision], ["Unit", t.unit === "in" ? "inch" : "millimetre"], ["Values", t.isDemo ? "Demo (invented)" : "Entered from the source document"], ["Created", `${t.createdAt.slice(0, 10)}${t.createdBy ? ` by ${t.createdBy.name}` : ""}`]]} />
+      </Card>
+      {bySection(t.items).map(([section, items]) => (
+        <Card key={section} title={section}>
+          <div className="overflow-x-auto">
+            <table className="w-full text-left text-sm" aria-label={`Limits: ${section}`}>
+              <thead className="text-xs uppercase text-ink-soft">
+                <tr>
+                  <th className="py-1 pr-3">Item</th>
+                  <th className="py-1 pr-3">Kind</th>
+                  <th className="py-1 pr-3">New limits ({t.unit})</th>
+                  <th className="py-1 pr-3">Serviceable</th>
+                  <th className="py-1 pr-3">Each engine</th>
+                  <th className="py-1 pr-3">How</th>
+                </tr>
+              </thead>
+              <tbody>
+                {items.map((it) => (
+                  <tr key={it.key} className="border-t border-paper-line align-top">
+                    <td className="py-1.5 pr-3">
+                      <span className="font-semibold">{it.label}</span>
+                      <span className="block text-xs text-ink-faint">{it.key}</span>
+                      {it.note && <span className="block text-xs text-ink-soft">{it.note}</span>}
+                    </td>
+                    <td className="py-1.5 pr-3">{LIMIT_ITEM_KIND_LABELS[it.kind]}</td>
+                    <td className="py-1.5 pr-3 tabular-nums">{it.kind === "visual" ? "serviceable / reject" : formatRange(it, it.min, it.max, t.unit)}</td>
+                    <td className="py-1.5 pr-3 tabular-nums">
+                      {it.serviceableMin != null && `min ${formatLimit(it, it.serviceableMin, t.unit)} `}
+                      {it.serviceableMax != null && `max ${formatLimit(it, it.serviceableMax, t.unit)}`}
+                      {it.serviceableMin == null && it.serviceableMax == null && "—"}
+                    </td>
+                    <td className="py-1.5 pr-3">× {it.repeat}</td>
+                    <td className="py-1.5 pr-3 text-xs">
+                      {describe(it)}
+                      {it.toolKinds?.length ? <span className="block">{it.toolKinds.join(", ").replace(/_/g, " ")}</span> : null}
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        </Card>
+      ))}
+      <Cautions />
+    </div>
+  );
+}

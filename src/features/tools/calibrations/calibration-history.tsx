@@ -1,0 +1,148 @@
+import type { ReactNode } from "react";
+import { Link } from "react-router-dom";
+import type { Calibration, CalibrationPoint } from "../../../../shared/calibrations/calibrations.schemas";
+import type { ToolDetail } from "../../../../shared/tools/tools.schemas";
+import { useCan } from "../../auth/api/auth";
+import { useCalibrations } from "../api/calibrations";
+import { Card, EmptyState, ErrorNote, Facts, Loading } from "../../../components/ui/layout";
+import { cx } from "../../../components/ui/cx";
+import { errorMessage } from "../../../lib/api-client";
+import { day, len, signedLen, when } from "../lib/format";
+import { ReviewForm } from "./review-form";
+import { ResultBadge, TurWarning } from "./result-badge";
+
+/** Every calibration record of the tool, newest first; superseded records stay, marked. */
+export function CalibrationHistory({ tool }: { tool: ToolDetail }) {
+  const cals = useCalibrations(tool.assetTag);
+  return (
+    <Card title="Calibration history">
+      {cals.isPending ? <Loading /> : cals.isError ? <ErrorNote>{errorMessage(cals.error)}</ErrorNote> : cals.data.items.length === 0 ? (
+        <EmptyState>No calibration on record.</EmptyState>
+      ) : (
+        <ol className="flex flex-col gap-4" aria-label="Calibration records">
+          {cals.data.items.map((c, i) => (
+            <CalibrationRecord key={c.id} c={c} tool={tool} open={i === 0} />
+          ))}
+        </ol>
+      )}
+    </Card>
+  );
+}
+
+function CalibrationRecord({ c, tool, open }: { c: Calibration; tool: ToolDetail; open: boolean }) {
+  const canCorrect = useCan("calibrations.write");
+  const canReview = useCan("calibrations.review");
+  const superseded = !!c.supersededById;
+  return (
+    <li aria-label={`Calibration of ${day(c.performedAt)}`} className={cx("rounded-md border p-3", superseded ? "border-dashed border-paper-line bg-paper-sunk/60 text-ink-soft" : "border-paper-line")}>
+      <div className="mb-2 flex flex-wrap items-center gap-2">
+        <strong className="text-base">{when(c.performedAt)}</strong>
+        <ResultBadge result={c.result} />
+        <span className="text-sm">{c.source === "in_house" ? "In-house" : `Outside lab: ${c.lab?.name ?? "—"}`}</span>
+        {superseded && <span className="rounded-full border border-ink-faint px-2 py-0.5 text-xs font-semibold uppercase">Superseded — no longer counts</span>}
+        {c.awaitingReview && !superseded && <span className="rounded-full border border-caution/50 bg-caution-light px-2 py-0.5 text-xs font-semibold text-caution">! Awaiting certificate review</span>}
+        {canCorrect && !superseded && (
+          <Link className="ml-auto text-sm underline" to={`/tools/${encodeURIComponent(tool.assetTag)}/calibrate?supersedes=${c.id}`}>
+            Correct this record
+          </Link>
+        )}
+      </div>
+      <Facts
+        items={[
+          ["As found", c.asFoundInTolerance ? "In tolerance" : <span className="font-semibold text-stop">Out of tolerance</span>],
+          ["Next due", c.nextDueAt],
+          ["Performed by", c.performedBy?.name ?? c.performedByName],
+          ["Decision rule", c.decisionRule === "guarded" ? "Guarded acceptance (|error| max MPE − U)" : "Simple acceptance (|error| max MPE)"],
+          ["Environment", [c.temperatureC != null ? `${c.temperatureC} °C` : null, c.humidityPct != null ? `${c.humidityPct} % RH` : null].filter(Boolean).join(", ") || null],
+          [
+            "Standards used",
+            c.standards.length ? (
+              <span className="flex flex-wrap gap-x-3">
+                {c.standards.map((s) => (
+                  <Link key={s.id} className="underline" to={`/standards/${s.id}`}>
+                    {s.assetTag} {s.name}
+                  </Link>
+                ))}
+              </span>
+            ) : null,
+          ],
+          [
+            "Certificate",
+            c.certificateNumber || c.hasCertificateFile ? (
+              <span>
+                {c.certificateNumber ?? ""}{" "}
+                {c.hasCertificateFile && c.certificateFileUrl && (
+                  <a className="underline" href={c.certificateFileUrl} target="_blank" rel="noreferrer">
+                    Download certificate
+                  </a>
+                )}
+              </span>
+            ) : null,
+          ],
+          ["Limited to", c.limitedRange ? `${len(c.limitedRange.min, c.unit)} – ${len(c.limitedRange.max, c.unit)}${c.limitedRange.note ? ` (${c.limitedRange.note})` : ""}` : null],
+          ["Corrects an earlier record", c.supersedesId ? c.supersedeReason : null],
+          ["Notes", c.notes],
+          ["Investigation", c.investigationId ? <Link className="underline" to={`/investigations/${c.investigationId}`}>Opened by this finding</Link> : null],
+        ].filter(([, v]) => v != null && v !== "") as [string, ReactNode][]}
+      />
+      {c.turWarning && <TurWarning className="mt-2" />}
+      {c.source === "outside_lab" && (
+        <div className="mt-2">
+          {c.review ? (
+            <p className={cx("rounded-md px-3 py-2 text-sm", c.review.accepted ? "bg-go-light" : "bg-stop-light")}>
+              <strong>{c.review.accepted ? "Certificate reviewed and accepted" : "Certificate reviewed and NOT accepted"}</strong> by {c.review.reviewedBy?.name ?? "—"} on {when(c.review.reviewedAt)}: {c.review.findings}
+            </p>
+          ) : (
+            !superseded && canReview && <ReviewForm calibration={c} />
+          )}
+        </div>
+      )}
+      <details className="mt-3" open={open && !superseded}>
+        <summary className="cursor-pointer text-sm font-semibold">Check points ({c.points.length})</summary>
+        <PointsTable points={c.points} unit={c.unit} />
+      </details>
+    </li>
+  );
+}
+
+/** The signed points of a record: the server's own numbers, shown as recorded. */
+export function PointsTable({ points, unit }: { points: CalibrationPoint[]; unit: "in" | "mm" }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="mt-2 w-full text-left text-sm" aria-label="Check points">
+        <thead className="text-xs uppercase tracking-wide text-ink-faint">
+          <tr>
+            <th className="py-1 pr-3">Nominal</th>
+            <th className="pr-3">Reference</th>
+            <th className="pr-3">As found</th>
+            <th className="pr-3">Error</th>
+            <th className="pr-3">As left</th>
+            <th className="pr-3">MPE ±</th>
+            <th className="pr-3">U (k=2)</th>
+            <th className="pr-3">TUR</th>
+            <th>Verdict</th>
+          </tr>
+        </thead>
+        <tbody>
+          {points.map((p) => (
+            <tr key={p.id} className="border-t border-paper-line">
+              <td className="py-1 pr-3">
+                {len(p.nominal, unit)}
+                {p.elementLabel && <span className="block text-xs text-ink-faint">element {p.elementLabel}</span>}
+              </td>
+              <td className="pr-3">{len(p.reference, unit)}</td>
+              <td className="pr-3">{len(p.asFound, unit)}</td>
+              <td className={cx("pr-3", !p.asFoundInTolerance && "font-semibold text-stop")}>{signedLen(p.errorAsFound, unit)}</td>
+              <td className="pr-3">{p.asLeft == null ? "—" : `${len(p.asLeft, unit)} (${signedLen(p.errorAsLeft, unit)})`}</td>
+              <td className="pr-3">{len(p.mpe, unit)}</td>
+              <td className="pr-3">{p.uncertainty == null ? "—" : len(p.uncertainty, unit, 6)}</td>
+              <td className={cx("pr-3", p.turAdequate === false && "font-semibold text-caution")}>{p.tur == null ? "—" : `${p.tur.toFixed(1)}:1`}</td>
+              <td className={cx("font-semibold", p.verdict === "pass" ? "text-go" : "text-stop")}>{p.verdict === "pass" ? "✓ Pass" : "✕ Fail"}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+

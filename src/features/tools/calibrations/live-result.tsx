@@ -1,0 +1,69 @@
+import type { LengthUnit } from "../../../../shared/common/units";
+import { cx } from "../../../components/ui/cx";
+import { len, signedLen } from "../lib/format";
+import type { LiveCalibration, LivePoint } from "../lib/live-calibration";
+import { ResultBadge, TurWarning } from "./result-badge";
+
+/** Error, U, TUR and verdict of one point as the person types (the shared judgePoint, live). */
+export function LivePointCells({ point, unit, index }: { point: LivePoint | undefined; unit: LengthUnit; index: number }) {
+  const j = point?.computed;
+  if (!point || !j) {
+    return (
+      <td colSpan={4} className="py-1 pr-2 align-top text-xs text-ink-faint" aria-live="polite">
+        {point?.problem ?? ""}
+      </td>
+    );
+  }
+  const label = `Point ${index + 1}`;
+  return (
+    <>
+      <td className={cx("py-2 pr-2 align-top font-mono", !j.asFoundInTolerance && "font-semibold text-stop")} aria-label={`${label} error`}>
+        {signedLen(j.errorAsFound, unit)}
+        {j.errorAsLeft != null && <span className="block text-xs text-ink-soft">left {signedLen(j.errorAsLeft, unit)}</span>}
+      </td>
+      <td className="py-2 pr-2 align-top font-mono" aria-label={`${label} U used`}>
+        {j.uncertainty == null ? "—" : len(j.uncertainty, unit, unit === "in" ? 7 : 5)}
+        {j.uncertaintySource === "budget" && <span className="block font-sans text-xs text-ink-faint">from budget</span>}
+        {j.referenceSource === "certified" && <span className="block font-sans text-xs text-ink-faint">ref. {len(j.reference, unit, unit === "in" ? 6 : 4)} certified</span>}
+      </td>
+      <td className={cx("py-2 pr-2 align-top", j.turAdequate === false && "font-bold text-caution")} aria-label={`${label} TUR`}>
+        {j.tur == null ? "—" : `${j.tur.toFixed(1)}:1`}
+        {j.turAdequate === false && <span className="block text-xs">under 4:1</span>}
+      </td>
+      <td className={cx("py-2 pr-2 align-top font-semibold", j.verdict === "pass" ? "text-go" : "text-stop")} aria-label={`${label} verdict`}>
+        {j.verdict === "pass" ? "✓ Pass" : "✕ Fail"}
+        {j.verdict === "pass" && !j.asFoundInTolerance && <span className="block text-xs font-normal">as found: out</span>}
+      </td>
+    </>
+  );
+}
+
+/** The overall answer the record will carry: result, as-found state, next due date, TUR warning. */
+export function LiveSummary({ live, unit }: { live: LiveCalibration; unit: LengthUnit }) {
+  const pending = live.points.filter((p) => !p.computed).length;
+  return (
+    <section aria-label="Result so far" aria-live="polite" className="rounded-card border-2 border-ink/20 bg-paper-raised p-4 shadow-card">
+      <h2 className="mb-2 text-lg font-semibold">Result so far</h2>
+      {live.overall ? (
+        <div className="flex flex-col gap-1">
+          <p className="flex flex-wrap items-center gap-2 text-xl font-bold">
+            Overall: <ResultBadge result={live.overall.result} className="text-base" />
+          </p>
+          <p>
+            As found: {live.overall.asFoundInTolerance ? "in tolerance at every point" : <strong className="text-stop">out of tolerance at {live.points.filter((p) => p.computed && !p.computed.asFoundInTolerance).length} point(s) — an investigation of the readings taken with this tool will be opened</strong>}.
+          </p>
+        </div>
+      ) : (
+        <p className="text-ink-soft">
+          {pending} point{pending === 1 ? "" : "s"} still to fill in before the overall result can be judged.
+        </p>
+      )}
+      <p className="mt-1">
+        Next due: <strong>{live.nextDueAt ?? "—"}</strong>
+        <span className="text-sm text-ink-faint"> (calendar date of the calibration + the tool's interval; no grace period)</span>
+      </p>
+      {live.lowTurPoints > 0 && <TurWarning className="mt-2" points={live.lowTurPoints} />}
+      <p className="mt-2 text-xs text-ink-faint">Computed in the browser with the same code the server signs with; lengths in {unit}.</p>
+    </section>
+  );
+}

@@ -1,0 +1,190 @@
+import { useState } from "react";
+import { Link } from "react-router-dom";
+import { createColumnHelper } from "@tanstack/react-table";
+import { STATUS_LABELS, TOOL_STATUSES } from "../../../../shared/tools/tool-status";
+import { OWNER_TYPES, OWNER_TYPE_LABELS, type ToolSummary } from "../../../../shared/tools/tools.schemas";
+import { useCan, useCurrentUser } from "../../auth/api/auth";
+import { usePeople } from "../../users/api/users";
+import { toolsCsvUrl, useTools } from "../api/tools";
+import { useAllFamilies } from "../api/families";
+import { PageHeader, ErrorNote } from "../../../components/ui/layout";
+import { DataTable } from "../../../components/ui/data-table";
+import { ButtonLink } from "../../../components/ui/button";
+import { StatusBadge } from "../../../components/ui/status-badge";
+import { cx } from "../../../components/ui/cx";
+import { errorMessage } from "../../../lib/api-client";
+import { useListParams } from "../../../lib/use-list-params";
+import { len } from "../lib/format";
+import { DebouncedInput } from "./debounced-input";
+
+const FILTERS = ["q", "status", "usable", "familyId", "location", "custodianId", "custodianName", "ownerType"] as const;
+const PAGE_SIZE = 50;
+// On a phone the register opens with the columns that answer "may I use it?"; the chooser brings back the rest.
+const NARROW = () => window.matchMedia("(max-width: 639px)").matches;
+const control = "rounded-md border border-paper-line bg-paper-raised px-2 py-1.5 min-h-10";
+
+const col = createColumnHelper<ToolSummary>();
+// Column ids that the server sorts by are the sort keys of ToolListQuerySchema.
+const columns = [
+  col.accessor("assetTag", {
+    id: "assetTag",
+    header: "Asset tag",
+    cell: (c) => (
+      <Link className="whitespace-nowrap font-semibold text-ink underline decoration-brass underline-offset-2" to={`/tools/${encodeURIComponent(c.getValue())}`}>
+        {c.getValue()}
+      </Link>
+    ),
+  }),
+  col.accessor("status", { id: "status", header: "Status", cell: (c) => <StatusBadge status={c.getValue()} /> }),
+  col.accessor("dueAt", {
+    id: "dueAt",
+    header: "Due",
+    cell: (c) => <span className={cx(c.row.original.status === "overdue" && "font-bold text-stop")}>{c.getValue() ?? "—"}</span>,
+  }),
+  col.accessor("description", { id: "description", header: "Description" }),
+  col.accessor("familyName", { id: "family", header: "Family" }),
+  col.accessor((t) => `${len(t.rangeMin, t.unit)} – ${len(t.rangeMax, t.unit)}`, { id: "range", header: "Range", enableSorting: false, cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
+  col.accessor("resolution", { id: "resolution", header: "Resolution", enableSorting: false, cell: (c) => len(c.getValue(), c.row.original.unit) }),
+  col.accessor("location", { id: "location", header: "Location" }),
+  col.accessor((t) => t.custodian?.name ?? null, { id: "custodian", header: "Custodian" }),
+  col.accessor((t) => (t.ownerType === "shop" ? "Shop" : `${OWNER_TYPE_LABELS[t.ownerType]}${t.ownerName ? `: ${t.ownerName}` : ""}`), { id: "owner", header: "Owner", enableSorting: false }),
+  col.accessor("serialNumber", { id: "serialNumber", header: "Serial", enableSorting: false }),
+  col.accessor((t) => [t.maker, t.model].filter(Boolean).join(" ") || null, { id: "makerModel", header: "Maker / model", enableSorting: false }),
+];
+
+export function RegisterPage() {
+  const list = useListParams(FILTERS, { sort: "assetTag", pageSize: PAGE_SIZE });
+  const f = list.filters;
+  const user = useCurrentUser();
+  const canAdd = useCan("tools.write");
+  const families = useAllFamilies();
+  const query = { q: f.q, status: f.status, usable: f.usable, familyId: f.familyId, location: f.location, custodianId: f.custodianId, ownerType: f.ownerType, sort: list.sort };
+  const tools = useTools({ ...query, page: list.page, pageSize: PAGE_SIZE });
+  const filtered = FILTERS.some((k) => f[k]);
+
+  return (
+    <div>
+      <PageHeader
+        title="Tool register"
+        subtitle="Every measuring tool, whether it may be used, and until when."
+        actions={
+          <>
+            <a className="inline-flex min-h-10 items-center rounded-md border border-paper-line bg-paper-raised px-4 py-2 text-sm font-semibold hover:bg-paper-sunk" href={toolsCsvUrl(query)} download>
+              Export CSV
+            </a>
+            {canAdd && (
+              <ButtonLink variant="primary" to="/tools/new">
+                Register a tool
+              </ButtonLink>
+            )}
+          </>
+        }
+      />
+      {tools.isError && <ErrorNote>{errorMessage(tools.error)}</ErrorNote>}
+      <DataTable
+        label="Tool register"
+        columns={columns}
+        data={tools.data?.items ?? []}
+        total={tools.data?.total ?? 0}
+        page={list.page}
+        pageSize={PAGE_SIZE}
+        onPageChange={list.setPage}
+        sorting={list.sorting}
+        onSortingChange={list.setSorting}
+        loading={tools.isFetching}
+        rowKey={(t) => t.id}
+        initialHidden={NARROW() ? ["resolution", "serialNumber", "makerModel", "owner", "family", "range", "location", "custodian"] : ["resolution", "serialNumber", "makerModel", "owner"]}
+        empty={<p className="text-center text-ink-faint">No tool matches these filters.</p>}
+        toolbar={
+          <>
+            <DebouncedInput aria-label="Search tools" type="search" placeholder="Tag, description, serial" className={cx(control, "w-full sm:w-56")} value={f.q} onValue={(v) => list.setFilter("q", v)} />
+            <select
+              aria-label="Filter by status"
+              className={control}
+              value={f.usable === "false" ? "!usable" : f.status}
+              onChange={(e) => list.update(e.target.value === "!usable" ? { status: null, usable: "false" } : { status: e.target.value, usable: null })}
+            >
+              <option value="">Any status</option>
+              <option value="!usable">Any "do not use" status</option>
+              {TOOL_STATUSES.map((s) => (
+                <option key={s} value={s}>
+                  {STATUS_LABELS[s]}
+                </option>
+              ))}
+            </select>
+            <select aria-label="Filter by family" className={control} value={f.familyId} onChange={(e) => list.setFilter("familyId", e.target.value)}>
+              <option value="">Any family</option>
+              {(families.data?.items ?? []).map((fam) => (
+                <option key={fam.id} value={fam.id}>
+                  {fam.name}
+                </option>
+              ))}
+            </select>
+            <DebouncedInput aria-label="Filter by location" placeholder="Location" title="The whole location name, e.g. Crib A" className={cx(control, "w-32")} value={f.location} onValue={(v) => list.setFilter("location", v)} />
+            <select aria-label="Filter by owner" className={control} value={f.ownerType} onChange={(e) => list.setFilter("ownerType", e.target.value)}>
+              <option value="">Any owner</option>
+              {OWNER_TYPES.map((o) => (
+                <option key={o} value={o}>
+                  {OWNER_TYPE_LABELS[o]}
+                </option>
+              ))}
+            </select>
+            <CustodianFilter
+              selected={f.custodianId ? { id: f.custodianId, name: f.custodianName || "selected person" } : null}
+              onChange={(p) => list.update({ custodianId: p?.id ?? null, custodianName: p?.name ?? null })}
+              me={{ id: user.id, name: user.name }}
+            />
+            {filtered && (
+              <button type="button" className="text-sm underline" onClick={() => list.update(Object.fromEntries(FILTERS.map((k) => [k, null])))}>
+                Clear filters
+              </button>
+            )}
+          </>
+        }
+      />
+    </div>
+  );
+}
+
+/** Custodian filter: "in my custody" in one tap, or anyone found by name. */
+function CustodianFilter({ selected, onChange, me }: { selected: { id: string; name: string } | null; onChange: (p: { id: string; name: string } | null) => void; me: { id: string; name: string } }) {
+  const [q, setQ] = useState("");
+  const people = usePeople(q);
+  if (selected) {
+    return (
+      <span className="inline-flex min-h-10 items-center gap-2 rounded-md border border-brass/50 bg-brass-light/50 px-2 text-sm">
+        Custodian: <strong>{selected.id === me.id ? "me" : selected.name}</strong>
+        <button type="button" aria-label="Clear custodian filter" className="px-1 font-bold" onClick={() => onChange(null)}>
+          ✕
+        </button>
+      </span>
+    );
+  }
+  return (
+    <span className="relative inline-flex items-center gap-2">
+      <button type="button" className={cx(control, "text-sm")} onClick={() => onChange(me)}>
+        In my custody
+      </button>
+      <input aria-label="Filter by custodian" placeholder="Custodian name" className={cx(control, "w-40")} value={q} onChange={(e) => setQ(e.target.value)} />
+      {q.trim() && people.data && (
+        <ul className="absolute left-0 top-full z-10 mt-1 max-h-60 w-64 overflow-auto rounded-md border border-paper-line bg-paper-raised shadow-card">
+          {people.data.items.length === 0 && <li className="px-3 py-2 text-sm text-ink-faint">Nobody by that name.</li>}
+          {people.data.items.map((p) => (
+            <li key={p.id}>
+              <button
+                type="button"
+                className="w-full px-3 py-2 text-left text-sm hover:bg-paper-sunk"
+                onClick={() => {
+                  onChange({ id: p.id, name: p.name });
+                  setQ("");
+                }}
+              >
+                {p.name} <span className="text-ink-faint">{p.email}</span>
+              </button>
+            </li>
+          ))}
+        </ul>
+      )}
+    </span>
+  );
+}

@@ -1,0 +1,453 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { sql } from "drizzle-orm";
+import { createTestApp, type TestApp } from "../support/test-app";
+import { roleMatrix } from "../support/role-matrix";
+import { makeFamily, makeLab, makeStandard, makeTool, makeCalibration } from "../support/factories";
+import { calibrationBody, micrometerBench } from "../support/factories-register";
+
+let t: TestApp;
+beforeAll(async () => {
+  t = await createTestApp({ now: "2026-06-15T15:00:00Z" });
+});
+afterAll(async () => t.close());
+
+const ALL = ["mechanic", "crib", "inspector", "quality", "auditor", "admin"] as const;
+const PDF = Buffer.from("%PDF-1.4\n% demo certificate (invented)\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n");
+
+async function statusOf(tag: string, at?: string) {
+  const a = await t.agent("mechanic");
+  return (await a.get(`/api/tools/${tag}/status${at ? `?at=${encodeURIComponent(at)}` : ""}`)).body;
+}
+async function calibrationCount(toolId: string) {
+  const r = await t.db.execute(sql`select count(*)::int as n from calibrations where tool_id = ${toolId}`);
+  return Number((r.rows[0] as { n: number }).n);
+}
+
+describe("signing a calibration", () => {
+  it("quality signs an in-house calibration: each point's error is computed exactly, the result is pass, and the tool is in calibration until the calendar date plus the interval (api.md)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const res = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], {}, { "0.5": 0.5001, "0.21": 0.2099 }));
+    expect(res.status).toBe(201);
+    expect(res.body.result).toBe("pass");
+    expect(res.body.asFoundInTolerance).toBe(true);
+    expect(res.body.nextDueAt).toBe("2027-06-15");
+    const p05 = res.body.points.find((p: { nominal: number }) => p.nominal === 0.5);
+    expect(p05).toMatchObject({ reference: 0.5, asFound: 0.5001, errorAsFound: 0.0001, mpe: 0.0001, verdict: "pass" });
+    expect(res.body.points.find((p: { nominal: number }) => p.nominal === 0.21).errorAsFound).toBe(-0.0001);
+    expect(res.body.standards[0].assetTag).toBe(standard.assetTag);
+    expect(res.body.performedBy.id).toBe(t.people.quality.id);
+
+    const status = await statusOf(tool.assetTag);
+    expect(status).toMatchObject({ status: "in_calibration", usable: true, dueAt: "2027-06-15" });
+    const list = await q.get(`/api/tools/${tool.assetTag}/calibrations`);
+    expect(list.body.total).toBe(1);
+    expect(list.body.items[0].id).toBe(res.body.id);
+  });
+
+  it("a reading exactly on the permissible error passes under simple acceptance (ILAC-G8:09/2019 §4.2.1) and fails under guarded acceptance when U > 0 (ILAC-G8:09/2019 §4.2.2)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const point = { nominal: 0.5, asFound: 0.5001, uncertainty: 0.00002 };
+    const simple = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [point] }));
+    expect(simple.status).toBe(201);
+    expect(simple.body.points[0]).toMatchObject({ errorAsFound: 0.0001, acceptanceLimit: 0.0001, verdict: "pass" });
+    expect(simple.body.result).toBe("pass");
+
+    const guarded = await q.post(
+      `/api/tools/${tool.assetTag}/calibrations`,
+      calibrationBody([standard.id], { decisionRule: "guarded", points: [point], supersedesId: simple.body.id, supersedeReason: "Procedure calls for guarded acceptance" }),
+    );
+    expect(guarded.status).toBe(201);
+    expect(guarded.body.points[0]).toMatchObject({ errorAsFound: 0.0001, acceptanceLimit: 0.00008, verdict: "fail" });
+    expect(guarded.body.result).toBe("fail");
+    expect(guarded.body.asFoundInTolerance).toBe(false);
+    expect((await statusOf(tool.assetTag)).status).toBe("out_of_tolerance");
+  });
+
+  it("without a given U, the point's U comes from the budget (certificate U/k, resolution d/√12, temperature; root-sum-square, k = 2, GUM 5.1.2 and 6.2) and a TUR under 4:1 is flagged (ANSI/NCSL Z540.3-2006 §5.3 b)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const res = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.5, asFound: 0.5 }] }));
+    expect(res.status).toBe(201);
+    // u = sqrt((0.000004/2)² + (0.0001/√12)² + (12.7 mm · 1e-6/K · 0.2 K / 25.4 /√3)²) = 2.894e-5 in; U = 5.79e-5 → stated 0.000058 (two digits, rounded up)
+    expect(res.body.points[0].uncertainty).toBe(0.000058);
+    expect(res.body.points[0].tur).toBeCloseTo(0.0001 / 0.000058, 3);
+    expect(res.body.points[0].turAdequate).toBe(false);
+    expect(res.body.turWarning).toBe(true);
+  });
+
+  it("the reference defaults to the standard's certified value where the certificate gives one (api.md)", async () => {
+    const family = await makeFamily(t.db, { name: "Outside micrometer 1-2 in (test)", checkPoints: [] });
+    const tool = await makeTool(t.db, { familyId: family.id, rangeMin: "1", rangeMax: "2" });
+    const { standard } = await makeStandard(t.db, { name: "1 in setting standard", kind: "setting_standard", nominal: "1.0000" }, { certifiedValue: "1.00002" });
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 1, asFound: 1.0001 }, { nominal: 1.5, asFound: 1.5 }] }));
+    expect(res.status).toBe(201);
+    expect(res.body.points[0]).toMatchObject({ reference: 1.00002, errorAsFound: 0.00008 });
+    expect(res.body.points[1]).toMatchObject({ reference: 1.5, errorAsFound: 0 });
+  });
+
+  it("a per-point permissible error from the family's check plan applies where the point gives none", async () => {
+    const family = await makeFamily(t.db, { name: "Dial indicator plan (test)", kind: "dial_indicator", mpe: "0.0002", checkPoints: [{ nominal: "0.1" }, { nominal: "0.9", mpe: "0.0004" }] });
+    const tool = await makeTool(t.db, { familyId: family.id });
+    const { standard } = await makeStandard(t.db);
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.1, asFound: 0.1003 }, { nominal: 0.9, asFound: 0.9003 }] }));
+    expect(res.body.points.map((p: { mpe: number; verdict: string }) => [p.mpe, p.verdict])).toEqual([
+      [0.0002, "fail"],
+      [0.0004, "pass"],
+    ]);
+  });
+
+  it("the next due date counts from the shop's calendar date, not the UTC date: a calibration at 23:30 in Chicago is due a year from that day, usable through it and overdue the next morning (api.md)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const res = await (await t.agent("quality")).post(
+      `/api/tools/${tool.assetTag}/calibrations`,
+      calibrationBody([standard.id], { performedAt: "2026-06-15T04:30:00Z" }), // 23:30 CDT on 14 June
+    );
+    expect(res.body.nextDueAt).toBe("2027-06-14");
+    const lastEvening = await statusOf(tool.assetTag, "2027-06-15T04:30:00Z"); // 23:30 CDT on the due date
+    expect(lastEvening).toMatchObject({ usable: true, dueAt: "2027-06-14" });
+    const nextMorning = await statusOf(tool.assetTag, "2027-06-15T05:30:00Z"); // 00:30 CDT the day after
+    expect(nextMorning).toMatchObject({ status: "overdue", usable: false });
+  });
+
+  it("an as-found reading out of tolerance that is adjusted back in gives the result adjusted, and the tool returns to calibration", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const body = calibrationBody([standard.id]);
+    body.points = body.points.map((p) => (p.nominal === 0.5 ? { ...p, asFound: 0.5003, asLeft: 0.5 } : p));
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, body);
+    expect(res.status).toBe(201);
+    expect(res.body.result).toBe("adjusted");
+    expect(res.body.asFoundInTolerance).toBe(false);
+    const p = res.body.points.find((x: { nominal: number }) => x.nominal === 0.5);
+    expect(p).toMatchObject({ errorAsFound: 0.0003, errorAsLeft: 0, asFoundInTolerance: false, verdict: "pass" });
+    expect((await statusOf(tool.assetTag)).status).toBe("in_calibration");
+  });
+
+  it("an as-found failure left unadjusted fails the calibration and takes the tool out of use", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], {}, { "0.815": 0.8154 }));
+    expect(res.body.result).toBe("fail");
+    const s = await statusOf(tool.assetTag);
+    expect(s).toMatchObject({ status: "out_of_tolerance", usable: false });
+    expect(s.reasons[0]).toMatch(/out of tolerance at calibration/);
+  });
+
+  it("a calibration released for part of the range only gives the result limited, and the tool is limited to that range", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const res = await (await t.agent("quality")).post(
+      `/api/tools/${tool.assetTag}/calibrations`,
+      calibrationBody([standard.id], { limitedRange: { min: 0, max: 0.5, note: "Worn spindle above 0.5 in (demo)" } }, { "0.71": 0.7104, "0.92": 0.9205 }),
+    );
+    expect(res.body.result).toBe("limited");
+    expect(res.body.limitedRange).toEqual({ min: 0, max: 0.5, note: "Worn spindle above 0.5 in (demo)" });
+    const s = await statusOf(tool.assetTag);
+    expect(s.status).toBe("limited");
+    expect(s.reasons[0]).toMatch(/0.*0\.5 in/);
+  });
+});
+
+describe("standards must be in calibration", () => {
+  it("a calibration with a standard whose certificate ran out before the calibration date is refused with standard_not_in_calibration, and nothing is written", async () => {
+    const { tool } = await micrometerBench(t.db);
+    const { standard: lapsed } = await makeStandard(t.db, { assetTag: "GBS-LAPSED" }, { issuedAt: "2025-06-01", dueAt: "2026-06-14" });
+    const q = await t.agent("quality");
+    const res = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([lapsed.id]));
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe("standard_not_in_calibration");
+    expect(res.body.error.message).toMatch(/GBS-LAPSED/);
+    expect(await calibrationCount(tool.id)).toBe(0);
+    expect((await statusOf(tool.assetTag)).status).toBe("never_calibrated");
+  });
+
+  it("a standard is in calibration through its certificate's due date (the date is the shop's calendar date)", async () => {
+    const { tool } = await micrometerBench(t.db);
+    const { standard } = await makeStandard(t.db, {}, { issuedAt: "2025-06-15", dueAt: "2026-06-15" });
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id]));
+    expect(res.status).toBe(201);
+  });
+});
+
+describe("evidence is append-only", () => {
+  it("a correction is a new record that supersedes the old one with a reason; the old one stays, marked, and no longer counts", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const first = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-06-10T14:00:00Z" }, { "0.815": 0.8154 }));
+    expect(first.body.result).toBe("fail");
+
+    const noReason = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-06-10T14:00:00Z", supersedesId: first.body.id }));
+    expect(noReason.status).toBe(400);
+    expect(noReason.body.error.details[0].path).toEqual(["supersedeReason"]);
+
+    const fix = await q.post(
+      `/api/tools/${tool.assetTag}/calibrations`,
+      calibrationBody([standard.id], { performedAt: "2026-06-10T14:00:00Z", supersedesId: first.body.id, supersedeReason: "0.815 reading was transcribed wrong; the sheet says 0.8151" }, { "0.815": 0.8151 }),
+    );
+    expect(fix.status).toBe(201);
+    expect(fix.body).toMatchObject({ supersedesId: first.body.id, result: "pass" });
+    const old = await q.get(`/api/calibrations/${first.body.id}`);
+    expect(old.body).toMatchObject({ result: "fail", supersededById: fix.body.id });
+    expect((await statusOf(tool.assetTag)).status).toBe("in_calibration");
+    expect((await q.get(`/api/tools/${tool.assetTag}/calibrations`)).body.total).toBe(2);
+
+    const again = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { supersedesId: first.body.id, supersedeReason: "second try" }));
+    expect(again.status).toBe(409);
+    expect(again.body.error.code).toBe("already_superseded");
+  });
+
+  it("a signed calibration cannot be edited or deleted through the API (409 record_signed), nor in the database itself", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const cal = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id]));
+    const edit = await q.patch(`/api/calibrations/${cal.body.id}`, { result: "pass" });
+    expect(edit.status).toBe(409);
+    expect(edit.body.error.code).toBe("record_signed");
+    const del = await q.delete(`/api/calibrations/${cal.body.id}`);
+    expect(del.status).toBe(409);
+    expect(del.body.error.code).toBe("record_signed");
+    const refusal = (p: Promise<unknown>) => p.then(() => "changed", (e: { cause?: Error; message: string }) => e.cause?.message ?? e.message);
+    expect(await refusal(t.db.execute(sql`update calibration_points set as_found = '0.6' where calibration_id = ${cal.body.id}`))).toMatch(/record_signed/);
+    expect(await refusal(t.db.execute(sql`delete from calibrations where id = ${cal.body.id}`))).toMatch(/record_signed/);
+    expect((await q.get(`/api/calibrations/${cal.body.id}`)).body.points.find((p: { nominal: number }) => p.nominal === 0.5).asFound).toBe(0.5);
+  });
+
+  it("every signed calibration lands in the audit trail with who signed it", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const cal = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id]));
+    const r = await t.db.execute(sql`select actor_id, action from audit_events where entity_id = ${cal.body.id}`);
+    expect(r.rows).toEqual([{ actor_id: t.people.quality.id, action: "calibration.create" }]);
+  });
+});
+
+describe("outside-lab certificates", () => {
+  it("an outside lab's record does not count until its certificate review is recorded; the review says who, when and what was found", async () => {
+    const family = await makeFamily(t.db, { kind: "dial_indicator", name: "Dial indicator 0-1 in (test)", mpe: "0.0002", checkPoints: [] });
+    const tool = await makeTool(t.db, { familyId: family.id });
+    const lab = await makeLab(t.db, { name: "Meridian Dimensional Lab (test)" });
+    const q = await t.agent("quality");
+    const upload = await q.upload("/api/calibrations/certificate-files", "file", PDF, "lab-cert.pdf");
+    expect(upload.status).toBe(201);
+    const cal = await q.post(`/api/tools/${tool.assetTag}/calibrations`, {
+      performedAt: "2026-06-12T15:00:00Z",
+      source: "outside_lab",
+      labId: lab.id,
+      certificateNumber: "MDL-DEMO-2231",
+      certificateFileKey: upload.body.fileKey,
+      decisionRule: "simple",
+      points: [{ nominal: 0.5, asFound: 0.5001, uncertainty: 0.00003 }],
+    });
+    expect(cal.status).toBe(201);
+    expect(cal.body).toMatchObject({ awaitingReview: true, review: null, hasCertificateFile: true, lab: { name: "Meridian Dimensional Lab (test)" } });
+    const pending = await statusOf(tool.assetTag);
+    expect(pending.status).toBe("never_calibrated");
+    expect(pending.reasons.join(" ")).toMatch(/awaiting review/);
+
+    const file = await q.get(cal.body.certificateFileUrl);
+    expect(file.status).toBe(200);
+    expect(file.headers["content-type"]).toBe("application/pdf");
+
+    const reviewed = await q.post(`/api/calibrations/${cal.body.id}/review`, { accepted: true, findings: "Certificate complete; results within limits; lab accreditation in scope." });
+    expect(reviewed.status).toBe(201);
+    expect(reviewed.body.review).toMatchObject({ accepted: true, reviewedBy: { id: t.people.quality.id }, reviewedAt: "2026-06-15T15:00:00.000Z" });
+    expect((await statusOf(tool.assetTag)).status).toBe("in_calibration");
+    const twice = await q.post(`/api/calibrations/${cal.body.id}/review`, { accepted: true, findings: "again" });
+    expect(twice.body.error.code).toBe("already_reviewed");
+  });
+
+  it("an in-house record has no certificate review (409 not_outside_lab)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const cal = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id]));
+    const res = await q.post(`/api/calibrations/${cal.body.id}/review`, { accepted: true, findings: "n/a" });
+    expect(res.status).toBe(409);
+    expect(res.body.error.code).toBe("not_outside_lab");
+  });
+
+  it("a file that is neither a PDF nor an image is refused", async () => {
+    const res = await (await t.agent("quality")).upload("/api/calibrations/certificate-files", "file", Buffer.from("MZ not a certificate"), "cert.exe");
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe("unsupported_file_type");
+  });
+});
+
+describe("intermediate checks", () => {
+  it("a check on the tolerance passes; a failed intermediate check puts the tool out of tolerance at once", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    await makeCalibration(t.db, tool.id, { performedAt: new Date("2026-06-01T14:00:00Z"), nextDueAt: "2027-06-01" }, undefined, [standard.id]);
+    const m = await t.agent("mechanic");
+    const ok = await m.post(`/api/tools/${tool.assetTag}/checks`, { nominal: 0.5, reading: 0.5001, standardId: standard.id });
+    expect(ok.status).toBe(201);
+    expect(ok.body).toMatchObject({ passed: true, deviation: 0.0001, tolerance: 0.0001, toolStatus: "in_calibration" });
+
+    const bad = await m.post(`/api/tools/${tool.assetTag}/checks`, { nominal: 0.5, reading: 0.5003, note: "Zero drifted after a knock (demo)" });
+    expect(bad.body).toMatchObject({ passed: false, deviation: 0.0003, toolStatus: "out_of_tolerance", usable: false });
+    const s = await statusOf(tool.assetTag);
+    expect(s.status).toBe("out_of_tolerance");
+    expect(s.reasons[0]).toMatch(/Failed an intermediate check/);
+    const list = await m.get(`/api/tools/${tool.assetTag}/checks`);
+    expect(list.body.total).toBe(2);
+    expect(list.body.items[0].passed).toBe(false);
+  });
+
+  it("the check tolerance is the family's own, falling back to its permissible error", async () => {
+    const family = await makeFamily(t.db, { name: "Loose check family (test)", mpe: "0.0001", checkTolerance: "0.0002" });
+    const tool = await makeTool(t.db, { familyId: family.id });
+    const res = await (await t.agent("crib")).post(`/api/tools/${tool.assetTag}/checks`, { nominal: 0.5, reading: 0.4998 });
+    expect(res.body).toMatchObject({ passed: true, deviation: -0.0002, tolerance: 0.0002 });
+  });
+
+  it("a recorded check cannot be changed (409 record_signed)", async () => {
+    const { tool } = await micrometerBench(t.db);
+    const m = await t.agent("quality");
+    const c = await m.post(`/api/tools/${tool.assetTag}/checks`, { nominal: 0.5, reading: 0.5 });
+    expect((await m.patch(`/api/checks/${c.body.id}`, { reading: 0.6 })).body.error.code).toBe("record_signed");
+  });
+});
+
+describe("quarantine and release", () => {
+  it("a dropped tool is quarantined and unusable; release with a reason puts it back in use", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    await makeCalibration(t.db, tool.id, { performedAt: new Date("2026-06-01T14:00:00Z"), nextDueAt: "2027-06-01" }, undefined, [standard.id]);
+    const crib = await t.agent("crib");
+    const held = await crib.post(`/api/tools/${tool.assetTag}/quarantine`, { reason: "Dropped on the floor at bench 3" });
+    expect(held.status).toBe(200);
+    expect(held.body).toMatchObject({ status: "quarantined", usable: false });
+    expect((await crib.post(`/api/tools/${tool.assetTag}/quarantine`, { reason: "again" })).body.error.code).toBe("already_quarantined");
+    const released = await crib.post(`/api/tools/${tool.assetTag}/release`, { reason: "Checked against CHK block, reads true" });
+    expect(released.body).toMatchObject({ status: "in_calibration", usable: true });
+    expect((await crib.post(`/api/tools/${tool.assetTag}/release`, { reason: "again" })).body.error.code).toBe("not_quarantined");
+  });
+
+  it("a quarantined tool that failed a check since its calibration is not released until a passing calibration (409 calibration_required)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    await makeCalibration(t.db, tool.id, { performedAt: new Date("2026-06-01T14:00:00Z"), nextDueAt: "2027-06-01" }, undefined, [standard.id]);
+    const q = await t.agent("quality");
+    await q.post(`/api/tools/${tool.assetTag}/checks`, { nominal: 0.5, reading: 0.5004 });
+    await q.post(`/api/tools/${tool.assetTag}/quarantine`, { reason: "Failed its pre-use check" });
+    const refused = await q.post(`/api/tools/${tool.assetTag}/release`, { reason: "Looks fine" });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe("calibration_required");
+    expect((await statusOf(tool.assetTag)).status).toBe("quarantined");
+
+    t.clock.set("2026-06-15T16:00:00Z");
+    await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-06-15T15:30:00Z" }));
+    const released = await q.post(`/api/tools/${tool.assetTag}/release`, { reason: "Recalibrated, passes" });
+    expect(released.body.status).toBe("in_calibration");
+    t.clock.set("2026-06-15T15:00:00Z");
+  });
+});
+
+describe("status at an instant", () => {
+  it("the status can be asked for a past instant: before its first calibration the tool was never calibrated", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-05-01T14:00:00Z" }));
+    expect((await statusOf(tool.assetTag, "2026-04-30T12:00:00Z")).status).toBe("never_calibrated");
+    expect(await statusOf(tool.assetTag, "2026-05-02T12:00:00-05:00")).toMatchObject({ status: "in_calibration", dueAt: "2027-05-01" });
+    const bad = await (await t.agent("mechanic")).get(`/api/tools/${tool.assetTag}/status?at=yesterday`);
+    expect(bad.status).toBe(400);
+  });
+});
+
+describe("bad input", () => {
+  it("a calibration with a reading typed as text, no points, or a future date is refused with 400 and nothing is written", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const text = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.5, asFound: "0.5x" as unknown as number }] }));
+    expect(text.status).toBe(400);
+    expect(text.body.error.details[0].path).toEqual(["points", 0, "asFound"]);
+    expect((await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [] }))).status).toBe(400);
+    const future = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-06-16T15:00:00Z" }));
+    expect(future.status).toBe(400);
+    expect(future.body.error.code).toBe("performed_in_future");
+    const unknownStd = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody(["00000000-0000-4000-8000-000000000000"]));
+    expect(unknownStd.status).toBe(400);
+    expect(unknownStd.body.error.code).toBe("unknown_standard");
+    expect(await calibrationCount(tool.id)).toBe(0);
+  });
+
+  it("guarded acceptance with no way to know U is refused with 400 uncertainty_required, not a server error", async () => {
+    const { tool } = await micrometerBench(t.db);
+    const lab = await makeLab(t.db);
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, {
+      performedAt: "2026-06-12T15:00:00Z",
+      source: "outside_lab",
+      labId: lab.id,
+      decisionRule: "guarded",
+      points: [{ nominal: 0.5, asFound: 0.5 }],
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe("uncertainty_required");
+    expect(await calibrationCount(tool.id)).toBe(0);
+  });
+
+  it("a family without a permissible error needs one per point (400 invalid_mpe)", async () => {
+    const family = await makeFamily(t.db, { name: "No MPE family (test)", mpe: null, checkPoints: [] });
+    const tool = await makeTool(t.db, { familyId: family.id });
+    const { standard } = await makeStandard(t.db);
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.5, asFound: 0.5 }] }));
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe("invalid_mpe");
+  });
+
+  it("a malformed record id is a 400 and an unknown one a 404", async () => {
+    const a = await t.agent("auditor");
+    expect((await a.get("/api/calibrations/not-a-uuid")).status).toBe(400);
+    expect((await a.get("/api/calibrations/00000000-0000-4000-8000-000000000000")).status).toBe(404);
+    expect((await a.get("/api/tools/NO-SUCH-TAG/calibrations")).status).toBe(404);
+  });
+});
+
+describe("traceability chain", () => {
+  it("shows tool → calibration → standard → certificate → lab and accreditation → national institute", async () => {
+    const lab = await makeLab(t.db, { name: "Chain Lab (test)", accreditationBody: "Demo Accreditation Board", accreditationExpiresAt: "2028-01-01" });
+    const { tool } = await micrometerBench(t.db);
+    const { standard } = await makeStandard(t.db, { assetTag: "GBS-CHAIN" }, { labId: lab.id, labName: lab.name, nationalInstitute: "Demo National Measurement Institute" });
+    const q = await t.agent("quality");
+    const cal = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id]));
+    const chain = await (await t.agent("auditor")).get(`/api/tools/${tool.assetTag}/chain`);
+    expect(chain.status).toBe(200);
+    expect(chain.body.calibration.id).toBe(cal.body.id);
+    expect(chain.body.standards[0]).toMatchObject({
+      assetTag: "GBS-CHAIN",
+      certificate: { labName: "Chain Lab (test)", nationalInstitute: "Demo National Measurement Institute", lab: { accreditation: "valid", accreditationBody: "Demo Accreditation Board" } },
+    });
+    expect(chain.body.gaps).toEqual([]);
+  });
+});
+
+describe("OpenAPI", () => {
+  it("lists the calibration, check and chain routes", async () => {
+    const doc = (await (await t.agent()).get("/api/openapi.json")).body;
+    for (const p of ["/api/tools/{assetTag}/calibrations", "/api/tools/{assetTag}/checks", "/api/tools/{assetTag}/chain", "/api/calibrations/{id}/review", "/api/calibrations/certificate-files"]) {
+      expect(doc.paths[p], p).toBeDefined();
+    }
+    expect(doc.paths["/api/tools/{assetTag}/calibrations"].post.requestBody.content["application/json"].schema.properties.decisionRule).toBeDefined();
+  });
+});
+
+describe("who may record calibrations and checks", () => {
+  let tag = "";
+  let calId = "";
+  let stdId = "";
+  beforeAll(async () => {
+    const bench = await micrometerBench(t.db, { toolTag: "MATRIX-CAL" });
+    tag = bench.tool.assetTag;
+    stdId = bench.standard.id;
+    calId = (await makeCalibration(t.db, bench.tool.id, { performedAt: new Date("2026-06-01T14:00:00Z"), nextDueAt: "2027-06-01", source: "outside_lab" })).id;
+  });
+  roleMatrix(() => t, [
+    { method: "post", label: "/api/tools/:assetTag/calibrations", path: () => `/api/tools/${tag}/calibrations`, body: () => calibrationBody([stdId], { points: [{ nominal: 0.5, asFound: 0.5 }] }), allowed: ["quality", "admin"] },
+    { method: "get", label: "/api/tools/:assetTag/calibrations", path: () => `/api/tools/${tag}/calibrations`, allowed: ALL },
+    { method: "get", label: "/api/calibrations/:id", path: () => `/api/calibrations/${calId}`, allowed: ALL },
+    { method: "post", label: "/api/calibrations/:id/review", path: () => `/api/calibrations/${calId}/review`, body: { accepted: true, findings: "Reviewed in the role matrix" }, allowed: ["quality", "admin"] },
+    { method: "patch", label: "/api/calibrations/:id", path: () => `/api/calibrations/${calId}`, body: { notes: "x" }, allowed: ["quality", "admin"] },
+    { method: "delete", label: "/api/calibrations/:id", path: () => `/api/calibrations/${calId}`, allowed: ["quality", "admin"] },
+    { method: "post", path: "/api/calibrations/certificate-files", allowed: ["quality", "admin"] },
+    { method: "get", label: "/api/calibrations/:id/certificate", path: () => `/api/calibrations/${calId}/certificate`, allowed: ALL },
+    { method: "get", label: "/api/tools/:assetTag/chain", path: () => `/api/tools/${tag}/chain`, allowed: ALL },
+    { method: "post", label: "/api/tools/:assetTag/checks", path: () => `/api/tools/${tag}/checks`, body: { nominal: 0.5, reading: 0.5 }, allowed: ["mechanic", "crib", "quality", "admin"] },
+    { method: "get", label: "/api/tools/:assetTag/checks", path: () => `/api/tools/${tag}/checks`, allowed: ALL },
+    { method: "patch", label: "/api/checks/:id", path: "/api/checks/00000000-0000-4000-8000-000000000000", body: { reading: 1 }, allowed: ["mechanic", "crib", "quality", "admin"] },
+    { method: "delete", label: "/api/checks/:id", path: "/api/checks/00000000-0000-4000-8000-000000000000", allowed: ["mechanic", "crib", "quality", "admin"] },
+  ]);
+});

@@ -1,0 +1,160 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { startBrowserApp, type BrowserApp } from "../support/browser";
+
+// The register, the tool page, the calibration form and the chain view, driven
+// like a person would, over the seeded demo shop (tags from the brief's list).
+let b: BrowserApp;
+beforeAll(async () => {
+  b = await startBrowserApp();
+});
+afterAll(async () => b?.close());
+
+const registerTable = (page: import("playwright-core").Page) => page.getByRole("table", { name: "Tool register" });
+
+describe("the tool register in the browser", () => {
+  it("lists the shop's tools and filters to the overdue ones, keeping the filter in the address", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "crib");
+    await page.goto("/tools");
+    const table = registerTable(page);
+    await table.getByRole("link", { name: "MIC-0101" }).waitFor();
+    await expect(table.getByRole("link", { name: "MIC-0110" }).count()).resolves.toBe(1);
+    await b.screenshot(page, "register-all");
+
+    await page.getByLabel("Filter by status").selectOption("overdue");
+    await page.waitForURL(/status=overdue/);
+    await table.getByRole("link", { name: "MIC-0101" }).waitFor({ state: "detached" });
+    await expect(table.getByRole("link", { name: "MIC-0110" }).count()).resolves.toBe(1);
+    const statuses = await table.locator("tbody tr td:nth-child(2)").allTextContents();
+    expect(statuses.length).toBeGreaterThan(0);
+    expect(statuses.every((s) => s.includes("Overdue"))).toBe(true);
+    await b.screenshot(page, "register-overdue");
+
+    // A dashboard link lands on the same filtered view.
+    await page.goto("/tools?status=overdue");
+    await table.getByRole("link", { name: "MIC-0110" }).waitFor();
+    await expect(table.getByRole("link", { name: "MIC-0101" }).count()).resolves.toBe(0);
+    const csv = await page.getByRole("link", { name: "Export CSV" }).getAttribute("href");
+    expect(csv).toMatch(/format=csv/);
+    expect(csv).toMatch(/status=overdue/);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("the page of an overdue tool says, large, do not use, and why", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "mechanic");
+    await page.goto("/tools/MIC-0110");
+    const answer = page.getByRole("region", { name: "May MIC-0110 be used?" });
+    await answer.waitFor();
+    await expect(answer.getByTestId("tool-answer").textContent()).resolves.toBe("Do not use");
+    await expect(answer.textContent()).resolves.toMatch(/Overdue/);
+    await expect(answer.getByRole("list", { name: "Reasons" }).textContent()).resolves.toMatch(/Calibration ran out on \d{4}-\d{2}-\d{2}/);
+    await expect(page.getByRole("complementary", { name: "Cautions" }).count()).resolves.toBe(1);
+    await b.screenshot(page, "tool-overdue-desktop");
+
+    const phone = await b.newPage({ width: 390, height: 844 });
+    await b.signIn(phone.page, "mechanic");
+    await phone.page.goto("/tools/MIC-0110");
+    await phone.page.getByTestId("tool-answer").waitFor();
+    await expect(phone.page.getByTestId("tool-answer").isVisible()).resolves.toBe(true);
+    await b.screenshot(phone.page, "tool-overdue-phone");
+    expect([...errors, ...phone.errors]).toEqual([]);
+    await phone.context.close();
+    await context.close();
+  });
+
+  it("a usable tool's page says usable until its due date", async () => {
+    const { page, context } = await b.newPage();
+    await b.signIn(page, "mechanic");
+    await page.goto("/tools/MIC-0102");
+    await expect(page.getByTestId("tool-answer").textContent()).resolves.toBe("Usable");
+    await expect(page.getByRole("region", { name: "May MIC-0102 be used?" }).textContent()).resolves.toMatch(/until \d{4}-\d{2}-\d{2}/);
+    await b.screenshot(page, "tool-usable-desktop");
+    await context.close();
+  });
+
+  it("a mechanic may record an intermediate check but does not see Log calibration", async () => {
+    const { page, context } = await b.newPage();
+    await b.signIn(page, "mechanic");
+    await page.goto("/tools/MIC-0102");
+    await page.getByTestId("tool-answer").waitFor();
+    await expect(page.getByRole("button", { name: "Record intermediate check" }).count()).resolves.toBe(1);
+    await expect(page.getByRole("link", { name: "Log calibration" }).count()).resolves.toBe(0);
+    await expect(page.getByRole("button", { name: "Quarantine" }).count()).resolves.toBe(0);
+    await context.close();
+  });
+
+  it("a quality manager logs a calibration and sees error, verdict and TUR live, then the signed result", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "quality");
+    await page.goto("/tools/MIC-0102");
+    await page.getByRole("link", { name: "Log calibration" }).click();
+    await page.waitForURL(/\/tools\/MIC-0102\/calibrate$/);
+    await page.getByRole("table", { name: "Check points entry" }).waitFor();
+
+    // The form starts from the family's check plan.
+    const nominals: string[] = [];
+    for (let i = 1; ; i++) {
+      const input = page.getByLabel(`Point ${i} nominal`, { exact: true });
+      if ((await input.count()) === 0) break;
+      nominals.push(await input.inputValue());
+    }
+    expect(nominals.length).toBeGreaterThan(1);
+    expect(nominals.every((n) => n !== "")).toBe(true);
+
+    await page.getByRole("list", { name: "Reference standards" }).getByRole("checkbox").first().check();
+
+    // Point 1 reads a half-tenth large; the error and verdict appear as it is typed.
+    const first = Number(nominals[0]);
+    await page.getByLabel("Point 1 as found", { exact: true }).fill(String(+(first + 0.00005).toFixed(5)));
+    await expect(page.getByLabel("Point 1 error").textContent()).resolves.toBe("+0.00005");
+    await expect(page.getByLabel("Point 1 verdict").textContent()).resolves.toMatch(/Pass/);
+    // A typed U of 0.60 µm (0.0000236 in) against ± 0.0001 in gives a TUR of 4.2:1 (arithmetic on Z540.3 §5.3 b).
+    await page.getByLabel("Point 1 U", { exact: true }).fill("0.0000236");
+    await expect(page.getByLabel("Point 1 TUR").textContent()).resolves.toMatch(/^4\.2:1/);
+    // Point 2 reads three tenths large: out of tolerance, shown at once.
+    await page.getByLabel("Point 2 as found", { exact: true }).fill(String(+(Number(nominals[1]) + 0.0003).toFixed(4)));
+    await expect(page.getByLabel("Point 2 verdict").textContent()).resolves.toMatch(/Fail/);
+    // Adjusted back in: as left on the nominal.
+    await page.getByLabel("Point 2 as left", { exact: true }).fill(nominals[1]);
+    await expect(page.getByLabel("Point 2 verdict").textContent()).resolves.toMatch(/Pass/);
+    for (let i = 3; i <= nominals.length; i++) await page.getByLabel(`Point ${i} as found`, { exact: true }).fill(nominals[i - 1]);
+
+    const summary = page.getByRole("region", { name: "Result so far" });
+    await expect(summary.textContent()).resolves.toMatch(/Adjusted/);
+    await expect(summary.textContent()).resolves.toMatch(/Next due: \d{4}-\d{2}-\d{2}/);
+    // With the budget U (resolution 0.0001 in) the ratio falls under 4:1 at the other points: the Z540.3 warning shows.
+    await expect(summary.getByRole("note").textContent()).resolves.toMatch(/under 4:1/);
+    await b.screenshot(page, "calibration-form-live");
+
+    await page.getByRole("button", { name: "Sign the calibration record" }).click();
+    const saved = page.getByRole("status", { name: "Saved calibration" });
+    await saved.waitFor();
+    await expect(saved.textContent()).resolves.toMatch(/Adjusted/);
+    await expect(saved.textContent()).resolves.toMatch(/next due \d{4}-\d{2}-\d{2}/);
+    await b.screenshot(page, "calibration-saved");
+
+    await page.getByRole("link", { name: "Back to MIC-0102" }).click();
+    const history = page.getByRole("list", { name: "Calibration records" });
+    await expect(history.getByRole("listitem").first().textContent()).resolves.toMatch(/Adjusted/);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("the chain view leads from the tool to its standard's certificate and the national institute", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "auditor");
+    await page.goto("/tools/MIC-0101");
+    await page.getByRole("link", { name: "Traceability chain" }).click();
+    const chain = page.getByRole("list", { name: "Traceability chain" });
+    await chain.waitFor();
+    const text = (await chain.textContent()) ?? "";
+    expect(text).toMatch(/Reference standard/);
+    expect(text).toMatch(/Certificate [A-Z0-9-]+/);
+    expect(text).toMatch(/National measurement institute/);
+    await b.screenshot(page, "chain-mic-0101");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+});
