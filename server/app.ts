@@ -3,7 +3,6 @@ import path from "node:path";
 import express, { type Request, type Response, type NextFunction } from "express";
 import session from "express-session";
 import connectPgSimple from "connect-pg-simple";
-import passport from "passport";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import { pino, type Logger } from "pino";
@@ -76,7 +75,7 @@ export function createApp(services: AppServices) {
       cookie: { httpOnly: true, sameSite: "lax", secure: services.config.COOKIE_SECURE, maxAge: 12 * 60 * 60 * 1000 },
     }),
   );
-  configurePassport(deps);
+  const passport = configurePassport(deps);
   app.use(passport.initialize());
   app.use(passport.session());
 
@@ -98,7 +97,7 @@ export function createApp(services: AppServices) {
   });
   deps.registry.add({ method: "get", path: "/api/health", summary: "Liveness and database check", tag: "health", permission: "anyone", status: 200 });
 
-  app.use(authRoutes(deps, generateToken));
+  app.use(authRoutes(deps, passport, generateToken));
   for (const make of moduleRouters) app.use(make(deps));
 
   app.get("/api/openapi.json", (_req, res) => {

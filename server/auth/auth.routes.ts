@@ -1,5 +1,5 @@
 import { Router, type Request } from "express";
-import passport from "passport";
+import { Passport } from "passport";
 import { Strategy as LocalStrategy } from "passport-local";
 import { rateLimit, ipKeyGenerator } from "express-rate-limit";
 import { defineRoutes, type SessionUser } from "../http/route";
@@ -10,8 +10,13 @@ import { LoginSchema, UserSchema } from "../../shared/users/users.schemas";
 import { Errors } from "../http/errors";
 import { z } from "zod";
 
-/** Wires passport-local to the users table; sessions hold only the user id. */
+/**
+ * A passport instance of this app's own (never the module-wide singleton, so
+ * two apps in one process do not share strategies), wired to the users table;
+ * sessions hold only the user id.
+ */
 export function configurePassport(deps: AppDeps) {
+  const passport = new Passport();
   const service = usersService(deps);
   passport.use(
     new LocalStrategy({ usernameField: "email", passwordField: "password" }, (email, password, done) => {
@@ -29,13 +34,14 @@ export function configurePassport(deps: AppDeps) {
       .then((u) => done(null, u && u.active ? toSessionUser(u) : false))
       .catch(done);
   });
+  return passport;
 }
 
 function toSessionUser(u: { id: string; email: string; name: string; role: SessionUser["role"] }): SessionUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role };
 }
 
-export function authRoutes(deps: AppDeps, generateToken: (req: Request, overwrite?: boolean) => string) {
+export function authRoutes(deps: AppDeps, passport: InstanceType<typeof Passport>, generateToken: (req: Request, overwrite?: boolean) => string) {
   const router = Router();
   const route = defineRoutes(router, deps.registry, "auth");
 

@@ -17,6 +17,8 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err?.type === "entity.too.large") return send(413, "too_large", "The request is too large.");
   if (err?.code === "LIMIT_FILE_SIZE") return send(413, "file_too_large", "The file is too large.");
   // PostgreSQL: the database refused something the rules should have caught.
+  // Drizzle wraps driver errors; the PostgreSQL error is then its cause.
+  if (err?.cause?.code && !err?.code) err = err.cause;
   const pgCode = err?.code as string | undefined;
   if (pgCode === "P0001" && String(err.message).startsWith("record_signed")) {
     return send(409, "record_signed", "Signed records are never changed or deleted; record a correction that supersedes it.");

@@ -56,7 +56,7 @@ export function AppLayout() {
                   <li key={item.to}>
                     <NavLink
                       to={item.to}
-                      end={item.to === "/"}
+                      end
                       onClick={() => setOpen(false)}
                       className={({ isActive }) => cx("block rounded-md px-2 py-1.5 text-sm", isActive ? "bg-paper/15 font-semibold text-white" : "text-paper/85 hover:bg-paper/10")}
                     >

@@ -373,6 +373,8 @@ describe("dispositions and close-out", () => {
     expect(byJob.body.dispositions.map((d: { itemId: string }) => d.itemId).sort()).toEqual([o.item1, o.item2].sort());
     expect(byJob.body.dispositions[0].decidedBy.id).toBe(t.people.inspector.id);
     expect(byJob.body.dispositions[0].notifiedAt).toBe(new Date(NOW).toISOString());
+    const listed = (await q.get(`/api/investigations?toolAssetTag=${o.tool.assetTag}`)).body[0];
+    expect({ affected: listed.affectedCount, awaiting: listed.undisposedCount }).toEqual({ affected: 3, awaiting: 1 });
 
     const early = await q.post(`/api/investigations/${o.id}/close`, { summary: "Done" });
     expect(early.status).toBe(409);

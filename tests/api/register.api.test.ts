@@ -70,7 +70,7 @@ describe("registering tools", () => {
     });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ assetTag: "MIC-9001", status: "never_calibrated", usable: false, dueAt: null, custodian: null, lastCalibration: null, maker: "Corvane Instruments", family: { id: family.id } });
-    const dup = await crib.post("/api/tools", { ...res.body, assetTag: "mic-9001", familyId: family.id, description: "x", serialNumber: "y", unit: "in", rangeMin: 0, rangeMax: 1, resolution: 0.0001, intervalDays: 365 });
+    const dup = await crib.post("/api/tools", { assetTag: "mic-9001", familyId: family.id, description: "x", serialNumber: "y", unit: "in", rangeMin: 0, rangeMax: 1, resolution: 0.0001, intervalDays: 365 });
     expect(dup.status).toBe(409);
     expect(dup.body.error.code).toBe("asset_tag_taken");
   });
@@ -186,7 +186,7 @@ describe("the register list", () => {
     await makeCalibration(t.db, tags["LST-03"], { performedAt: new Date("2025-07-01T15:00:00Z"), nextDueAt: "2026-07-01" }); // due soon
     await mk("LST-04", { location: "Bench 2", maker: "Ostrava Gauge Co." }); // never calibrated
     await makeCheckout(t.db, tags["LST-03"], t.people.inspector.id);
-    await makeTool(t.db, { assetTag: "LST-99", familyId: other.id, description: "Other family =cmd" });
+    await makeTool(t.db, { assetTag: "LST-99", familyId: other.id, description: "=2+3 other family" });
   });
 
   it("filters by status on the server, with the total of the filtered list", async () => {
@@ -229,7 +229,7 @@ describe("the register list", () => {
     const rows = Papa.parse<Record<string, string>>(res.text, { header: true, skipEmptyLines: true }).data;
     expect(rows).toHaveLength(5);
     expect(rows.map((r) => r.status)).toEqual(["in_calibration", "due_soon", "overdue", "never_calibrated", "never_calibrated"]);
-    expect(rows.find((r) => r.assetTag === "LST-99")!.description).toBe("'Other family =cmd".replace("'Other", "Other"));
+    expect(rows.find((r) => r.assetTag === "LST-99")!.description).toBe("'=2+3 other family");
     expect(rows.find((r) => r.assetTag === "LST-03")!.custodian).toBe("Test inspector");
   });
 });

@@ -24,8 +24,11 @@ export type InvestigationItemRow = typeof investigationItems.$inferSelect;
 export type ReadingRow = typeof readings.$inferSelect;
 
 /** A reading counts until a later reading supersedes it (corrections are new records). */
-const readingNotSuperseded = sql`not exists (select 1 from ${readings} as superseding where superseding.supersedes_id = ${readings.id})`;
-const calibrationNotSuperseded = sql`not exists (select 1 from ${calibrations} as superseding_cal where superseding_cal.supersedes_id = ${calibrations.id})`;
+// Spelled out in full: drizzle leaves column names unqualified in some one-table queries, and an unqualified
+// name inside the subquery would bind to the subquery's own table.
+const readingNotSuperseded = sql.raw("not exists (select 1 from readings superseding where superseding.supersedes_id = readings.id)");
+const calibrationNotSuperseded = sql.raw("not exists (select 1 from calibrations superseding_cal where superseding_cal.supersedes_id = calibrations.id)");
+const itemWithoutDisposition = sql.raw("not exists (select 1 from dispositions d where d.investigation_item_id = investigation_items.id)");
 
 /**
  * The instant the tool was last known good before `before`: the latest calibration that left it in tolerance
@@ -224,7 +227,7 @@ export async function itemIdsWithoutDisposition(tx: DbOrTx, investigationId: str
     .where(
       and(
         eq(investigationItems.investigationId, investigationId),
-        sql`not exists (select 1 from ${dispositions} where ${dispositions.investigationItemId} = ${investigationItems.id})`,
+        itemWithoutDisposition,
       ),
     );
   return rows.map((r) => r.id);
@@ -302,7 +305,7 @@ export async function itemSummaries(tx: DbOrTx, investigationIds: string[]) {
       investigationId: investigationItems.investigationId,
       items: sql<number>`count(*)::int`,
       couldChange: sql<number>`count(*) filter (where ${investigationItems.verdictCouldChange})::int`,
-      undisposed: sql<number>`count(*) filter (where not exists (select 1 from ${dispositions} where ${dispositions.investigationItemId} = ${investigationItems.id}))::int`,
+      undisposed: sql<number>`count(*) filter (where ${itemWithoutDisposition})::int`,
     })
     .from(investigationItems)
     .where(inArray(investigationItems.investigationId, investigationIds))

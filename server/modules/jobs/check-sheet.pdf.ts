@@ -5,17 +5,13 @@ import { formatClearance } from "../../../shared/inspection/sizes";
 import { FLAG_LABELS, type ReadingFlag } from "../../../shared/readings/readings.schemas";
 import { STATUS_LABELS, type ToolStatus } from "../../../shared/tools/tool-status";
 import type { CheckSheet, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
+import { CAUTIONS } from "../../../shared/common/cautions";
 
 const require = createRequire(import.meta.url);
 const FONT = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-400-normal.woff");
 const FONT_BOLD = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-700-normal.woff");
 
 /** The same three sentences the Cautions component shows. */
-export const CAUTIONS = [
-  "Limits must come from the manufacturer's current data for the exact engine model and revision.",
-  "Verdicts and flags here support, and never replace, the judgement of appropriately certificated persons, who alone decide airworthiness and return to service under the applicable regulations.",
-  "Local regulations and the shop's approved procedures govern.",
-];
 
 const when = (iso: string, tz: string) =>
   new Intl.DateTimeFormat("en-CA", { timeZone: tz, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", hour12: false }).format(new Date(iso)).replace(",", "");

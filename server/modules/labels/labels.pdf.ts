@@ -2,17 +2,13 @@ import { createRequire } from "node:module";
 import PDFDocument from "pdfkit";
 import { STATUS_LABELS } from "../../../shared/tools/tool-status";
 import type { CalibrationLabel, DoNotUseTag } from "../../../shared/checkouts/labels.schemas";
+import { CAUTIONS } from "../../../shared/common/cautions";
 
 const require = createRequire(import.meta.url);
 const FONT = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-400-normal.woff");
 const FONT_BOLD = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-700-normal.woff");
 
 /** The three sentences of the Cautions component, printed wherever a PDF judges a tool. */
-export const CAUTIONS = [
-  "Limits must come from the manufacturer's current data for the exact engine model and revision.",
-  "Verdicts and flags here support, and never replace, the judgement of appropriately certificated persons, who alone decide airworthiness and return to service under the applicable regulations.",
-  "Local regulations and the shop's approved procedures govern.",
-];
 
 const PT = 72; // points per inch
 /**

@@ -1,6 +1,7 @@
 import type { OutgoingMail } from "../../platform/mailer";
 import { stageLabel, type ReminderStage } from "../../../shared/reminders/reminder-plan";
 import { DIGEST_INFO } from "../../../shared/reminders/reminders.schemas";
+import { CAUTIONS } from "../../../shared/common/cautions";
 
 /** One line of a digest: a tool and why it is in the mail. */
 export interface DigestLine {
@@ -24,11 +25,6 @@ export interface Digest {
 }
 
 // The same three sentences as the Cautions component (src/components/ui/cautions.tsx): a reminder judges a tool.
-const CAUTIONS = [
-  "Limits must come from the manufacturer's current data for the exact engine model and revision.",
-  "Airworthiness and return-to-service decisions belong to appropriately certificated persons under the applicable regulations.",
-  "Local regulations and the shop's approved procedures govern.",
-];
 
 // Most urgent first.
 function rank(stage: string): number {

@@ -1,4 +1,5 @@
 import { cx } from "./cx";
+import { CAUTIONS } from "../../../shared/common/cautions";
 
 /**
  * The cautions shown wherever Tenthwise judges a part or a tool: limits come
@@ -12,11 +13,7 @@ export function Cautions({ className, compact }: { className?: string; compact?:
       {compact ? (
         <>Limits come from the manufacturer's current data; return to service is decided by certificated persons; local regulations and the shop's approved procedures govern.</>
       ) : (
-        <>
-          Limits must come from the manufacturer's current data for the exact engine model and revision. Verdicts and flags here support, and never replace, the
-          judgement of appropriately certificated persons, who alone decide airworthiness and return to service under the applicable regulations. Local
-          regulations and the shop's approved procedures govern.
-        </>
+        CAUTIONS.join(" ")
       )}
     </aside>
   );

@@ -31,7 +31,7 @@ export function FamilyIntervalPage() {
         <Card title="Reliability model (exponential, NCSL RP-1)">
           <Facts
             items={[
-              ["End-of-period calibrations", `${a.calibrations} (${a.inTolerance} in tolerance; ${a.totalCalibrations} records in all)`],
+              ["End-of-period calibrations", `${a.calibrations} (${a.inTolerance} in tolerance; ${a.totalCalibrations} record${a.totalCalibrations === 1 ? "" : "s"} in all)`],
               ["In tolerance as found", pct(a.asFoundInToleranceRate)],
               ["Reliability target R*", pct(a.reliabilityTarget)],
               ["Current interval", `${a.currentIntervalDays} days`],

@@ -33,8 +33,8 @@ export function StatTile({ label, value, to, tone = "plain", hint }: { label: st
   );
 }
 
-export function TileRow({ children }: { children: ReactNode }) {
-  return <div className="grid grid-cols-2 gap-3 sm:grid-cols-3 xl:grid-cols-6">{children}</div>;
+export function TileRow({ children, className = "sm:grid-cols-3 xl:grid-cols-6" }: { children: ReactNode; className?: string }) {
+  return <div className={cx("grid grid-cols-2 gap-3", className)}>{children}</div>;
 }
 
 /** Tools by derived status, each count a link to the register filtered by it. */
@@ -94,12 +94,14 @@ const pct = (r: number | null) => (r == null ? "—" : `${(r * 100).toFixed(1)} 
 
 /** End-of-period in-tolerance rate per family, with the number of recalibrations it rests on. */
 export function FamilyRates({ rates, canReview }: { rates: FamilyRate[]; canReview: boolean }) {
-  const shown = [...rates].sort((a, b) => (a.rate ?? 2) - (b.rate ?? 2) || a.name.localeCompare(b.name));
+  // Lowest rate first: the families whose interval most needs a look.
+  const shown = rates.filter((f) => f.recalibrations > 0).sort((a, b) => (a.rate ?? 2) - (b.rate ?? 2) || a.name.localeCompare(b.name));
+  const waiting = rates.length - shown.length;
   return (
     <Card title="In tolerance at recalibration, by family">
       <p className="mb-2 text-xs text-ink-faint">Share of recalibrations found in tolerance as found; a tool's first calibration is not counted.</p>
       {shown.length === 0 ? (
-        <p className="text-sm text-ink-faint">No families yet.</p>
+        <p className="text-sm text-ink-faint">No family has a recalibration on record yet.</p>
       ) : (
         <ul className="flex flex-col gap-2">
           {shown.map((f) => (
@@ -118,6 +120,11 @@ export function FamilyRates({ rates, canReview }: { rates: FamilyRate[]; canRevi
             </li>
           ))}
         </ul>
+      )}
+      {waiting > 0 && shown.length > 0 && (
+        <p className="mt-2 text-xs text-ink-faint">
+          {waiting} more famil{waiting === 1 ? "y has" : "ies have"} no recalibration on record yet.
+        </p>
       )}
     </Card>
   );

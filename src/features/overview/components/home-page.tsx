@@ -65,7 +65,7 @@ function MechanicView() {
   const unusable = tools.filter((t) => !t.usable).length;
   return (
     <div className="flex flex-col gap-4">
-      <TileRow>
+      <TileRow className="sm:grid-cols-4">
         <StatTile label="My tools" value={tools.length} to="/my-tools" />
         <StatTile label="Not usable" value={unusable} to="/my-tools" tone="stop" hint="Return or recalibrate" />
         <StatTile label="Due within 30 days" value={tools.filter((t) => t.usable && t.daysToDue != null && t.daysToDue <= 30).length} to="/my-tools" tone="caution" />
@@ -136,7 +136,7 @@ function InspectionView() {
       <h2 id="inspection-heading" className="text-lg font-semibold">
         Waiting on inspection
       </h2>
-      <TileRow>
+      <TileRow className="sm:grid-cols-3 xl:grid-cols-6">
         <StatTile label="Sheets awaiting signature" value={sheetsTotal} to={links.awaitingSignature} tone="caution" />
         <StatTile label="Investigations needing a disposition" value={investigationsTotal} to={links.openInvestigations} tone="hold" />
       </TileRow>

@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
-import type { Calibration, CertificateReview, Chain, Check, CheckResult, CreateCalibration, CreateCheck } from "../../../../shared/calibrations/calibrations.schemas";
+import type { Calibration, CertificateReview, Chain, Check, CheckResult, CreateCalibration, CreateCheck, UploadedFile } from "../../../../shared/calibrations/calibrations.schemas";
 import type { Page } from "../../../../shared/common/lists.schemas";
 import { toolKeys } from "./tools";
 
@@ -34,16 +34,14 @@ export function useCreateCalibration(tag: string) {
   return useMutation({ mutationFn: (input: CreateCalibration) => api.post<Calibration>(path(tag, "/calibrations"), input), onSuccess: invalidate });
 }
 
-/** Attaches the outside lab's certificate (PDF or image) to a calibration record. */
+/** Stores a calibration certificate (PDF or image) before the record is signed; the record then names its fileKey. */
 export function useUploadCalibrationCertificate() {
-  const invalidate = useRecordInvalidation();
   return useMutation({
-    mutationFn: ({ calibrationId, file }: { calibrationId: string; file: File }) => {
+    mutationFn: (file: File) => {
       const form = new FormData();
       form.append("file", file);
-      return api.upload<Calibration>(`/api/calibrations/${calibrationId}/certificate`, form);
+      return api.upload<UploadedFile>("/api/calibrations/certificate-files", form);
     },
-    onSuccess: invalidate,
   });
 }
 

@@ -23,7 +23,7 @@ import { len, when } from "../lib/format";
 import { liveCalibration, parseNumber, standardForCompute, type LiveContext, type PointText } from "../lib/live-calibration";
 import { LivePointCells, LiveSummary } from "./live-result";
 import { PointsTable } from "./calibration-history";
-import { ResultBadge } from "./result-badge";
+import { ResultBadge, TurWarning } from "./result-badge";
 import { ToolAnswer } from "../components/tool-answer";
 
 interface PointRow extends PointText {
@@ -227,7 +227,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
   };
   const live = liveCalibration(v.points, ctx);
 
-  if (saved) return <SavedCalibration tool={tool} saved={saved} uploadError={upload.isError ? errorMessage(upload.error) : null} />;
+  if (saved) return <SavedCalibration tool={tool} saved={saved} />;
 
   const toggleStandard = (id: string, on: boolean) =>
     form.setValue("standardIds", on ? [...v.standardIds, id] : v.standardIds.filter((x) => x !== id), { shouldValidate: form.formState.isSubmitted });
@@ -249,10 +249,11 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
         aria-label="Calibration record"
         className="flex flex-col gap-5"
         onSubmit={form.handleSubmit(async (body) => {
-          const rec = await create.mutateAsync(body).catch(() => null);
-          if (!rec) return;
-          if (file) await upload.mutateAsync({ calibrationId: rec.id, file }).catch(() => null);
-          setSaved(rec);
+          // The certificate file is stored first; the signed record names it, so record and file arrive together.
+          const stored = file ? await upload.mutateAsync(file).catch(() => null) : null;
+          if (file && !stored) return;
+          const rec = await create.mutateAsync({ ...body, certificateFileKey: stored?.fileKey ?? undefined }).catch(() => null);
+          if (rec) setSaved(rec);
         })}
       >
         {correcting && (
@@ -269,9 +270,9 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
             <TextField label="Performed at" type="datetime-local" error={e.performedAt?.message} {...form.register("performedAt")} />
             <TextField label="Temperature (°C)" {...decimalInput} error={e.temperatureC?.message} {...form.register("temperatureC")} />
             <TextField label="Humidity (% RH)" {...decimalInput} error={e.humidityPct?.message} {...form.register("humidityPct")} />
-            <SelectField label="Decision rule" error={e.decisionRule?.message} {...form.register("decisionRule")}>
-              <option value="simple">Simple: pass when |error| max MPE</option>
-              <option value="guarded">Guarded: pass when |error| max MPE − U (ILAC-G8)</option>
+            <SelectField label="Decision rule" hint="ILAC-G8: guarded accepts only within MPE − U." error={e.decisionRule?.message} {...form.register("decisionRule")}>
+              <option value="simple">Simple (± MPE)</option>
+              <option value="guarded">Guarded (± MPE − U)</option>
             </SelectField>
             <SelectField label="Performed" {...form.register("source")}>
               <option value="in_house">In-house</option>
@@ -335,7 +336,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
             temperature; k = 2). Values in {unit === "in" ? "inches" : "millimetres"}. Error = indication − reference.
           </p>
           <div className="overflow-x-auto">
-            <table className="w-full min-w-[64rem] text-left text-sm" aria-label="Check points entry">
+            <table className="w-full min-w-[58rem] text-left text-sm" aria-label="Check points entry">
               <thead className="text-xs uppercase tracking-wide text-ink-faint">
                 <tr>
                   <th className="py-1 pr-2">#</th>
@@ -346,7 +347,6 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                   <th className="pr-2">MPE ±</th>
                   <th className="pr-2">U (k=2)</th>
                   <th className="pr-2">Error</th>
-                  <th className="pr-2">U used</th>
                   <th className="pr-2">TUR</th>
                   <th className="pr-2">Verdict</th>
                   <th />
@@ -355,6 +355,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
               <tbody>
                 {points.fields.map((f, i) => {
                   const pe = e.points?.[i];
+                  const budgetU = live.points[i]?.computed?.uncertaintySource === "budget" ? live.points[i].computed!.uncertainty : null;
                   const cell = (name: keyof PointText, label: string, placeholder?: string) => (
                     <td className="pr-2 py-1 align-top">
                       <input
@@ -363,7 +364,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                         aria-invalid={!!pe?.[name]}
                         placeholder={placeholder}
                         title={pe?.[name]?.message}
-                        className={cx("w-28 rounded-md border bg-paper-raised px-2 py-1.5", pe?.[name] ? "border-stop" : "border-paper-line")}
+                        className={cx("w-[6.5rem] rounded-md border bg-paper-raised px-2 py-1.5", pe?.[name] ? "border-stop" : "border-paper-line")}
                         {...form.register(`points.${i}.${name}` as const)}
                       />
                     </td>
@@ -379,7 +380,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                       {cell("asFound", "as found")}
                       {cell("asLeft", "as left", "not adjusted")}
                       {cell("mpe", "MPE", tool.family.mpe != null ? String(tool.family.mpe) : "")}
-                      {cell("uncertainty", "U", "from budget")}
+                      {cell("uncertainty", "U", budgetU != null ? `${budgetU} budget` : "from budget")}
                       <LivePointCells point={live.points[i]} unit={unit} index={i} />
                       <td className="align-top">
                         <Button variant="ghost" className="min-h-8 px-2" aria-label={`Remove point ${i + 1}`} onClick={() => points.remove(i)}>
@@ -418,6 +419,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
         <Cautions compact />
 
         <TextAreaField label="Notes (optional)" {...form.register("notes")} />
+        {upload.isError && <ErrorNote>The certificate file was not stored, so nothing was signed: {errorMessage(upload.error)}</ErrorNote>}
         {create.isError && <ErrorNote>{refusal(create.error)}</ErrorNote>}
         <div className="flex flex-wrap gap-2">
           <Button type="submit" disabled={create.isPending || upload.isPending}>
@@ -433,7 +435,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
   );
 }
 
-function SavedCalibration({ tool, saved, uploadError }: { tool: ToolDetail; saved: Calibration; uploadError: string | null }) {
+function SavedCalibration({ tool, saved }: { tool: ToolDetail; saved: Calibration }) {
   const fresh = useTool(tool.assetTag);
   return (
     <div className="flex flex-col gap-5">
@@ -451,9 +453,9 @@ function SavedCalibration({ tool, saved, uploadError }: { tool: ToolDetail; save
             An out-of-tolerance investigation was opened: <Link className="underline" to={`/investigations/${saved.investigationId}`}>open it</Link>.
           </p>
         )}
+        {saved.turWarning && <TurWarning className="mt-2" points={saved.points.filter((p) => p.turAdequate === false).length} />}
         <PointsTable points={saved.points} unit={saved.unit} />
       </section>
-      {uploadError && <ErrorNote>The record was signed, but the certificate file was not stored: {uploadError}</ErrorNote>}
       {fresh.data && <ToolAnswer answer={fresh.data} assetTag={tool.assetTag} size="compact" />}
       <div className="flex gap-2">
         <ButtonLink variant="primary" to={`/tools/${encodeURIComponent(tool.assetTag)}`}>

@@ -9,7 +9,7 @@ export function LivePointCells({ point, unit, index }: { point: LivePoint | unde
   const j = point?.computed;
   if (!point || !j) {
     return (
-      <td colSpan={4} className="py-1 pr-2 align-top text-xs text-ink-faint" aria-live="polite">
+      <td colSpan={3} className="py-1 pr-2 align-top text-xs text-ink-faint" aria-live="polite">
         {point?.problem ?? ""}
       </td>
     );
@@ -20,11 +20,7 @@ export function LivePointCells({ point, unit, index }: { point: LivePoint | unde
       <td className={cx("py-2 pr-2 align-top font-mono", !j.asFoundInTolerance && "font-semibold text-stop")} aria-label={`${label} error`}>
         {signedLen(j.errorAsFound, unit)}
         {j.errorAsLeft != null && <span className="block text-xs text-ink-soft">left {signedLen(j.errorAsLeft, unit)}</span>}
-      </td>
-      <td className="py-2 pr-2 align-top font-mono" aria-label={`${label} U used`}>
-        {j.uncertainty == null ? "—" : len(j.uncertainty, unit, unit === "in" ? 7 : 5)}
-        {j.uncertaintySource === "budget" && <span className="block font-sans text-xs text-ink-faint">from budget</span>}
-        {j.referenceSource === "certified" && <span className="block font-sans text-xs text-ink-faint">ref. {len(j.reference, unit, unit === "in" ? 6 : 4)} certified</span>}
+        {j.referenceSource === "certified" && <span className="block font-sans text-xs text-ink-faint">vs certified {len(j.reference, unit, unit === "in" ? 6 : 4)}</span>}
       </td>
       <td className={cx("py-2 pr-2 align-top", j.turAdequate === false && "font-bold text-caution")} aria-label={`${label} TUR`}>
         {j.tur == null ? "—" : `${j.tur.toFixed(1)}:1`}

@@ -1,0 +1,49 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { pino } from "pino";
+import request from "supertest";
+import { createApp } from "../../server/app";
+import { loadConfig } from "../../server/config";
+import { fixedClock } from "../../server/platform/clock";
+import { seedDemoOnce } from "../../server/seed";
+import { createTestDatabase, type TestDatabase } from "../support/test-db";
+import { memoryMailer, memoryStorage } from "../support/test-app";
+
+// The demo shop as a new user first sees it: MIC-0104 failed its as-found check today, and the investigation
+// opened by itself over the readings it took on both demo engines.
+let database: TestDatabase;
+let app: ReturnType<typeof createApp>;
+const mailer = memoryMailer();
+
+beforeAll(async () => {
+  database = await createTestDatabase();
+  const config = loadConfig({ NODE_ENV: "test", DATABASE_URL: database.url, SESSION_SECRET: "seed-test-session-secret", LOG_LEVEL: "silent", CRON_ENABLED: "false" });
+  const clock = fixedClock("2026-06-15T15:00:00Z");
+  await seedDemoOnce({ db: database.db, clock, config, mailer, storage: memoryStorage() }, "tenthwise-demo");
+  app = createApp({ db: database.db, pool: database.pool, config, clock, mailer, storage: memoryStorage(), logger: pino({ level: "silent" }), clientDir: "/nonexistent" });
+});
+afterAll(async () => database?.drop());
+
+async function signedIn(email: string) {
+  const a = request.agent(app);
+  const token = (await a.get("/api/auth/csrf")).body.token;
+  await a.post("/api/auth/login").set("X-CSRF-Token", token).send({ email, password: "tenthwise-demo" });
+  return a;
+}
+
+describe("the demo investigation", () => {
+  it("MIC-0104's failed as-found check opened one investigation over both demo jobs, with one disposition recorded and the rest open", async () => {
+    const a = await signedIn("auditor@tenthwise.test");
+    const list = await a.get("/api/investigations?toolAssetTag=MIC-0104");
+    expect(list.status).toBe(200);
+    expect(list.body).toHaveLength(1);
+    const inv = list.body[0];
+    expect(inv.status).toBe("open");
+    expect(new Set(inv.affectedReadings.map((r: { jobId: string }) => r.jobId)).size).toBe(2);
+    const detail = (await a.get(`/api/investigations/${inv.id}`)).body;
+    expect(detail.finding.errors.find((e: { nominal: number }) => e.nominal === 0.5).error).toBe(0.0003);
+    expect(detail.items.filter((i: { dispositions: unknown[] }) => i.dispositions.length > 0)).toHaveLength(1);
+    expect(detail.undisposedCount).toBe(detail.affectedCount - 1);
+    expect(detail.finding.notifications.status).toBe("sent");
+    expect(mailer.sent.some((m) => m.subject.includes("MIC-0104") && m.to === "quality@tenthwise.test")).toBe(true);
+  });
+});

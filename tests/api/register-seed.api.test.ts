@@ -1,0 +1,88 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createTestApp, type TestApp } from "../support/test-app";
+import { seedUsers } from "../../server/seed/users.seed";
+import { seedRegister } from "../../server/seed/register.seed";
+import type { SeedContext } from "../../server/seed/seed-context";
+
+// The demo register other parts of the demo rely on (the brief's demo tags), seeded on its own.
+let t: TestApp;
+let shared: Record<string, unknown>;
+beforeAll(async () => {
+  t = await createTestApp({ now: "2026-06-15T15:00:00Z" });
+  const people = await seedUsers(t.db, "demo-password-123");
+  const ctx: SeedContext = {
+    db: t.db,
+    clock: t.clock,
+    config: t.config,
+    mailer: t.mailer,
+    storage: t.storage,
+    people,
+    users: { admin: people.admin, quality: people.quality, inspector: people.inspector, crib: people.crib, mechanic: people.mechanic, auditor: people.auditor },
+    shared: {},
+  };
+  await seedRegister(ctx);
+  shared = ctx.shared;
+}, 120_000);
+afterAll(async () => t.close());
+
+const EXPECTED: Record<string, string> = {
+  "MIC-0101": "in_calibration",
+  "MIC-0102": "in_calibration",
+  "MIC-0104": "in_calibration",
+  "MIC-0105": "in_calibration",
+  "MIC-0201": "due_soon",
+  "MIC-0110": "overdue",
+  "MIC-0111": "quarantined",
+  "MIC-0112": "never_calibrated",
+  "MIC-0113": "limited",
+  "MIC-0114": "inactive",
+  "MIC-0115": "lost",
+  "MIC-0116": "retired",
+  "MIC-0117": "out_of_tolerance",
+  "DIA-0101": "in_calibration",
+  "DIA-0102": "at_calibration",
+  "TEL-0101": "in_calibration",
+  "SHG-0101": "in_calibration",
+  "FLR-0101": "in_calibration",
+  "CAL-0101": "reference_only",
+  "MIC-P-01": "in_calibration",
+  "MIC-P-02": "in_calibration",
+};
+
+describe("the demo register", () => {
+  it("holds the demo tags in the states the demo relies on", async () => {
+    const a = await t.agent("auditor");
+    const got: Record<string, string> = {};
+    for (const tag of Object.keys(EXPECTED)) got[tag] = (await a.get(`/api/tools/${tag}/status`)).body.status;
+    expect(got).toEqual(EXPECTED);
+    const dia3 = (await a.get("/api/tools/DIA-0103/status")).body;
+    expect(dia3.reasons.join(" ")).toMatch(/Kestrel Metrology .* awaiting review/);
+    expect(Object.keys(shared.toolIds as object)).toContain("MIC-0104");
+  });
+
+  it("has at least 60 tools, every status and every kind", async () => {
+    const a = await t.agent("auditor");
+    const all = (await a.get("/api/tools?pageSize=500")).body;
+    expect(all.total).toBeGreaterThanOrEqual(60);
+    const statuses = new Set(all.items.map((x: { status: string }) => x.status));
+    for (const s of ["in_calibration", "due_soon", "limited", "overdue", "out_of_tolerance", "quarantined", "at_calibration", "never_calibrated", "inactive", "lost", "retired", "reference_only"]) expect(statuses, s).toContain(s);
+    const kinds = new Set(all.items.map((x: { kind: string }) => x.kind));
+    expect(kinds.size).toBe(10);
+  });
+
+  it("keeps two years of calibration history with small drift, all traceable to GBS-01's certificate", async () => {
+    const a = await t.agent("auditor");
+    const cals = (await a.get("/api/tools/MIC-0101/calibrations")).body;
+    expect(cals.total).toBe(3);
+    const oldest = cals.items[cals.total - 1];
+    expect(Date.parse("2026-06-15T15:00:00Z") - Date.parse(oldest.performedAt)).toBeGreaterThan(700 * 86_400_000);
+    for (const c of cals.items) for (const p of c.points) expect(Math.abs(p.errorAsFound)).toBeLessThanOrEqual(0.0001);
+    const chain = (await a.get("/api/tools/MIC-0101/chain")).body;
+    expect(chain.standards[0]).toMatchObject({ assetTag: "GBS-01", certificate: { nationalInstitute: expect.stringMatching(/demo/), lab: { name: "Meridian Dimensional Lab" } } });
+    expect(chain.gaps).toEqual([]);
+    const flr = (await a.get("/api/tools/FLR-0101")).body;
+    expect(flr.elements.filter((e: { usable: boolean }) => !e.usable).map((e: { nominal: number }) => e.nominal)).toEqual([0.004]);
+    const labs = (await a.get("/api/labs")).body.items.map((l: { name: string; accreditation: string }) => [l.name, l.accreditation]);
+    expect(labs).toEqual([["Kestrel Metrology", "expiring_soon"], ["Meridian Dimensional Lab", "valid"]]);
+  });
+});
