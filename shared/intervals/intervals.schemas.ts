@@ -46,6 +46,8 @@ export const IntervalAnalysisSchema = z.object({
   reliabilityTarget: z.number(),
   familyId: z.string(),
   familyName: z.string(),
+  /** The interval the end-of-period observations were made under (I_old of the model; their mean when tools differed). */
+  observedIntervalDays: z.number(),
   inTolerance: z.number().int(),
   totalCalibrations: z.number().int(),
   recommendedWholeDays: z.number().int().nullable(),

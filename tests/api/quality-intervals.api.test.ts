@@ -103,6 +103,9 @@ describe("applying an interval decision", () => {
 
     const after = await quality.get(`/api/families/${family.id}/interval-analysis`);
     expect(after.body.currentIntervalDays).toBe(65);
+    // The history was observed on 365 days: it still recommends 65.1 days, not a rescaled 11.6.
+    expect(after.body.observedIntervalDays).toBe(365);
+    expect(after.body.recommendedIntervalDays).toBe(65.1);
     expect(after.body.decisions[0]).toMatchObject({ newIntervalDays: 65, decidedByName: t.people.quality.name });
 
     // The register export shows the new interval on every tool of the family…

@@ -67,9 +67,9 @@ describe("the tool register in the browser", () => {
   it("a usable tool's page says usable until its due date", async () => {
     const { page, context } = await b.newPage();
     await b.signIn(page, "mechanic");
-    await page.goto("/tools/MIC-0102");
+    await page.goto("/tools/MIC-0103");
     await expect(page.getByTestId("tool-answer").textContent()).resolves.toBe("Usable");
-    await expect(page.getByRole("region", { name: "May MIC-0102 be used?" }).textContent()).resolves.toMatch(/until \d{4}-\d{2}-\d{2}/);
+    await expect(page.getByRole("region", { name: "May MIC-0103 be used?" }).textContent()).resolves.toMatch(/until \d{4}-\d{2}-\d{2}/);
     await b.screenshot(page, "tool-usable-desktop");
     await context.close();
   });
@@ -77,7 +77,7 @@ describe("the tool register in the browser", () => {
   it("a mechanic may record an intermediate check but does not see Log calibration", async () => {
     const { page, context } = await b.newPage();
     await b.signIn(page, "mechanic");
-    await page.goto("/tools/MIC-0102");
+    await page.goto("/tools/MIC-0103");
     await page.getByTestId("tool-answer").waitFor();
     await expect(page.getByRole("button", { name: "Record intermediate check" }).count()).resolves.toBe(1);
     await expect(page.getByRole("link", { name: "Log calibration" }).count()).resolves.toBe(0);
@@ -88,9 +88,9 @@ describe("the tool register in the browser", () => {
   it("a quality manager logs a calibration and sees error, verdict and TUR live, then the signed result", async () => {
     const { page, context, errors } = await b.newPage();
     await b.signIn(page, "quality");
-    await page.goto("/tools/MIC-0102");
+    await page.goto("/tools/MIC-0103");
     await page.getByRole("link", { name: "Log calibration" }).click();
-    await page.waitForURL(/\/tools\/MIC-0102\/calibrate$/);
+    await page.waitForURL(/\/tools\/MIC-0103\/calibrate$/);
     await page.getByRole("table", { name: "Check points entry" }).waitFor();
 
     // The form starts from the family's check plan.
@@ -103,7 +103,7 @@ describe("the tool register in the browser", () => {
     expect(nominals.length).toBeGreaterThan(1);
     expect(nominals.every((n) => n !== "")).toBe(true);
 
-    await page.getByRole("list", { name: "Reference standards" }).getByRole("checkbox").first().check();
+    await page.getByRole("list", { name: "Reference standards" }).getByRole("checkbox", { name: /GBS-01/ }).check();
 
     // Point 1 reads a half-tenth large; the error and verdict appear as it is typed.
     const first = Number(nominals[0]);
@@ -135,7 +135,7 @@ describe("the tool register in the browser", () => {
     await expect(saved.textContent()).resolves.toMatch(/next due \d{4}-\d{2}-\d{2}/);
     await b.screenshot(page, "calibration-saved");
 
-    await page.getByRole("link", { name: "Back to MIC-0102" }).click();
+    await page.getByRole("link", { name: "Back to MIC-0103" }).click();
     const history = page.getByRole("list", { name: "Calibration records" });
     await expect(history.getByRole("listitem").first().textContent()).resolves.toMatch(/Adjusted/);
     expect(errors).toEqual([]);
@@ -150,10 +150,50 @@ describe("the tool register in the browser", () => {
     const chain = page.getByRole("list", { name: "Traceability chain" });
     await chain.waitFor();
     const text = (await chain.textContent()) ?? "";
-    expect(text).toMatch(/Reference standard/);
-    expect(text).toMatch(/Certificate [A-Z0-9-]+/);
+    // The register seed calibrates inch micrometers against GBS-01, certified by Meridian Dimensional Lab.
+    expect(text).toMatch(/Reference standardGBS-01/);
+    expect(text).toMatch(/Certificate MDL-DEMO-GBS-01-\d/);
+    expect(text).toMatch(/Meridian Dimensional Lab/);
     expect(text).toMatch(/National measurement institute/);
+    expect(text).toMatch(/National Length Institute of Harrow/);
+    const href = await chain.getByRole("link", { name: /Download certificate MDL-DEMO-GBS-01-/ }).getAttribute("href");
+    const file = await page.request.get(href!);
+    expect(file.status()).toBe(200);
     await b.screenshot(page, "chain-mic-0101");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("a quality manager reviews an outside lab's certificate and the tool returns to service", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "quality");
+    await page.goto("/tools/DIA-0103");
+    await expect(page.getByTestId("tool-answer").textContent()).resolves.toBe("Do not use");
+    await expect(page.getByRole("region", { name: "May DIA-0103 be used?" }).textContent()).resolves.toMatch(/awaiting review/);
+    const review = page.getByRole("form", { name: "Certificate review" });
+    await review.getByLabel("Findings").fill("Results, uncertainty and traceability checked against the scope; acceptable.");
+    await b.screenshot(page, "outside-lab-review");
+    await review.getByRole("button", { name: "Accept certificate" }).click();
+    await expect(page.getByText(/Certificate reviewed and accepted/).textContent()).resolves.toMatch(/Teodor Quill/);
+    await expect(page.getByTestId("tool-answer").textContent()).resolves.toMatch(/^Usable/);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("a correction supersedes the earlier calibration with a reason; the earlier record stays, marked", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "quality");
+    await page.goto("/tools/MIC-0106");
+    const history = page.getByRole("list", { name: "Calibration records" });
+    const before = await history.getByRole("listitem").count();
+    await history.getByRole("link", { name: "Correct this record" }).first().click();
+    await page.getByLabel("Reason for the correction").fill("Wrong standard named on the first entry.");
+    await page.getByRole("button", { name: "Sign the correcting record" }).click();
+    await page.getByRole("status", { name: "Saved calibration" }).waitFor();
+    await page.getByRole("link", { name: "Back to MIC-0106" }).click();
+    await expect(history.getByRole("listitem").count()).resolves.toBe(before + 1);
+    await expect(history.getByRole("listitem").nth(1).textContent()).resolves.toMatch(/Superseded/);
+    await expect(history.getByRole("listitem").first().textContent()).resolves.toMatch(/Wrong standard named on the first entry/);
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -17,7 +17,8 @@ type Row = Record<string, unknown>;
 const countedCalibrations = sql`
   select c.id, c.tool_id, c.performed_at, c.as_found_in_tolerance, c.interval_days,
     coalesce(c.notes, '') = ${IMPORTED_CALIBRATION_NOTE} as imported,
-    row_number() over (partition by c.tool_id order by c.performed_at, c.created_at) as rn
+    row_number() over (partition by c.tool_id order by c.performed_at, c.created_at) as rn,
+    lag(c.interval_days) over (partition by c.tool_id order by c.performed_at, c.created_at) as period_days
   from calibrations c
   where not exists (select 1 from calibrations s where s.supersedes_id = c.id)`;
 
@@ -27,6 +28,8 @@ export interface ObservationRow {
   performedAt: Date;
   asFoundInTolerance: boolean;
   intervalDays: number;
+  /** The interval the tool was on before this calibration: the period this observation ends. */
+  periodDays: number | null;
   imported: boolean;
   endOfPeriod: boolean;
 }
@@ -54,7 +57,7 @@ export const intervalsRepository = {
   async observations(db: DbOrTx, familyId: string): Promise<ObservationRow[]> {
     const r = await db.execute(sql`
       with counted as (${countedCalibrations} and c.tool_id in (select id from tools where family_id = ${familyId}::uuid))
-      select k.id, t.asset_tag, k.performed_at, k.as_found_in_tolerance, k.interval_days, k.imported, k.rn
+      select k.id, t.asset_tag, k.performed_at, k.as_found_in_tolerance, k.interval_days, k.imported, k.rn, k.period_days
       from counted k join tools t on t.id = k.tool_id
       order by k.performed_at, t.asset_tag`);
     return (r.rows as Row[]).map((x) => ({
@@ -63,6 +66,7 @@ export const intervalsRepository = {
       performedAt: new Date(String(x.performed_at)),
       asFoundInTolerance: Boolean(x.as_found_in_tolerance),
       intervalDays: Number(x.interval_days),
+      periodDays: x.period_days == null ? null : Number(x.period_days),
       imported: Boolean(x.imported),
       endOfPeriod: Number(x.rn) > 1 && !x.imported,
     }));

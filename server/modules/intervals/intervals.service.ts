@@ -18,8 +18,12 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
     const settings = await getSettings(dbx, timeZone);
     const observations = await intervalsRepository.observations(dbx, familyId);
     const eopr = endOfPeriodReliability(observations.map((o) => ({ asFoundInTolerance: o.asFoundInTolerance, isFirst: !o.endOfPeriod })));
+    // NCSL RP-1 scales the interval the observations were made under (I_old), not whatever the family is set to now:
+    // after a decision, the same history must still recommend the same interval.
+    const periods = observations.filter((o) => o.endOfPeriod && o.periodDays).map((o) => o.periodDays!);
+    const observedIntervalDays = periods.length ? Math.round((periods.reduce((a, b) => a + b, 0) / periods.length) * 10) / 10 : family.defaultIntervalDays;
     const rec = recommendInterval({
-      currentIntervalDays: family.defaultIntervalDays,
+      currentIntervalDays: observedIntervalDays,
       observed: eopr.reliability ?? 0,
       target: settings.reliabilityTarget,
       observations: eopr.observations,
@@ -32,6 +36,7 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
       calibrations: eopr.observations,
       asFoundInToleranceRate: eopr.reliability,
       currentIntervalDays: family.defaultIntervalDays,
+      observedIntervalDays,
       recommendedIntervalDays: rec.recommendedIntervalDays,
       method: rec.method,
       reliabilityTarget: settings.reliabilityTarget,
@@ -44,7 +49,7 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
       minObservations: MIN_OBSERVATIONS,
       maxStepFactor: settings.maxIntervalStepFactor,
       staircase: lastEop ? staircaseSuggestion({ currentIntervalDays: family.defaultIntervalDays, lastAsFoundInTolerance: lastEop.asFoundInTolerance }) : null,
-      observations: observations.map((o) => ({ ...o, performedAt: o.performedAt.toISOString() })),
+      observations: observations.map(({ periodDays: _p, ...o }) => ({ ...o, performedAt: o.performedAt.toISOString() })),
       decisions: decisions.map((d) => ({ ...d, decidedAt: d.decidedAt.toISOString() })),
     };
   }

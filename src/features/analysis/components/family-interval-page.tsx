@@ -35,6 +35,7 @@ export function FamilyIntervalPage() {
               ["In tolerance as found", pct(a.asFoundInToleranceRate)],
               ["Reliability target R*", pct(a.reliabilityTarget)],
               ["Current interval", `${a.currentIntervalDays} days`],
+              ["Interval observed under (I_old)", `${a.observedIntervalDays} days`],
               ["Recommended interval", a.recommendedIntervalDays == null ? "None yet" : `${a.recommendedIntervalDays} days (set as ${a.recommendedWholeDays} days)`],
               ["Method", "I_new = I_old · ln(R*) / ln(R observed)"],
               ["Step limit", `lengthen at most ×${a.maxStepFactor} per review`],

@@ -17,6 +17,7 @@ import type { CheckSheet, SheetItem, SheetRow } from "../../../../shared/jobs/jo
 import type { ToolStatus } from "../../../../shared/tools/tool-status";
 import { ReadingEntry } from "./reading-entry";
 import { VerdictBadge } from "./verdict-badge";
+import { useInvestigations } from "../../investigations/api/investigations";
 
 export function CheckSheetPage() {
   const { id = "" } = useParams();
@@ -66,6 +67,7 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
           </a>
         }
       />
+      <InvestigationBanner jobId={s.id} />
       {s.limitTable.isDemo && <DemoNotice what="limits" />}
       <p role="note" className="rounded-md border border-caution/40 bg-caution-light px-3 py-1.5 text-sm font-semibold text-caution">{VERIFY_NOTICE}</p>
       <Card>
@@ -297,5 +299,23 @@ function SignCard({ sheet }: { sheet: CheckSheet }) {
       )}
       {!sheet.locked && !canSign && sheet.signoffs.length === 0 && <p className="text-sm text-ink-faint">Not signed yet.</p>}
     </Card>
+  );
+}
+
+/** Open out-of-tolerance investigations that include readings of this sheet. */
+function InvestigationBanner({ jobId }: { jobId: string }) {
+  const open = useInvestigations({ jobId, status: "open", page: 1 });
+  const items = open.data?.items ?? [];
+  if (!items.length) return null;
+  return (
+    <div role="alert" className="rounded-md border border-stop/40 bg-stop-light px-3 py-2 text-sm text-stop">
+      <strong>Under investigation. </strong>
+      {items.length === 1 ? "A tool used on this sheet was found out of tolerance" : `${items.length} tools used on this sheet were found out of tolerance`}; readings it took are marked suspect until dispositioned.{" "}
+      {items.map((i: { id: string; toolAssetTag: string | null }) => (
+        <Link key={i.id} className="mr-2 font-semibold underline" to={`/investigations/${i.id}`}>
+          {i.toolAssetTag}
+        </Link>
+      ))}
+    </div>
   );
 }

@@ -18,7 +18,7 @@ import { Button, ButtonLink } from "../../../components/ui/button";
 import { Cautions } from "../../../components/ui/cautions";
 import { cx } from "../../../components/ui/cx";
 import { ApiError, errorMessage } from "../../../lib/api-client";
-import { decimalInput, fromLocalInput, toLocalInput } from "../lib/form";
+import { decimalInput, fromLocalInput, toLocalInput, fileInputClass } from "../lib/form";
 import { len, when } from "../lib/format";
 import { liveCalibration, parseNumber, standardForCompute, type LiveContext, type PointText } from "../lib/live-calibration";
 import { LivePointCells, LiveSummary } from "./live-result";
@@ -293,7 +293,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                 <TextField label="Lab technician (optional)" {...form.register("performedByName")} />
                 <label className="flex flex-col gap-1 text-sm font-semibold text-ink-soft">
                   Certificate file (PDF or image)
-                  <input type="file" accept="application/pdf,image/*" onChange={(ev) => setFile(ev.target.files?.[0] ?? null)} />
+                  <input type="file" className={fileInputClass} accept="application/pdf,image/*" onChange={(ev) => setFile(ev.target.files?.[0] ?? null)} />
                 </label>
               </>
             )}
@@ -355,7 +355,10 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
               <tbody>
                 {points.fields.map((f, i) => {
                   const pe = e.points?.[i];
-                  const budgetU = live.points[i]?.computed?.uncertaintySource === "budget" ? live.points[i].computed!.uncertainty : null;
+                  const computed = live.points[i]?.computed;
+                  // Placeholders show the defaults the shared computation applied (certified value, budget U).
+                  const budgetU = computed?.uncertaintySource === "budget" ? computed.uncertainty : null;
+                  const defaultRef = computed && computed.referenceSource !== "given" ? String(computed.reference) : v.points[i]?.nominal || "= nominal";
                   const cell = (name: keyof PointText, label: string, placeholder?: string) => (
                     <td className="pr-2 py-1 align-top">
                       <input
@@ -376,11 +379,11 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                         {f.label && <span className="block text-xs">el. {f.label}</span>}
                       </td>
                       {cell("nominal", "nominal")}
-                      {cell("reference", "reference", v.points[i]?.nominal || "= nominal")}
+                      {cell("reference", "reference", defaultRef)}
                       {cell("asFound", "as found")}
                       {cell("asLeft", "as left", "not adjusted")}
                       {cell("mpe", "MPE", tool.family.mpe != null ? String(tool.family.mpe) : "")}
-                      {cell("uncertainty", "U", budgetU != null ? `${budgetU} budget` : "from budget")}
+                      {cell("uncertainty", "U", budgetU != null ? String(budgetU) : "from budget")}
                       <LivePointCells point={live.points[i]} unit={unit} index={i} />
                       <td className="align-top">
                         <Button variant="ghost" className="min-h-8 px-2" aria-label={`Remove point ${i + 1}`} onClick={() => points.remove(i)}>

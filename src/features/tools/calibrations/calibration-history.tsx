@@ -109,7 +109,7 @@ function CalibrationRecord({ c, tool, open }: { c: Calibration; tool: ToolDetail
 export function PointsTable({ points, unit }: { points: CalibrationPoint[]; unit: "in" | "mm" }) {
   return (
     <div className="overflow-x-auto">
-      <table className="mt-2 w-full text-left text-sm" aria-label="Check points">
+      <table className="mt-2 w-full whitespace-nowrap text-left text-sm" aria-label="Check points">
         <thead className="text-xs uppercase tracking-wide text-ink-faint">
           <tr>
             <th className="py-1 pr-3">Nominal</th>

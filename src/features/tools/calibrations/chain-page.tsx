@@ -16,7 +16,7 @@ function Step({ step, title, children, last, tone = "normal" }: { step: string; 
   return (
     <li className="relative pl-10">
       <span aria-hidden="true" className={cx("absolute left-0 top-1 grid size-7 place-items-center rounded-full text-xs font-bold", tone === "gap" ? "bg-stop text-white" : "bg-ink text-paper")}>
-        {tone === "gap" ? "!" : "↓"}
+        {tone === "gap" ? "!" : last ? "●" : "↓"}
       </span>
       {!last && <span aria-hidden="true" className="absolute bottom-[-1rem] left-3.5 top-9 w-0.5 bg-brass" />}
       <div className={cx("rounded-card border p-3 shadow-card", tone === "gap" ? "border-stop/50 bg-stop-light" : "border-paper-line bg-paper-raised")}>
@@ -95,7 +95,9 @@ export function ChainPage() {
                   ["Next due", cal.nextDueAt],
                   [
                     "Certificate",
-                    cal.certificateNumber || cal.hasCertificateFile ? (
+                    cal.source === "in_house" && !cal.certificateNumber ? (
+                      "In-house record (this page is its traceability)"
+                    ) : cal.certificateNumber || cal.hasCertificateFile ? (
                       <span>
                         {cal.certificateNumber}{" "}
                         {cal.hasCertificateFile && cal.certificateFileUrl && (

@@ -16,7 +16,7 @@ export function ChecksCard({ tool }: { tool: ToolDetail }) {
         <EmptyState>No intermediate checks recorded.</EmptyState>
       ) : (
         <div className="overflow-x-auto">
-          <table className="w-full text-left text-sm" aria-label="Intermediate checks">
+          <table className="w-full whitespace-nowrap text-left text-sm" aria-label="Intermediate checks">
             <thead className="text-xs uppercase tracking-wide text-ink-faint">
               <tr>
                 <th className="py-1 pr-3">When</th>

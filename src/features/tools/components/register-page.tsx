@@ -39,7 +39,7 @@ const columns = [
   col.accessor("dueAt", {
     id: "dueAt",
     header: "Due",
-    cell: (c) => <span className={cx(c.row.original.status === "overdue" && "font-bold text-stop")}>{c.getValue() ?? "—"}</span>,
+    cell: (c) => <span className={cx("whitespace-nowrap", c.row.original.status === "overdue" && "font-bold text-stop")}>{c.getValue() ?? "—"}</span>,
   }),
   col.accessor("description", { id: "description", header: "Description" }),
   col.accessor("familyName", { id: "family", header: "Family" }),
@@ -112,7 +112,7 @@ export function RegisterPage() {
                 </option>
               ))}
             </select>
-            <select aria-label="Filter by family" className={control} value={f.familyId} onChange={(e) => list.setFilter("familyId", e.target.value)}>
+            <select aria-label="Filter by family" className={cx(control, "max-w-[14rem]")} value={f.familyId} onChange={(e) => list.setFilter("familyId", e.target.value)}>
               <option value="">Any family</option>
               {(families.data?.items ?? []).map((fam) => (
                 <option key={fam.id} value={fam.id}>

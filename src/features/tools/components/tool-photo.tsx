@@ -4,6 +4,7 @@ import { useCan } from "../../auth/api/auth";
 import { toolPhotoUrl, useUploadToolPhoto } from "../api/tools";
 import { ErrorNote } from "../../../components/ui/layout";
 import { errorMessage } from "../../../lib/api-client";
+import { fileInputClass } from "../lib/form";
 
 /** The tool's photo (helps the crib tell look-alike tools apart) and, for those who register tools, a way to replace it. */
 export function ToolPhoto({ tool }: { tool: ToolDetail }) {
@@ -17,7 +18,7 @@ export function ToolPhoto({ tool }: { tool: ToolDetail }) {
       {canWrite && (
         <label className="no-print flex flex-col gap-1 text-sm font-semibold text-ink-soft">
           {tool.hasPhoto ? "Replace photo" : "Add a photo"}
-          <input type="file" accept="image/*" onChange={(e) => e.target.files?.[0] && upload.mutate(e.target.files[0], { onSuccess: () => setVersion((v) => v + 1) })} />
+          <input type="file" className={fileInputClass} accept="image/*" onChange={(e) => e.target.files?.[0] && upload.mutate(e.target.files[0], { onSuccess: () => setVersion((v) => v + 1) })} />
         </label>
       )}
       {upload.isError && <ErrorNote>{errorMessage(upload.error)}</ErrorNote>}

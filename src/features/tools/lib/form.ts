@@ -22,3 +22,7 @@ export function fromLocalInput(value: string): string | null {
 export function applyFieldErrors(fieldErrors: Record<string, string>, setError: (name: any, e: { type: string; message: string }) => void) {
   for (const [k, message] of Object.entries(fieldErrors)) setError(k, { type: "server", message });
 }
+
+/** Look of a file picker, matching the buttons. */
+export const fileInputClass =
+  "text-sm font-normal file:mr-3 file:min-h-10 file:cursor-pointer file:rounded-md file:border file:border-paper-line file:bg-paper-raised file:px-3 file:py-1.5 file:font-semibold file:text-ink hover:file:bg-paper-sunk";

@@ -9,7 +9,7 @@ import { PageHeader, Card, ErrorNote, Loading, Facts, EmptyState } from "../../.
 import { Button } from "../../../components/ui/button";
 import { cx } from "../../../components/ui/cx";
 import { ApiError, errorMessage } from "../../../lib/api-client";
-import { applyFieldErrors } from "../lib/form";
+import { applyFieldErrors, fileInputClass } from "../lib/form";
 import { len } from "../lib/format";
 import { CertificateFields } from "./certificate-fields";
 import { InCalibrationBadge } from "./in-calibration-badge";
@@ -134,7 +134,7 @@ function AddCertificateCard({ standard }: { standard: StandardDetail }) {
         <CertificateFields register={form.register} errors={form.formState.errors} prefix="" unit={standard.unit} />
         <label className="flex flex-col gap-1 text-sm font-semibold text-ink-soft">
           Certificate file (PDF or image)
-          <input type="file" accept="application/pdf,image/*" onChange={(ev) => setFile(ev.target.files?.[0] ?? null)} />
+          <input type="file" className={fileInputClass} accept="application/pdf,image/*" onChange={(ev) => setFile(ev.target.files?.[0] ?? null)} />
         </label>
         {add.isError && <ErrorNote>{errorMessage(add.error)}</ErrorNote>}
         {upload.isError && <ErrorNote>The certificate was added, but its file was not: {errorMessage(upload.error)}</ErrorNote>}

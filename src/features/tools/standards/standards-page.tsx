@@ -14,7 +14,7 @@ import { Button } from "../../../components/ui/button";
 import { ApiError, errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { DebouncedInput } from "../components/debounced-input";
-import { applyFieldErrors, asNumber, decimalInput } from "../lib/form";
+import { applyFieldErrors, asNumber, decimalInput, fileInputClass } from "../lib/form";
 import { len } from "../lib/format";
 import { CertificateFields } from "./certificate-fields";
 import { InCalibrationBadge } from "./in-calibration-badge";
@@ -129,7 +129,7 @@ function NewStandardCard() {
           <CertificateFields register={form.register} errors={e} prefix="certificate." unit={unit} />
           <label className="mt-3 flex flex-col gap-1 text-sm font-semibold text-ink-soft">
             Certificate file (PDF or image, optional)
-            <input type="file" accept="application/pdf,image/*" onChange={(ev) => setFile(ev.target.files?.[0] ?? null)} />
+            <input type="file" className={fileInputClass} accept="application/pdf,image/*" onChange={(ev) => setFile(ev.target.files?.[0] ?? null)} />
           </label>
         </fieldset>
         {create.isError && <ErrorNote>{errorMessage(create.error)}</ErrorNote>}
