@@ -203,7 +203,7 @@ describe("what each digest says", () => {
     expect(m.text).toContain("Has it: Test mechanic (owner)");
     expect(m.text).not.toContain("DIA-7102");
     expect(m.html).toContain(`<a href="${SHOP_URL}/tools/MIC-7101">MIC-7101</a>`);
-    expect(m.text).toContain("Airworthiness and return-to-service decisions belong to appropriately certificated persons");
+    expect(m.text).toContain("who alone decide airworthiness and return to service");
   });
 
   it("the crib attendant's digest is everything due in the crib, most urgent first, including a tool not returned at the end of its shift", async () => {

@@ -37,6 +37,9 @@ describe("the tool register in the browser", () => {
     const csv = await page.getByRole("link", { name: "Export CSV" }).getAttribute("href");
     expect(csv).toMatch(/format=csv/);
     expect(csv).toMatch(/status=overdue/);
+    const exported = await (await page.request.get(csv!)).text();
+    expect(exported).toMatch(/MIC-0110/);
+    expect(exported).not.toMatch(/MIC-0101/);
     expect(errors).toEqual([]);
     await context.close();
   });
@@ -174,7 +177,8 @@ describe("the tool register in the browser", () => {
     await review.getByLabel("Findings").fill("Results, uncertainty and traceability checked against the scope; acceptable.");
     await b.screenshot(page, "outside-lab-review");
     await review.getByRole("button", { name: "Accept certificate" }).click();
-    await expect(page.getByText(/Certificate reviewed and accepted/).textContent()).resolves.toMatch(/Teodor Quill/);
+    const newest = page.getByRole("list", { name: "Calibration records" }).getByRole("listitem").first();
+    await expect(newest.locator("p", { hasText: "Certificate reviewed and accepted" }).textContent()).resolves.toMatch(/by Teodor Quill .*acceptable/);
     await expect(page.getByTestId("tool-answer").textContent()).resolves.toMatch(/^Usable/);
     expect(errors).toEqual([]);
     await context.close();
@@ -185,15 +189,58 @@ describe("the tool register in the browser", () => {
     await b.signIn(page, "quality");
     await page.goto("/tools/MIC-0106");
     const history = page.getByRole("list", { name: "Calibration records" });
+    await history.getByRole("listitem").first().waitFor();
     const before = await history.getByRole("listitem").count();
     await history.getByRole("link", { name: "Correct this record" }).first().click();
     await page.getByLabel("Reason for the correction").fill("Wrong standard named on the first entry.");
     await page.getByRole("button", { name: "Sign the correcting record" }).click();
     await page.getByRole("status", { name: "Saved calibration" }).waitFor();
     await page.getByRole("link", { name: "Back to MIC-0106" }).click();
-    await expect(history.getByRole("listitem").count()).resolves.toBe(before + 1);
+    await expect.poll(() => history.getByRole("listitem").count()).toBe(before + 1);
     await expect(history.getByRole("listitem").nth(1).textContent()).resolves.toMatch(/Superseded/);
     await expect(history.getByRole("listitem").first().textContent()).resolves.toMatch(/Wrong standard named on the first entry/);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("the crib quarantines a dropped tool with a reason, and releases it back into use", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "crib");
+    await page.goto("/tools/MIC-0109");
+    await expect(page.getByTestId("tool-answer").textContent()).resolves.toBe("Usable");
+    await expect(page.getByRole("link", { name: "Log calibration" }).count()).resolves.toBe(0);
+    await page.getByRole("button", { name: "Quarantine" }).click();
+    await page.getByLabel(/Why is MIC-0109 quarantined/).fill("Dropped on the bench floor.");
+    await page.getByRole("button", { name: "Quarantine" }).click();
+    await expect.poll(() => page.getByTestId("tool-answer").textContent()).toBe("Do not use");
+    await expect(page.getByRole("list", { name: "Reasons" }).textContent()).resolves.toMatch(/Quarantined since .*Dropped on the bench floor/);
+    await page.getByRole("button", { name: "Release from quarantine" }).click();
+    await page.getByLabel(/Why may MIC-0109 be released/).fill("Checked on the check block: reads true.");
+    await page.getByRole("button", { name: "Release from quarantine" }).click();
+    await expect.poll(() => page.getByTestId("tool-answer").textContent()).toBe("Usable");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("a calibration dated when its standard was out of calibration is refused in plain words, and nothing is signed", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "quality");
+    await page.goto("/tools/MIC-0108/calibrate");
+    await page.getByRole("table", { name: "Check points entry" }).waitFor();
+    await page.getByRole("checkbox", { name: /GBS-01/ }).check();
+    // Years before the demo's first certificate of GBS-01 was issued.
+    await page.getByLabel("Performed at").fill("2023-01-10T10:00");
+    await expect(page.getByRole("list", { name: "Reference standards" }).textContent()).resolves.toMatch(/GBS-01.*Not in calibration on that date/);
+    for (let i = 1; ; i++) {
+      const nominal = page.getByLabel(`Point ${i} nominal`, { exact: true });
+      if ((await nominal.count()) === 0) break;
+      await page.getByLabel(`Point ${i} as found`, { exact: true }).fill(await nominal.inputValue());
+    }
+    await page.getByRole("button", { name: "Sign the calibration record" }).click();
+    const refusal = page.getByRole("alert").filter({ hasText: "not in calibration" });
+    await expect(refusal.textContent()).resolves.toMatch(/A reference standard you chose was not in calibration on the calibration date\. GBS-01/);
+    await expect(page.getByRole("status", { name: "Saved calibration" }).count()).resolves.toBe(0);
+    await b.screenshot(page, "calibration-refused");
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -1,4 +1,5 @@
 import { sql } from "drizzle-orm";
+import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
@@ -43,46 +44,53 @@ const dateOnly = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISO
 export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
   const out = new Map<string, ToolStatusView>();
   if (toolIds.length === 0) return out;
-  const ids = sql`array[${sql.join(toolIds.map((id) => sql`${id}::uuid`), sql`, `)}]`;
+  // One array parameter, however many tools: no parameter-count limit and one plan.
+  const ids = sql`${`{${toolIds.join(",")}}`}::uuid[]`;
   const atTs = at.toISOString();
 
-  const [tools, cals, pending, checks, holds, labs, custody] = await Promise.all([
-    db.execute(sql`
+  // A transaction is one connection: its queries go one after another; on the
+  // pool they run side by side.
+  const run = <T>(queries: (() => PromiseLike<T>)[]): Promise<T[]> =>
+    db instanceof PgTransaction ? queries.reduce<Promise<T[]>>(async (acc, q) => [...(await acc), await q()], Promise.resolve([])) : Promise.all(queries.map((q) => q()));
+
+  const [tools, cals, pending, checks, holds, labs, custody] = await run([
+    () =>
+      db.execute(sql`
       select t.id, t.asset_tag, t.calibration_required, t.usage_limit,
         coalesce((select e.lifecycle from tool_lifecycle_events e where e.tool_id = t.id and e.at <= ${atTs} order by e.at desc limit 1), 'active') as lifecycle
       from tools t where t.id = any(${ids})`),
     // The calibration that counts: latest, not superseded, performed by `at`,
     // in-house or outside-lab with an accepted certificate review by `at`.
-    db.execute(sql`
+    () => db.execute(sql`
       select distinct on (c.tool_id) c.id, c.tool_id, c.performed_at, c.result, c.next_due_at, c.limited_min, c.limited_max, c.limited_note, t.unit
       from calibrations c join tools t on t.id = c.tool_id
       where c.tool_id = any(${ids}) and c.performed_at <= ${atTs}
         and not exists (select 1 from calibrations s where s.supersedes_id = c.id)
         and (c.source = 'in_house' or exists (select 1 from calibration_reviews r where r.calibration_id = c.id and r.accepted and r.reviewed_at <= ${atTs}))
       order by c.tool_id, c.performed_at desc`),
-    db.execute(sql`
+    () => db.execute(sql`
       select distinct on (c.tool_id) c.tool_id, c.performed_at, coalesce(l.name, 'outside lab') as lab
       from calibrations c left join labs l on l.id = c.lab_id
       where c.tool_id = any(${ids}) and c.source = 'outside_lab' and c.performed_at <= ${atTs}
         and not exists (select 1 from calibration_reviews r where r.calibration_id = c.id and r.reviewed_at <= ${atTs})
         and not exists (select 1 from calibrations s where s.supersedes_id = c.id)
       order by c.tool_id, c.performed_at desc`),
-    db.execute(sql`
+    () => db.execute(sql`
       select distinct on (k.tool_id) k.tool_id, k.performed_at, k.deviation
       from intermediate_checks k
       where k.tool_id = any(${ids}) and not k.passed and k.performed_at <= ${atTs}
       order by k.tool_id, k.performed_at desc`),
-    db.execute(sql`
+    () => db.execute(sql`
       select distinct on (h.tool_id) h.tool_id, h.placed_at, h.reason
       from holds h
       where h.tool_id = any(${ids}) and h.placed_at <= ${atTs} and (h.released_at is null or h.released_at > ${atTs})
       order by h.tool_id, h.placed_at desc`),
-    db.execute(sql`
+    () => db.execute(sql`
       select distinct on (s.tool_id) s.tool_id, s.shipped_at, s.expected_back_at, l.name as lab
       from lab_shipments s join labs l on l.id = s.lab_id
       where s.tool_id = any(${ids}) and s.shipped_at <= ${atTs} and (s.received_at is null or s.received_at > ${atTs})
       order by s.tool_id, s.shipped_at desc`),
-    db.execute(sql`
+    () => db.execute(sql`
       select distinct on (c.tool_id) c.id, c.tool_id, c.user_id, c.issued_at, c.due_back_at, u.name, u.email
       from checkouts c join users u on u.id = c.user_id
       where c.tool_id = any(${ids}) and c.issued_at <= ${atTs} and (c.returned_at is null or c.returned_at > ${atTs})

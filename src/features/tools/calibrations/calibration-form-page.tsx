@@ -55,10 +55,13 @@ const text = (n: number | null | undefined) => (n == null ? "" : String(n));
 const n = (t: string) => (t.trim() === "" ? undefined : Number(t.trim()));
 
 /** The form's text values as the request body of POST …/calibrations. */
-function toRequest(v: FormValues, supersedesId: string | null) {
+function toRequest(v: FormValues, correcting: Calibration | null) {
   const outside = v.source === "outside_lab";
+  const supersedesId = correcting?.id ?? null;
+  // The picker shows minutes; a correction that keeps the date keeps the exact original instant.
+  const keepsDate = correcting && v.performedAt === toLocalInput(new Date(correcting.performedAt));
   return {
-    performedAt: fromLocalInput(v.performedAt) ?? v.performedAt,
+    performedAt: keepsDate ? correcting.performedAt : (fromLocalInput(v.performedAt) ?? v.performedAt),
     temperatureC: n(v.temperatureC),
     humidityPct: n(v.humidityPct),
     standardIds: v.standardIds,
@@ -84,10 +87,10 @@ function toRequest(v: FormValues, supersedesId: string | null) {
 }
 
 /** Validates with the shared schema (the one the route uses) and puts its messages on the form's own fields. */
-function resolverFor(supersedesId: string | null): Resolver<FormValues, unknown, CreateCalibration> {
+function resolverFor(correcting: Calibration | null): Resolver<FormValues, unknown, CreateCalibration> {
   const zod = zodResolver(CreateCalibrationSchema);
   return async (values, ctx, opts) => {
-    const out = await zod(toRequest(values, supersedesId) as never, ctx, opts as never);
+    const out = await zod(toRequest(values, correcting) as never, ctx, opts as never);
     const errors = out.errors as FieldErrors & { limitedRange?: { min?: unknown; max?: unknown } };
     if (errors.limitedRange) {
       Object.assign(errors, { limitedMin: errors.limitedRange.min, limitedMax: errors.limitedRange.max });
@@ -192,7 +195,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
     supersedeReason: "",
     ...(correcting ? fromRecord(correcting) : {}),
   };
-  const form = useForm<FormValues, unknown, CreateCalibration>({ resolver: resolverFor(correcting?.id ?? null), defaultValues: defaults });
+  const form = useForm<FormValues, unknown, CreateCalibration>({ resolver: resolverFor(correcting), defaultValues: defaults });
   const points = useFieldArray({ control: form.control, name: "points" });
   const v = form.watch();
   const e = form.formState.errors;
@@ -266,7 +269,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
           </Card>
         )}
         <Card title="When, where, how">
-          <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+          <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
             <TextField label="Performed at" type="datetime-local" error={e.performedAt?.message} {...form.register("performedAt")} />
             <TextField label="Temperature (°C)" {...decimalInput} error={e.temperatureC?.message} {...form.register("temperatureC")} />
             <TextField label="Humidity (% RH)" {...decimalInput} error={e.humidityPct?.message} {...form.register("humidityPct")} />
@@ -308,10 +311,17 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
           <ul className="grid gap-2 sm:grid-cols-2 xl:grid-cols-3" aria-label="Reference standards">
             {standardChoices.map(({ s, cert }) => {
               const latest = s.certificates[0];
+              const checked = v.standardIds.includes(s.id);
               return (
                 <li key={s.id}>
-                  <label className={cx("flex items-start gap-2 rounded-md border p-2 text-sm", cert ? "border-paper-line" : "border-dashed border-paper-line text-ink-faint")}>
-                    <input type="checkbox" className="mt-1 size-4" disabled={!cert} checked={v.standardIds.includes(s.id)} onChange={(ev) => toggleStandard(s.id, ev.target.checked)} />
+                  <label
+                    className={cx(
+                      "flex items-start gap-2 rounded-md border p-2 text-sm",
+                      cert ? "border-paper-line" : checked ? "border-stop bg-stop-light text-stop" : "border-dashed border-paper-line text-ink-faint",
+                    )}
+                  >
+                    {/* A standard ticked before the date changed stays tickable, so it can be taken off. */}
+                    <input type="checkbox" className="mt-1 size-4" disabled={!cert && !checked} checked={checked} onChange={(ev) => toggleStandard(s.id, ev.target.checked)} />
                     <span>
                       <strong>{s.assetTag}</strong> {s.name}
                       <span className="block text-xs">
@@ -332,7 +342,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
 
         <Card title="Check points">
           <p className="mb-2 text-sm text-ink-soft">
-            Reference blank = nominal. MPE blank = the family's{tool.family.mpe != null ? ` (± ${len(tool.family.mpe, unit)})` : ""}. U blank = computed from the budget (standard's certificate U/k, resolution,
+            Type the as-found readings (and as-left where adjusted); error, TUR and verdict follow at once. Reference blank = nominal (or the standard's certified value). MPE blank = the check plan's or the family's{tool.family.mpe != null ? ` (± ${len(tool.family.mpe, unit)})` : ""}. U blank = computed from the budget (standard's certificate U/k, resolution,
             temperature; k = 2). Values in {unit === "in" ? "inches" : "millimetres"}. Error = indication − reference.
           </p>
           <div className="overflow-x-auto">
@@ -341,14 +351,14 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                 <tr>
                   <th className="py-1 pr-2">#</th>
                   <th className="pr-2">Nominal</th>
-                  <th className="pr-2">Reference</th>
                   <th className="pr-2">As found</th>
                   <th className="pr-2">As left</th>
-                  <th className="pr-2">MPE ±</th>
-                  <th className="pr-2">U (k=2)</th>
                   <th className="pr-2">Error</th>
                   <th className="pr-2">TUR</th>
                   <th className="pr-2">Verdict</th>
+                  <th className="pr-2">Reference</th>
+                  <th className="pr-2">MPE ±</th>
+                  <th className="pr-2">U (k=2)</th>
                   <th />
                 </tr>
               </thead>
@@ -379,12 +389,12 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                         {f.label && <span className="block text-xs">el. {f.label}</span>}
                       </td>
                       {cell("nominal", "nominal")}
-                      {cell("reference", "reference", defaultRef)}
                       {cell("asFound", "as found")}
                       {cell("asLeft", "as left", "not adjusted")}
-                      {cell("mpe", "MPE", tool.family.mpe != null ? String(tool.family.mpe) : "")}
-                      {cell("uncertainty", "U", budgetU != null ? String(budgetU) : "from budget")}
                       <LivePointCells point={live.points[i]} unit={unit} index={i} />
+                      {cell("reference", "reference", defaultRef)}
+                      {cell("mpe", "MPE", computed ? String(computed.mpe) : tool.family.mpe != null ? String(tool.family.mpe) : "")}
+                      {cell("uncertainty", "U", budgetU != null ? String(budgetU) : "from budget")}
                       <td className="align-top">
                         <Button variant="ghost" className="min-h-8 px-2" aria-label={`Remove point ${i + 1}`} onClick={() => points.remove(i)}>
                           ✕

@@ -20,13 +20,18 @@ export function CalibrationHistory({ tool }: { tool: ToolDetail }) {
         <EmptyState>No calibration on record.</EmptyState>
       ) : (
         <ol className="flex flex-col gap-4" aria-label="Calibration records">
-          {cals.data.items.map((c, i) => (
+          {newestFirst(cals.data.items).map((c, i) => (
             <CalibrationRecord key={c.id} c={c} tool={tool} open={i === 0} />
           ))}
         </ol>
       )}
     </Card>
   );
+}
+
+/** Newest first; a correction usually repeats the date it corrects, so on a tie the later-signed record leads. */
+function newestFirst(items: Calibration[]): Calibration[] {
+  return [...items].sort((a, b) => Date.parse(b.performedAt) - Date.parse(a.performedAt) || Date.parse(b.createdAt) - Date.parse(a.createdAt));
 }
 
 function CalibrationRecord({ c, tool, open }: { c: Calibration; tool: ToolDetail; open: boolean }) {

@@ -41,7 +41,3 @@ export function when(value: string | null | undefined): string {
   if (!value) return "—";
   return new Date(value).toLocaleString(undefined, { year: "numeric", month: "short", day: "numeric", hour: "2-digit", minute: "2-digit" });
 }
-
-export const OWNER_LABELS = { shop: "Shop", personal: "Personal (mechanic's own)", customer: "Customer's", loaner: "Loaner" } as const;
-
-export const RESULT_LABELS = { pass: "Pass", adjusted: "Adjusted (as-found out, as-left in)", fail: "Fail", limited: "Limited range" } as const;
