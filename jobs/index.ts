@@ -1,8 +1,13 @@
 import type { AppDeps } from "../server/app";
 import { startReminderSchedule } from "./reminder-schedule";
+import { startInvestigationNoticeSweep } from "./deliver-investigation-notices.job";
 
 /** Starts the scheduled jobs of a running server; returns a function that stops them. */
 export async function startSchedules(deps: AppDeps): Promise<() => void> {
   const reminders = await startReminderSchedule(deps);
-  return () => void reminders.stop();
+  const notices = startInvestigationNoticeSweep(deps);
+  return () => {
+    void reminders.stop();
+    notices.stop();
+  };
 }

@@ -39,7 +39,7 @@ export const PERMISSIONS = {
   "investigations.close": ["quality", "admin"],
   "reminders.run": ["admin"],
   "outbox.read": ["admin"],
-  "intervals.read": ["quality", "admin"],
+  "intervals.read": ["quality", "auditor", "admin"],
   "intervals.apply": ["quality", "admin"],
   "import.run": ["quality", "admin"],
   "audit.read": ["quality", "auditor", "admin"],

@@ -28,8 +28,8 @@ describe("who may use the quality overview", () => {
     { method: "get", path: "/api/stats/dashboard", allowed: everyone },
     { method: "get", path: "/api/stats/mine", allowed: everyone },
     { method: "get", path: "/api/stats/inspection", allowed: everyone },
-    { method: "get", path: "/api/intervals/families", allowed: ["quality", "admin"] },
-    { method: "get", path: () => `/api/families/${familyId}/interval-analysis`, label: "/api/families/:id/interval-analysis", allowed: ["quality", "admin"] },
+    { method: "get", path: "/api/intervals/families", allowed: ["quality", "auditor", "admin"] },
+    { method: "get", path: () => `/api/families/${familyId}/interval-analysis`, label: "/api/families/:id/interval-analysis", allowed: ["quality", "auditor", "admin"] },
     {
       method: "post",
       path: () => `/api/families/${familyId}/interval-decisions`,
