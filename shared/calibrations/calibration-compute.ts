@@ -23,6 +23,29 @@ export interface ComputeStandard {
   certifiedValues?: { nominal: DecimalLike; value: DecimalLike }[];
 }
 
+/** A reference standard and the certificate covering the day, as the server's rows (decimal strings) or the API (numbers) give them. */
+export interface StandardWithCertificate {
+  standard: { unit: LengthUnit; nominal: DecimalLike | null };
+  certificate: {
+    expandedUncertainty: DecimalLike;
+    coverageFactor: DecimalLike;
+    certifiedValue?: DecimalLike | null;
+    elementValues?: { nominal: DecimalLike; deviation: DecimalLike }[] | null;
+  };
+}
+
+/**
+ * The one mapping from a standard's certificate to what the computation takes: U and k, and the
+ * certified values (a single standard's certified length; each block's nominal + its deviation).
+ * Used by the server before it signs and by the form while the person types.
+ */
+export function standardForCompute({ standard, certificate: c }: StandardWithCertificate): ComputeStandard {
+  const certifiedValues: NonNullable<ComputeStandard["certifiedValues"]> = [];
+  if (standard.nominal != null && c.certifiedValue != null) certifiedValues.push({ nominal: standard.nominal, value: c.certifiedValue });
+  for (const e of c.elementValues ?? []) certifiedValues.push({ nominal: e.nominal, value: dec(e.nominal).plus(dec(e.deviation)) });
+  return { unit: standard.unit, expandedUncertainty: num(dec(c.expandedUncertainty)), coverageFactor: num(dec(c.coverageFactor)), certifiedValues };
+}
+
 export interface ComputeCalibrationInput {
   rule: DecisionRule;
   /** Unit and resolution of the tool under test. */

@@ -229,6 +229,8 @@ export const ChainSchema = z.object({
       assetTag: z.string(),
       name: z.string(),
       kind: z.string(),
+      /** The standard's unit: its certificate's U is stated in it. */
+      unit: UnitSchema,
       /** The certificate that covered the calibration date, when one did. */
       certificate: z
         .object({

@@ -6,6 +6,12 @@ export type DecisionRule = "simple" | "guarded";
 
 export const DECISION_RULES = ["simple", "guarded"] as const satisfies readonly DecisionRule[];
 
+/** The rules in plain trade words, wherever a page or a record names them. */
+export const DECISION_RULE_LABELS: Record<DecisionRule, string> = {
+  simple: "Simple acceptance: pass when the error is within ± MPE",
+  guarded: "Guarded acceptance: pass when the error is within ± (MPE − U)",
+};
+
 /** Z540.3 §5.3 b: a TUR of at least 4 where false-accept risk is not computed. */
 export const MINIMUM_TUR = 4;
 

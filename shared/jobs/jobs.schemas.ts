@@ -14,9 +14,17 @@ export type CreateJobInput = z.input<typeof CreateJobSchema>;
 export const JOB_STATUSES = ["open", "signed"] as const;
 export const JobStatusSchema = z.enum(JOB_STATUSES);
 
+/**
+ * List filters on a sheet's state: open (not signed, or corrected since its sign-off), awaiting signature
+ * (open with readings on it: what an inspector has to sign) or signed.
+ */
+export const JOB_LIST_STATUSES = ["open", "awaiting_signature", "signed"] as const;
+export type JobListStatus = (typeof JOB_LIST_STATUSES)[number];
+export const JOB_LIST_STATUS_LABELS: Record<JobListStatus, string> = { open: "Open", awaiting_signature: "Awaiting signature", signed: "Signed" };
+
 export const JobListQuerySchema = PageQuerySchema.extend({
   engineSerial: z.string().trim().max(60).optional(),
-  status: JobStatusSchema.optional(),
+  status: z.enum(JOB_LIST_STATUSES, { message: `Status is one of ${JOB_LIST_STATUSES.join(", ")}.` }).optional(),
   /** Jobs I opened or took readings on. */
   mine: z.enum(["true", "false"]).transform((v) => v === "true").optional(),
   sort: z.enum(["openedAt", "-openedAt", "engineSerial", "-engineSerial"]).default("-openedAt"),

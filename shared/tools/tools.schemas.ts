@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { InstantSchema, LengthSchema, PageQuerySchema, UnitSchema, optionalText, CalendarDateSchema } from "../common/lists.schemas";
-import { TOOL_STATUSES } from "./tool-status";
+import { TOOL_STATUSES, type ToolStatus } from "./tool-status";
+import { isCalendarDate } from "../common/dates";
 import { FamilySchema, ToolKindSchema } from "../families/families.schemas";
 
 export const ToolStatusSchema = z.enum(TOOL_STATUSES);
@@ -114,6 +115,14 @@ export type ToolSort = z.infer<typeof ToolSortSchema>;
 const csvList = <T extends z.ZodTypeAny>(item: T) =>
   z.preprocess((v) => (typeof v === "string" ? v.split(",").map((s) => s.trim()).filter(Boolean) : v), z.array(item).max(20)).optional();
 
+/** A real calendar date in a query string (2026-02-30 is refused). */
+const QueryDateSchema = CalendarDateSchema.refine(isCalendarDate, "Not a calendar date.");
+
+/** The due-date filters of the register (dashboard links): within N days from today, or in a date range. */
+export const DUE_FILTERS = ["dueWithinDays", "dueFrom", "dueTo"] as const;
+/** Statuses of a tool still in calibration: the ones that can come due. */
+export const STILL_IN_CALIBRATION = ["in_calibration", "due_soon", "limited"] as const satisfies readonly ToolStatus[];
+
 /** GET /api/tools query: filters, sort ("-" for descending), paging, ?format=csv for the current view as CSV. */
 export const ToolListQuerySchema = PageQuerySchema.extend({
   status: csvList(ToolStatusSchema),
@@ -125,9 +134,20 @@ export const ToolListQuerySchema = PageQuerySchema.extend({
   location: optionalText(80),
   ownerType: OwnerTypeSchema.optional(),
   usable: z.enum(["true", "false"]).transform((v) => v === "true").optional(),
+  /** Tools still in calibration (in calibration, due soon, limited) due within N days from today in the shop's zone, today and day N included. */
+  dueWithinDays: z
+    .string()
+    .regex(/^\d{1,4}$/, "A whole number of days.")
+    .transform(Number)
+    .pipe(z.number().int().max(3650, "At most 3650 days."))
+    .optional(),
+  /** Due on or after this calendar date. */
+  dueFrom: QueryDateSchema.optional(),
+  /** Due on or before this calendar date. */
+  dueTo: QueryDateSchema.optional(),
   sort: ToolSortSchema.default("assetTag"),
   format: z.enum(["json", "csv"]).default("json"),
-});
+}).refine((v) => !v.dueFrom || !v.dueTo || v.dueFrom <= v.dueTo, { message: "The start of the due-date range is after its end.", path: ["dueTo"] });
 export type ToolListQuery = z.infer<typeof ToolListQuerySchema>;
 export type ToolListQueryInput = z.input<typeof ToolListQuerySchema>;
 
@@ -253,6 +273,10 @@ export type LifecycleChange = z.infer<typeof LifecycleChangeSchema>;
 /** Answer of quarantine, release and lifecycle changes: the tool's status afterwards. */
 export const ToolActionResultSchema = z.object({ assetTag: z.string(), status: ToolStatusSchema, usable: z.boolean(), reasons: z.array(z.string()) });
 export type ToolActionResult = z.infer<typeof ToolActionResultSchema>;
+
+/** GET /api/tools/locations: every location named in the register, for the location filter. */
+export const ToolLocationsSchema = z.object({ items: z.array(z.string()) });
+export type ToolLocations = z.infer<typeof ToolLocationsSchema>;
 
 /** Columns of the CSV export of the register, in order. */
 export const TOOL_CSV_COLUMNS = [

@@ -89,7 +89,7 @@ export function AppLayout() {
 
 export function Wordmark() {
   return (
-    <span className="inline-flex items-baseline gap-1 text-lg font-bold tracking-tight">
+    <span className="inline-flex items-baseline text-lg font-bold tracking-tight">
       Tenth<span className="text-brass">wise</span>
     </span>
   );

@@ -38,5 +38,8 @@ export function useListParams<F extends string>(filterKeys: readonly F[], defaul
     update({ sort: next[0] ? `${next[0].desc ? "-" : ""}${next[0].id}` : null });
   };
 
-  return { page, pageSize, sort, filters, sorting, setSorting, setPage: (p: number) => update({ page: p }), setFilter: (k: F, v: string) => update({ [k]: v }), update };
+  /** Clears the named filters (all of them when none is named), back to the first page. */
+  const clearFilters = (...keys: F[]) => update(Object.fromEntries((keys.length ? keys : filterKeys).map((k) => [k, null])));
+
+  return { page, pageSize, sort, filters, sorting, setSorting, setPage: (p: number) => update({ page: p }), setFilter: (k: F, v: string) => update({ [k]: v }), clearFilters, update };
 }

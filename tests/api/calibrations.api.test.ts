@@ -160,6 +160,25 @@ describe("standards must be in calibration", () => {
     expect((await statusOf(tool.assetTag)).status).toBe("never_calibrated");
   });
 
+  it("a certificate that ran out is named with the day it ran out; a calibration dated before a standard's first certificate says no certificate covers that day", async () => {
+    const { tool } = await micrometerBench(t.db);
+    const { standard: lapsed } = await makeStandard(t.db, { assetTag: "GBS-RANOUT" }, { issuedAt: "2025-06-01", dueAt: "2026-06-14" });
+    const q = await t.agent("quality");
+    const ranOut = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([lapsed.id]));
+    expect(ranOut.status).toBe(409);
+    expect(ranOut.body.error.message).toMatch(/certificate of GBS-RANOUT ran out 2026-06-14/);
+    expect(ranOut.body.error.details).toEqual([{ assetTag: "GBS-RANOUT", reason: "certificate_ran_out", dueAt: "2026-06-14" }]);
+
+    const { standard: later } = await makeStandard(t.db, { assetTag: "GBS-LATER" }, { issuedAt: "2026-01-10", dueAt: "2027-01-10" });
+    const early = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([later.id], { performedAt: "2025-01-03T15:00:00Z" }));
+    expect(early.status).toBe(409);
+    expect(early.body.error.code).toBe("standard_not_in_calibration");
+    expect(early.body.error.message).toMatch(/no certificate of GBS-LATER covers 2025-01-03/i);
+    expect(early.body.error.message).not.toMatch(/ran out/);
+    expect(early.body.error.details).toEqual([{ assetTag: "GBS-LATER", reason: "no_certificate_covers", dueAt: null }]);
+    expect(await calibrationCount(tool.id)).toBe(0);
+  });
+
   it("a standard is in calibration through its certificate's due date (the date is the shop's calendar date)", async () => {
     const { tool } = await micrometerBench(t.db);
     const { standard } = await makeStandard(t.db, {}, { issuedAt: "2025-06-15", dueAt: "2026-06-15" });
@@ -190,9 +209,22 @@ describe("evidence is append-only", () => {
     expect((await statusOf(tool.assetTag)).status).toBe("in_calibration");
     expect((await q.get(`/api/tools/${tool.assetTag}/calibrations`)).body.total).toBe(2);
 
+    // History, newest first: the correction repeats the corrected record's date and time, and leads it.
+    const history = (await q.get(`/api/tools/${tool.assetTag}/calibrations`)).body.items.map((c: { id: string }) => c.id);
+    expect(history).toEqual([fix.body.id, first.body.id]);
+
     const again = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { supersedesId: first.body.id, supersedeReason: "second try" }));
     expect(again.status).toBe(409);
     expect(again.body.error.code).toBe("already_superseded");
+  });
+
+  it("the calibration history lists the latest calibration first, even when an older calibration is entered afterwards", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const june14 = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-06-14T14:00:00Z" }));
+    const june12 = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { performedAt: "2026-06-12T14:00:00Z" }));
+    const history = (await q.get(`/api/tools/${tool.assetTag}/calibrations`)).body.items.map((c: { id: string }) => c.id);
+    expect(history).toEqual([june14.body.id, june12.body.id]);
   });
 
   it("a signed calibration cannot be edited or deleted through the API (409 record_signed), nor in the database itself", async () => {
@@ -398,7 +430,7 @@ describe("bad input", () => {
 });
 
 describe("traceability chain", () => {
-  it("shows tool → calibration → standard → certificate → lab and accreditation → national institute", async () => {
+  it("shows tool → calibration → standard (with the unit its certificate's U is stated in) → certificate → lab and accreditation → national institute", async () => {
     const lab = await makeLab(t.db, { name: "Chain Lab (test)", accreditationBody: "Demo Accreditation Board", accreditationExpiresAt: "2028-01-01" });
     const { tool } = await micrometerBench(t.db);
     const { standard } = await makeStandard(t.db, { assetTag: "GBS-CHAIN" }, { labId: lab.id, labName: lab.name, nationalInstitute: "Demo National Measurement Institute" });
@@ -409,6 +441,7 @@ describe("traceability chain", () => {
     expect(chain.body.calibration.id).toBe(cal.body.id);
     expect(chain.body.standards[0]).toMatchObject({
       assetTag: "GBS-CHAIN",
+      unit: "in",
       certificate: { labName: "Chain Lab (test)", nationalInstitute: "Demo National Measurement Institute", lab: { accreditation: "valid", accreditationBody: "Demo Accreditation Board" } },
     });
     expect(chain.body.gaps).toEqual([]);

@@ -234,6 +234,83 @@ describe("the register list", () => {
   });
 });
 
+describe("due-date filters for dashboard links", () => {
+  const tags = (body: { items: { assetTag: string }[] }) => body.items.map((x) => x.assetTag);
+  beforeAll(async () => {
+    const family = await makeFamily(t.db, { name: "Due filter family" });
+    const due = async (tag: string, nextDueAt: string, over: Partial<Parameters<typeof makeCalibration>[2]> = {}) => {
+      const tool = await makeTool(t.db, { assetTag: tag, familyId: family.id, location: "Due shelf" });
+      await makeCalibration(t.db, tool.id, { performedAt: new Date("2025-09-01T15:00:00Z"), nextDueAt, ...over });
+      return tool;
+    };
+    await due("DUE-TODAY", "2026-06-15");
+    await due("DUE-DAY10", "2026-06-25");
+    await due("DUE-DAY11", "2026-06-26");
+    await due("DUE-LIMITED", "2026-06-20", { result: "limited", limitedMin: "0", limitedMax: "0.5" });
+    await due("DUE-HELD", "2026-06-18");
+    await due("DUE-OVERDUE", "2026-06-10");
+    await makeTool(t.db, { assetTag: "DUE-NEVER", familyId: family.id });
+    const hold = await (await t.agent("crib")).post("/api/tools/DUE-HELD/quarantine", { reason: "Dropped on the bench" });
+    expect(hold.body.status).toBe("quarantined");
+  });
+
+  it("tools due within 10 days: the ones still in calibration (incl. limited) due from today through day 10 of the shop's calendar, not the quarantined or overdue ones", async () => {
+    // 22:00 on 15 June in Chicago is already 16 June in UTC: the shop's calendar decides what "today" is.
+    t.clock.set("2026-06-16T03:00:00Z");
+    try {
+      const a = await t.agent("mechanic");
+      const res = await a.get("/api/tools?q=DUE-&dueWithinDays=10&sort=dueAt");
+      expect(res.status).toBe(200);
+      expect(tags(res.body)).toEqual(["DUE-TODAY", "DUE-LIMITED", "DUE-DAY10"]);
+      expect(res.body.total).toBe(3);
+      expect(res.body.items.map((x: { status: string }) => x.status)).toEqual(["due_soon", "limited", "due_soon"]);
+      expect(tags((await a.get("/api/tools?q=DUE-&dueWithinDays=0")).body)).toEqual(["DUE-TODAY"]);
+      const csv = await a.get("/api/tools?q=DUE-&dueWithinDays=10&format=csv");
+      expect(Papa.parse<Record<string, string>>(csv.text, { header: true, skipEmptyLines: true }).data.map((r) => r.assetTag)).toEqual(["DUE-DAY10", "DUE-LIMITED", "DUE-TODAY"]);
+    } finally {
+      t.clock.set("2026-06-15T15:00:00Z");
+    }
+  });
+
+  it("a due-date range lists every tool due in it, both ends included, whatever its status, on the list and in the CSV", async () => {
+    const a = await t.agent("auditor");
+    const res = await a.get("/api/tools?q=DUE-&dueFrom=2026-06-10&dueTo=2026-06-18&sort=dueAt");
+    expect(tags(res.body)).toEqual(["DUE-OVERDUE", "DUE-TODAY", "DUE-HELD"]);
+    expect(tags((await a.get("/api/tools?q=DUE-&dueFrom=2026-06-20")).body)).toEqual(["DUE-DAY10", "DUE-DAY11", "DUE-LIMITED"]);
+    expect(tags((await a.get("/api/tools?q=DUE-&dueTo=2026-06-10")).body)).toEqual(["DUE-OVERDUE"]);
+    const csv = await a.get("/api/tools?q=DUE-&dueFrom=2026-06-10&dueTo=2026-06-18&format=csv");
+    expect(Papa.parse<Record<string, string>>(csv.text, { header: true, skipEmptyLines: true }).data.map((r) => r.assetTag)).toEqual(["DUE-HELD", "DUE-OVERDUE", "DUE-TODAY"]);
+  });
+
+  it("a due filter that is not a number of days or a calendar date, or a range that ends before it starts, is bad input (400)", async () => {
+    const a = await t.agent("mechanic");
+    for (const q of ["dueWithinDays=soon", "dueWithinDays=-3", "dueWithinDays=2.5", "dueWithinDays=", "dueFrom=2026-02-30", "dueTo=15/06/2026", "dueFrom=2026-07-01&dueTo=2026-06-01"]) {
+      const res = await a.get(`/api/tools?${q}`);
+      expect(res.status, q).toBe(400);
+      expect(res.body.error.details.length, q).toBeGreaterThan(0);
+    }
+  });
+});
+
+describe("the location filter", () => {
+  it("offers every location named in the register once, sorted, whoever asks", async () => {
+    const family = await makeFamily(t.db, { name: "Location family" });
+    await makeTool(t.db, { assetTag: "LOC-01", familyId: family.id, location: "Crib drawer Z9" });
+    await makeTool(t.db, { assetTag: "LOC-02", familyId: family.id, location: "crib drawer z9" });
+    await makeTool(t.db, { assetTag: "LOC-03", familyId: family.id, location: "Annex rack" });
+    await makeTool(t.db, { assetTag: "LOC-04", familyId: family.id });
+    const res = await (await t.agent("mechanic")).get("/api/tools/locations");
+    expect(res.status).toBe(200);
+    const items: string[] = res.body.items;
+    expect(items.filter((l) => l.toLowerCase() === "crib drawer z9")).toHaveLength(1);
+    expect(items).toContain("Annex rack");
+    expect(items.every((l) => l.trim() !== "")).toBe(true);
+    expect(items).toEqual([...items].sort((x, y) => x.localeCompare(y, "en", { sensitivity: "base" })));
+    // Choosing one lists the tools there, whatever the case it was typed in.
+    expect((await (await t.agent("mechanic")).get("/api/tools?location=Crib%20drawer%20Z9")).body.items.map((x: { assetTag: string }) => x.assetTag)).toEqual(["LOC-01", "LOC-02"]);
+  });
+});
+
 describe("reference standards and labs", () => {
   it("quality registers a standard with its certificate; it is in calibration today and its certificate file can be uploaded and downloaded", async () => {
     const q = await t.agent("quality");
@@ -282,7 +359,7 @@ describe("reference standards and labs", () => {
 describe("OpenAPI", () => {
   it("lists the register routes with their schemas", async () => {
     const doc = (await (await t.agent()).get("/api/openapi.json")).body;
-    for (const p of ["/api/families", "/api/families/{id}", "/api/tools", "/api/tools/{assetTag}", "/api/tools/{assetTag}/status", "/api/tools/{assetTag}/quarantine", "/api/tools/{assetTag}/release", "/api/tools/{assetTag}/lifecycle", "/api/tools/{assetTag}/elements", "/api/standards", "/api/standards/{id}", "/api/standards/{id}/certificates", "/api/labs"]) {
+    for (const p of ["/api/families", "/api/families/{id}", "/api/tools", "/api/tools/locations", "/api/tools/{assetTag}", "/api/tools/{assetTag}/status", "/api/tools/{assetTag}/quarantine", "/api/tools/{assetTag}/release", "/api/tools/{assetTag}/lifecycle", "/api/tools/{assetTag}/elements", "/api/standards", "/api/standards/{id}", "/api/standards/{id}/certificates", "/api/labs"]) {
       expect(doc.paths[p], p).toBeDefined();
     }
     expect(doc.paths["/api/tools"].post.requestBody.content["application/json"].schema.required).toEqual(
@@ -312,6 +389,7 @@ describe("who may change the register", () => {
     { method: "get", label: "/api/families/:id", path: () => `/api/families/${famId}`, allowed: ALL },
     { method: "patch", label: "/api/families/:id", path: () => `/api/families/${famId}`, body: { defaultIntervalDays: 365 }, allowed: ["quality", "admin"] },
     { method: "get", path: "/api/tools", allowed: ALL },
+    { method: "get", path: "/api/tools/locations", allowed: ALL },
     { method: "post", path: "/api/tools", body: () => ({ assetTag: `MX-${uniq()}`, familyId: famId, description: "Matrix", serialNumber: "S", unit: "in", rangeMin: 0, rangeMax: 1, resolution: 0.0001, intervalDays: 365 }), allowed: ["crib", "quality", "admin"] },
     { method: "get", path: "/api/tools/MATRIX-01", allowed: ALL },
     { method: "patch", path: "/api/tools/MATRIX-01", body: { location: "Matrix shelf" }, allowed: ["crib", "quality", "admin"] },

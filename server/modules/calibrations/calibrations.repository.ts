@@ -9,6 +9,9 @@ import { labs } from "../labs/labs.table";
 export type CalibrationRow = typeof calibrations.$inferSelect;
 export type CalibrationPointRow = typeof calibrationPoints.$inferSelect;
 
+/** Newest first by when performed; on the same instant the later-signed record (a correction) leads. */
+const NEWEST_FIRST = [desc(calibrations.performedAt), desc(calibrations.createdAt)] as const;
+
 const notSuperseded = sql`not exists (select 1 from ${calibrations} s where s.supersedes_id = ${calibrations.id})`;
 
 export const calibrationsRepository = {
@@ -23,7 +26,7 @@ export const calibrationsRepository = {
         .select()
         .from(calibrations)
         .where(where)
-        .orderBy(desc(calibrations.performedAt), desc(calibrations.createdAt))
+        .orderBy(...NEWEST_FIRST)
         .limit(opts.pageSize)
         .offset((opts.page - 1) * opts.pageSize),
       db.select({ total: count() }).from(calibrations).where(where),
@@ -84,5 +87,5 @@ export const calibrationsRepository = {
 
   /** The latest record of a tool that is not superseded (for the chain when none counts yet). */
   latestForTool: async (db: DbOrTx, toolId: string) =>
-    (await db.select().from(calibrations).where(and(eq(calibrations.toolId, toolId), notSuperseded)).orderBy(desc(calibrations.performedAt)).limit(1))[0],
+    (await db.select().from(calibrations).where(and(eq(calibrations.toolId, toolId), notSuperseded)).orderBy(...NEWEST_FIRST).limit(1))[0],
 };

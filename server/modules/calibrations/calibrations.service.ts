@@ -10,7 +10,7 @@ import { statusContext, statusOf } from "../tools/tool-status.service";
 import { onOutOfToleranceFinding } from "../investigations/investigations.hooks";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound, refused } from "../../http/errors";
-import { computeCalibration, type ComputeStandard } from "../../../shared/calibrations/calibration-compute";
+import { computeCalibration, standardForCompute } from "../../../shared/calibrations/calibration-compute";
 import { DecisionRuleError } from "../../../shared/calibrations/decision-rules";
 import { nextDueAt } from "../../../shared/calibrations/due-dates";
 import { calendarDate } from "../../../shared/common/dates";
@@ -108,14 +108,6 @@ export async function toCalibrations(db: DbOrTx, rows: CalibrationRow[], tool: {
   });
 }
 
-/** Certified values a standard's certificate gives: a single standard's length, or each block's nominal + deviation. */
-function certifiedValues(s: StandardRow, c: CertificateRow): ComputeStandard["certifiedValues"] {
-  const out: NonNullable<ComputeStandard["certifiedValues"]> = [];
-  if (s.nominal != null && c.certifiedValue != null) out.push({ nominal: s.nominal, value: c.certifiedValue });
-  for (const e of c.elementValues ?? []) out.push({ nominal: e.nominal, value: dec(e.nominal).plus(dec(e.deviation)) });
-  return out;
-}
-
 export function calibrationsService(deps: RegisterDeps) {
   const { db, clock, defaultTimeZone } = deps;
 
@@ -142,10 +134,15 @@ export function calibrationsService(deps: RegisterDeps) {
     const lapsed = out.filter((s) => !s.certificate);
     if (lapsed.length) {
       const all = await standardsRepository.certificatesOf(tx, lapsed.map((s) => s.standard.id));
-      const details = lapsed.map((s) => ({ assetTag: s.standard.assetTag, dueAt: all.find((c) => c.standardId === s.standard.id)?.dueAt ?? null }));
+      // Ran out: the last certificate that ended before the date. Otherwise none covers it (none yet, or all issued later).
+      const details = lapsed.map((s) => {
+        const ranOut = all.find((c) => c.standardId === s.standard.id && c.dueAt < date)?.dueAt ?? null;
+        return { assetTag: s.standard.assetTag, reason: ranOut ? ("certificate_ran_out" as const) : ("no_certificate_covers" as const), dueAt: ranOut };
+      });
+      const why = details.map((d) => (d.dueAt ? `the certificate of ${d.assetTag} ran out ${d.dueAt}` : `no certificate of ${d.assetTag} covers ${date}`)).join("; ");
       throw refused(
         "standard_not_in_calibration",
-        `${details.map((d) => (d.dueAt ? `${d.assetTag} (certificate ran out ${d.dueAt})` : `${d.assetTag} (no certificate covering that date)`)).join(", ")} ${lapsed.length === 1 ? "was" : "were"} not in calibration on ${date}; use a standard in calibration.`,
+        `${why[0].toUpperCase()}${why.slice(1)}: ${lapsed.length === 1 ? "it was" : "they were"} not in calibration on ${date}; use a standard in calibration.`,
         details,
       );
     }
@@ -202,12 +199,7 @@ export function calibrationsService(deps: RegisterDeps) {
           temperatureC: input.temperatureC ?? null,
           familyMpe: family.mpe,
           checkPlan: family.checkPoints,
-          standards: used.map((u) => ({
-            unit: u.standard.unit,
-            expandedUncertainty: fromDb(u.certificate.expandedUncertainty),
-            coverageFactor: fromDb(u.certificate.coverageFactor),
-            certifiedValues: certifiedValues(u.standard, u.certificate),
-          })),
+          standards: used.map(standardForCompute),
           limitedRange: input.limitedRange ? { min: input.limitedRange.min, max: input.limitedRange.max } : null,
           points: input.points,
         });
@@ -347,6 +339,7 @@ export function calibrationsService(deps: RegisterDeps) {
           assetTag: s.assetTag,
           name: s.name,
           kind: s.kind,
+          unit: s.unit,
           certificate: c
             ? {
                 id: c.id,

@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, ilike, inArray, isNull, lt, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, ilike, inArray, isNotNull, isNull, lt, not, or, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { checkoutRefusals, checkouts } from "./checkouts.table";
@@ -43,7 +43,9 @@ function viewQuery(db: DbOrTx) {
 export interface CheckoutFilter {
   open?: boolean;
   userId?: string;
-  overdueAt?: Date;
+  /** true: not back by the time it was due back at `at`; false: back, or not yet due back. */
+  overdue?: boolean;
+  at: Date;
   assetTag?: string;
   q?: string;
   sort?: string;
@@ -61,6 +63,20 @@ const SORTS: Record<string, SQL | ReturnType<typeof asc>> = {
   person: asc(person.name),
   "-person": desc(person.name),
 };
+
+/**
+ * A tool not returned: still out on check-out after the time it was due back. The one definition behind the
+ * custody list's ?overdue=true, each checkout's notBackInTime and the overview's "not returned" count.
+ * (Served by the partial index checkouts_open_due_idx.)
+ */
+export const notReturnedBy = (at: Date): SQL => and(isNull(checkouts.returnedAt), lt(checkouts.dueBackAt, at))!;
+export const isNotReturned = (c: Pick<CheckoutRow, "returnedAt" | "dueBackAt">, at: Date) => c.returnedAt == null && c.dueBackAt.getTime() < at.getTime();
+
+/** How many tools are not returned at `at`. */
+export async function notReturnedCount(db: DbOrTx, at: Date): Promise<number> {
+  const [{ n }] = await db.select({ n: count() }).from(checkouts).where(notReturnedBy(at));
+  return n;
+}
 
 export const checkoutsRepository = {
   /** A tool by its asset tag as scanned or typed (labels print upper case; a typed lower-case tag still finds it). */
@@ -119,9 +135,9 @@ export const checkoutsRepository = {
   async list(db: DbOrTx, f: CheckoutFilter): Promise<{ items: CheckoutViewRow[]; total: number }> {
     const like = f.q ? `%${f.q.replace(/[%_\\]/g, (c) => `\\${c}`)}%` : null;
     const where = and(
-      f.open === true || f.overdueAt ? isNull(checkouts.returnedAt) : f.open === false ? sql`${checkouts.returnedAt} is not null` : undefined,
+      f.open === true ? isNull(checkouts.returnedAt) : f.open === false ? isNotNull(checkouts.returnedAt) : undefined,
       f.userId ? eq(checkouts.userId, f.userId) : undefined,
-      f.overdueAt ? lt(checkouts.dueBackAt, f.overdueAt) : undefined,
+      f.overdue === true ? notReturnedBy(f.at) : f.overdue === false ? not(notReturnedBy(f.at)) : undefined,
       f.assetTag ? inArray(tools.assetTag, [...new Set([f.assetTag, f.assetTag.toUpperCase()])]) : undefined,
       like
         ? or(ilike(tools.assetTag, like), ilike(tools.description, like), ilike(person.name, like), ilike(person.email, like), ilike(checkouts.workOrder, like), ilike(checkouts.engineSerial, like))

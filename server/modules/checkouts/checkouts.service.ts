@@ -3,7 +3,7 @@ import type { Clock } from "../../platform/clock";
 import type { Config } from "../../config";
 import type { Mailer } from "../../platform/mailer";
 import type { ObjectStorage } from "../../platform/storage";
-import { checkoutsRepository as repo, type CheckoutViewRow, type ToolRow } from "./checkouts.repository";
+import { checkoutsRepository as repo, isNotReturned, type CheckoutViewRow, type ToolRow } from "./checkouts.repository";
 import { statusContext, statusesFor, statusOf, type ToolStatusView } from "../tools/tool-status.service";
 import { changeLifecycle, openHold, placeHold } from "../tools/tool-lifecycle.repository";
 import { onOutOfToleranceFinding } from "../investigations/investigations.hooks";
@@ -83,7 +83,7 @@ export function toCheckout(row: CheckoutViewRow, status: ToolStatusView | undefi
     returnCondition: c.returnCondition,
     returnNote: c.returnNote,
     hasPhoto: !!c.returnPhotoKey,
-    notBackInTime: !c.returnedAt && c.dueBackAt.getTime() < now.getTime(),
+    notBackInTime: isNotReturned(c, now),
   };
 }
 
@@ -267,7 +267,7 @@ export function checkoutsService(deps: CribDeps) {
 
     async list(q: z.infer<typeof CheckoutListQuerySchema>) {
       const now = clock.now();
-      const { items, total } = await repo.list(db, { ...q, overdueAt: q.overdue ? now : undefined });
+      const { items, total } = await repo.list(db, { ...q, at: now });
       return { items: await views(items, now), total };
     },
 

@@ -3,13 +3,13 @@ import type { DbOrTx } from "../../db/client";
 import { jobs, jobSignoffs } from "./jobs.table";
 import { limitTables } from "../limit-tables/limit-tables.table";
 import { users } from "../users/users.table";
+import { jobState, jobStatusCondition } from "./job-state";
+import type { JobListStatus } from "../../../shared/jobs/jobs.schemas";
 
 export type JobRow = typeof jobs.$inferSelect;
 
-// A sheet is signed when it has a sign-off and no reading was taken after the latest one.
-const lastSignedAt = sql<Date | null>`(select max(s.signed_at) from job_signoffs s where s.job_id = ${jobs.id})`;
-const lastReadingAt = sql`(select max(r.taken_at) from readings r where r.job_id = ${jobs.id})`;
-const signedCondition = sql`(${lastSignedAt} is not null and (${lastReadingAt} is null or ${lastReadingAt} <= ${lastSignedAt}))`;
+// A sheet is signed when it has a sign-off and no reading was taken after the latest one (job-state.ts).
+const state = jobState(jobs.id);
 
 const SORTS: Record<string, SQL[]> = {
   openedAt: [asc(jobs.openedAt)],
@@ -23,8 +23,8 @@ const summaryColumns = {
   openerName: users.name,
   tableName: limitTables.name,
   tableVersion: limitTables.version,
-  signed: sql<boolean>`${signedCondition}`,
-  signedAt: lastSignedAt,
+  signed: state.signed,
+  signedAt: state.lastSignedAt,
   readingCount: sql<number>`(select count(*)::int from readings r where r.job_id = ${jobs.id} and not exists (select 1 from readings x where x.supersedes_id = r.id))`,
 };
 
@@ -41,10 +41,10 @@ export const jobsRepository = {
     return row;
   },
 
-  async list(db: DbOrTx, q: { engineSerial?: string; status?: "open" | "signed"; mine?: boolean; sort: string; page: number; pageSize: number }, userId: string) {
+  async list(db: DbOrTx, q: { engineSerial?: string; status?: JobListStatus; mine?: boolean; sort: string; page: number; pageSize: number }, userId: string) {
     const where = and(
       q.engineSerial ? ilike(jobs.engineSerial, `%${q.engineSerial}%`) : undefined,
-      q.status === "signed" ? signedCondition : q.status === "open" ? sql`not ${signedCondition}` : undefined,
+      q.status ? jobStatusCondition(jobs.id, q.status) : undefined,
       q.mine ? sql`(${jobs.openedBy} = ${userId} or exists (select 1 from readings r where r.job_id = ${jobs.id} and r.taken_by = ${userId}))` : undefined,
     );
     const [items, [{ total }]] = await Promise.all([

@@ -17,7 +17,7 @@ export function jobsRoutes(deps: AppDeps) {
   const service = jobsService(deps);
 
   route(
-    { method: "get", path: "/api/jobs", summary: "Jobs (filters engineSerial, status open/signed, mine), newest first", access: "signedIn", query: JobListQuerySchema, response: pageOf(JobSummarySchema) },
+    { method: "get", path: "/api/jobs", summary: "Jobs (filters engineSerial, status open/awaiting_signature/signed, mine), newest first", access: "signedIn", query: JobListQuerySchema, response: pageOf(JobSummarySchema) },
     async ({ query, user }) => {
       const { items, total } = await jobsRepository.list(deps.db, query, user.id);
       return { items: items.map(toJobSummary), total };

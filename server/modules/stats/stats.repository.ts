@@ -1,7 +1,11 @@
 import { sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
+import { jobState } from "../jobs/job-state";
+import { notReturnedCount } from "../checkouts/checkouts.repository";
 
 type Row = Record<string, unknown>;
+/** Sheet states of the job aliased `j` (the same definition as the jobs list's status filter). */
+const sheet = jobState(sql`j.id`);
 const iso = (v: unknown) => (v == null ? null : new Date(String(v instanceof Date ? v.toISOString() : v)).toISOString());
 
 /** A job summary row: counts of readings and the last one; a sheet is open until an inspector signs it. */
@@ -26,11 +30,8 @@ export const statsRepository = {
     return Number((r.rows[0] as Row).n);
   },
 
-  /** Tools still out on check-out past the time they were due back. */
-  async notReturned(db: DbOrTx, at: Date): Promise<number> {
-    const r = await db.execute(sql`select count(*)::int as n from checkouts where returned_at is null and due_back_at < ${at.toISOString()}`);
-    return Number((r.rows[0] as Row).n);
-  },
+  /** Tools still out on check-out past the time they were due back (the custody list's ?overdue=true). */
+  notReturned: (db: DbOrTx, at: Date): Promise<number> => notReturnedCount(db, at),
 
   /** Tools the person holds on check-out, or owns. */
   async myToolIds(db: DbOrTx, userId: string) {
@@ -48,16 +49,16 @@ export const statsRepository = {
         (select count(*) from readings r where r.job_id = j.id) as readings,
         (select max(r.taken_at) from readings r where r.job_id = j.id) as last_reading_at
       from jobs j
-      where not exists (select 1 from job_signoffs s where s.job_id = j.id)
+      where ${sheet.open}
         and (j.opened_by = ${userId}::uuid or exists (select 1 from readings r where r.job_id = j.id and r.taken_by = ${userId}::uuid))
       order by coalesce((select max(r.taken_at) from readings r where r.job_id = j.id), j.opened_at) desc
       limit ${limit}`);
     return (r.rows as Row[]).map(jobSummary);
   },
 
-  /** Check sheets with readings and no sign-off. */
+  /** Check sheets with readings and no sign-off covering them (the jobs list's ?status=awaiting_signature). */
   async sheetsAwaitingSignature(db: DbOrTx, limit = 50) {
-    const where = sql`exists (select 1 from readings r where r.job_id = j.id) and not exists (select 1 from job_signoffs s where s.job_id = j.id)`;
+    const where = sheet.awaitingSignature;
     const [rows, count] = await Promise.all([
       db.execute(sql`
         select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at,

@@ -95,6 +95,18 @@ export const toolsRepository = {
       .orderBy(orderOf(sort), asc(tools.assetTag))) as ToolListRow[];
   },
 
+  /** Distinct non-blank locations, sorted case-insensitively (tools_location_idx). */
+  locations: async (db: DbOrTx) =>
+    (
+      await db
+        .selectDistinct({ location: tools.location })
+        .from(tools)
+        .where(sql`${tools.location} is not null and ${tools.location} <> ''`)
+        .orderBy(asc(tools.location))
+    )
+      .map((r) => r.location!)
+      .sort((a, b) => a.localeCompare(b, "en", { sensitivity: "base" })),
+
   insert: async (db: DbOrTx, values: typeof tools.$inferInsert) => (await db.insert(tools).values(values).returning())[0],
   update: async (db: DbOrTx, id: string, values: Partial<typeof tools.$inferInsert>) => (await db.update(tools).set(values).where(eq(tools.id, id)).returning())[0],
 

@@ -13,6 +13,7 @@ import {
   ToolActionResultSchema,
   ToolDetailSchema,
   ToolListQuerySchema,
+  ToolLocationsSchema,
   ToolStatusQuerySchema,
   ToolStatusResponseSchema,
   ToolSummarySchema,
@@ -31,7 +32,7 @@ export function toolsRoutes(deps: AppDeps) {
     {
       method: "get",
       path: "/api/tools",
-      summary: "The register: filter (status, family, kind, q, custodian, location, owner), sort, page; ?format=csv exports the current view (all pages)",
+      summary: "The register: filter (status, family, kind, q, custodian, location, owner, dueWithinDays, dueFrom/dueTo), sort, page; ?format=csv exports the current view (all pages)",
       access: "signedIn",
       query: ToolListQuerySchema,
       response: pageOf(ToolSummarySchema),
@@ -43,6 +44,10 @@ export function toolsRoutes(deps: AppDeps) {
       res.setHeader("Content-Disposition", `attachment; filename="tenthwise-register-${deps.clock.now().toISOString().slice(0, 10)}.csv"`);
       res.status(200).send(csv);
     },
+  );
+  // Before /api/tools/:assetTag, so "locations" is never read as a tag.
+  route({ method: "get", path: "/api/tools/locations", summary: "Every location named in the register, once each: the choices of the location filter", access: "signedIn", response: ToolLocationsSchema }, () =>
+    service.locations(),
   );
   route({ method: "post", path: "/api/tools", summary: "Register a tool (with the elements of a set)", access: "tools.write", body: CreateToolSchema, response: ToolDetailSchema }, ({ body, user }) =>
     service.create(body, user.id),

@@ -8,6 +8,7 @@ import { getFamilyRow, toFamily } from "../families/families.service";
 import { familiesRepository } from "../families/families.repository";
 import { TOOL_STATUSES } from "../../../shared/tools/tool-status";
 import {
+  STILL_IN_CALIBRATION,
   TOOL_CSV_COLUMNS,
   type CreateTool,
   type LifecycleChange,
@@ -20,6 +21,7 @@ import {
   type UpdateTool,
 } from "../../../shared/tools/tools.schemas";
 import type { Page } from "../../../shared/common/lists.schemas";
+import { addDays, calendarDate } from "../../../shared/common/dates";
 import { fromDb, fromDbOrNull, isoOrNull, toDb, toDbOrNull, unknownReference, type RegisterDeps } from "./register.common";
 import type { DbOrTx } from "../../db/client";
 
@@ -112,6 +114,22 @@ export function toolsCsv(rows: ToolSummary[]): string {
   });
 }
 
+/**
+ * The due-date filters as one test of a row, or null when none is asked for. dueWithinDays: still in
+ * calibration and due from today through today + N (shop calendar dates); dueFrom/dueTo: due in that range.
+ */
+function dueFilterOf(query: Pick<ToolListQuery, "dueWithinDays" | "dueFrom" | "dueTo">, today: string): ((t: ToolSummary) => boolean) | null {
+  const { dueWithinDays, dueFrom, dueTo } = query;
+  if (dueWithinDays === undefined && !dueFrom && !dueTo) return null;
+  const until = dueWithinDays === undefined ? null : addDays(today, dueWithinDays);
+  const stillIn = new Set<string>(STILL_IN_CALIBRATION);
+  return (t) =>
+    t.dueAt != null &&
+    (until == null || (stillIn.has(t.status) && t.dueAt >= today && t.dueAt <= until)) &&
+    (!dueFrom || t.dueAt >= dueFrom) &&
+    (!dueTo || t.dueAt <= dueTo);
+}
+
 export function toolsService(deps: RegisterDeps) {
   const { db, clock, defaultTimeZone } = deps;
   const ctx = () => statusContext(db, defaultTimeZone);
@@ -161,7 +179,8 @@ export function toolsService(deps: RegisterDeps) {
     const c = await ctx();
     const desc = query.sort.startsWith("-");
     const key = (desc ? query.sort.slice(1) : query.sort) as keyof typeof DERIVED_SORTS | SqlSortKey;
-    const derived = !!query.status?.length || query.usable !== undefined || !(key in SQL_SORTS);
+    const dueFilter = dueFilterOf(query, calendarDate(now, c.timeZone));
+    const derived = !!query.status?.length || query.usable !== undefined || !!dueFilter || !(key in SQL_SORTS);
 
     if (!derived && !opts.all) {
       const { items, total } = await toolsRepository.page(db, query, { key: key as SqlSortKey, desc }, query.page, query.pageSize);
@@ -176,6 +195,7 @@ export function toolsService(deps: RegisterDeps) {
     rows = [];
     if (query.status?.length) items = items.filter((t) => query.status!.includes(t.status));
     if (query.usable !== undefined) items = items.filter((t) => t.usable === query.usable);
+    if (dueFilter) items = items.filter(dueFilter);
     if (!sqlKey) {
       const value = DERIVED_SORTS[key as keyof typeof DERIVED_SORTS];
       // Array.prototype.sort is stable: equal keys keep asset-tag order in both directions.
@@ -189,6 +209,13 @@ export function toolsService(deps: RegisterDeps) {
   return {
     list,
     detail,
+
+    /** Every location named in the register, once each (case aside), sorted: the choices of the location filter. */
+    async locations() {
+      const seen = new Map<string, string>();
+      for (const l of await toolsRepository.locations(db)) if (!seen.has(l.toLowerCase())) seen.set(l.toLowerCase(), l);
+      return { items: [...seen.values()] };
+    },
 
     /** The whole current view (filters and sort, every page) as CSV. */
     async csv(query: ToolListQuery) {

@@ -10,6 +10,13 @@ import { useListParams } from "../../../lib/use-list-params";
 import type { Checkout, CheckoutListQuery } from "../../../../shared/checkouts/checkouts.schemas";
 import { useCheckouts } from "../api/checkouts";
 import { shortWhen } from "./format";
+import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
+
+const FILTER_KEYS = ["q", "overdue"] as const;
+const describeFilters = {
+  overdue: (v: string) => (v === "true" ? "Not returned by their due-back time" : "Not yet due back"),
+  q: (v: string) => `Search “${v}”`,
+};
 
 const col = createColumnHelper<Checkout>();
 const columns = [
@@ -50,8 +57,8 @@ const columns = [
 
 /** Who has what, since when, expected back; tools not back by their time stand out; prints as a list. */
 export function CustodyPage() {
-  const list = useListParams(["q", "overdue"] as const, { sort: "dueBackAt" });
-  const query: CheckoutListQuery = { open: "true", q: list.filters.q || undefined, overdue: list.filters.overdue === "true" ? "true" : undefined, page: list.page, pageSize: list.pageSize, sort: list.sort as CheckoutListQuery["sort"] };
+  const list = useListParams(FILTER_KEYS, { sort: "dueBackAt" });
+  const query: CheckoutListQuery = { open: "true", q: list.filters.q || undefined, overdue: (list.filters.overdue || undefined) as CheckoutListQuery["overdue"], page: list.page, pageSize: list.pageSize, sort: list.sort as CheckoutListQuery["sort"] };
   const rows = useCheckouts(query);
   const late = useCheckouts({ open: "true", overdue: "true", pageSize: 1 });
 
@@ -68,6 +75,14 @@ export function CustodyPage() {
         actions={<Button variant="secondary" onClick={() => window.print()}>Print list</Button>}
       />
       <p className="mb-2 hidden text-sm print:block">Printed {new Date().toLocaleString()}</p>
+      <FilterChips
+        className="mb-3"
+        filters={activeFilters(list.filters, describeFilters)}
+        onClear={(k) => list.clearFilters(k as (typeof FILTER_KEYS)[number])}
+        onClearAll={() => list.clearFilters()}
+        total={rows.data?.total}
+        noun={["tool out", "tools out"]}
+      />
       {rows.isError && <ErrorNote>{errorMessage(rows.error)}</ErrorNote>}
       <DataTable
         label="Tools out of the crib"

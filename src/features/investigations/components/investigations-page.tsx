@@ -9,6 +9,13 @@ import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { when } from "./format";
 import { InvestigationStatus } from "./investigation-status";
+import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
+
+const FILTER_KEYS = ["toolAssetTag", "status"] as const;
+const describeFilters = {
+  status: (v: string) => (v === "open" ? "Open" : v === "closed" ? "Closed" : v),
+  toolAssetTag: (v: string) => `Tool ${v}`,
+};
 
 const col = createColumnHelper<InvestigationSummary>();
 const PAGE_SIZE = 50;
@@ -37,13 +44,20 @@ const columns = [
 ];
 
 export function InvestigationsPage() {
-  const list = useListParams(["toolAssetTag", "status"] as const);
+  const list = useListParams(FILTER_KEYS);
   const q = useInvestigations({ toolAssetTag: list.filters.toolAssetTag, status: list.filters.status, page: list.page, pageSize: PAGE_SIZE });
   return (
     <div className="flex flex-col gap-4">
       <PageHeader
         title="Out-of-tolerance investigations"
         subtitle="Opened by themselves when a tool fails as found, fails a check, is lost or comes back damaged. Open ones first."
+      />
+      <FilterChips
+        filters={activeFilters(list.filters, describeFilters)}
+        onClear={(k) => list.clearFilters(k as (typeof FILTER_KEYS)[number])}
+        onClearAll={() => list.clearFilters()}
+        total={q.data?.total}
+        noun={["investigation", "investigations"]}
       />
       {q.isError && <ErrorNote>{errorMessage(q.error)}</ErrorNote>}
       <DataTable
@@ -64,8 +78,8 @@ export function InvestigationsPage() {
               aria-label="Filter by tool asset tag"
               placeholder="Tool asset tag"
               className="rounded-md border border-paper-line px-3 py-1.5"
-              defaultValue={list.filters.toolAssetTag}
-              onChange={(e) => list.setFilter("toolAssetTag", e.target.value.trim())}
+              value={list.filters.toolAssetTag}
+              onChange={(e) => list.setFilter("toolAssetTag", e.target.value)}
             />
             <select aria-label="Filter by status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
               <option value="">Open and closed</option>

@@ -2,7 +2,7 @@ import { Link, useNavigate } from "react-router-dom";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { createColumnHelper } from "@tanstack/react-table";
-import { CreateJobSchema, type CreateJobInput, type JobSummary } from "../../../../shared/jobs/jobs.schemas";
+import { CreateJobSchema, JOB_LIST_STATUS_LABELS, JOB_LIST_STATUSES, type CreateJobInput, type JobListStatus, type JobSummary } from "../../../../shared/jobs/jobs.schemas";
 import { useJobs, useOpenJob } from "../api/jobs";
 import { useLimitTables } from "../../limit-tables/api/limit-tables";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
@@ -12,6 +12,14 @@ import { Button } from "../../../components/ui/button";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { useCan } from "../../auth/api/auth";
+import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
+
+const FILTER_KEYS = ["engineSerial", "status", "mine"] as const;
+const describeFilters = {
+  status: (v: string) => JOB_LIST_STATUS_LABELS[v as JobListStatus] ?? v,
+  mine: () => "Mine",
+  engineSerial: (v: string) => `Engine serial contains “${v}”`,
+};
 
 const col = createColumnHelper<JobSummary>();
 const columns = [
@@ -25,10 +33,10 @@ const columns = [
 ];
 
 export function JobsPage() {
-  const list = useListParams(["engineSerial", "status", "mine"] as const, { sort: "-openedAt" });
+  const list = useListParams(FILTER_KEYS, { sort: "-openedAt" });
   const jobs = useJobs({
     engineSerial: list.filters.engineSerial || undefined,
-    status: (list.filters.status || undefined) as "open" | "signed" | undefined,
+    status: (list.filters.status || undefined) as JobListStatus | undefined,
     mine: (list.filters.mine || undefined) as "true" | undefined,
     page: list.page,
     pageSize: 50,
@@ -39,32 +47,46 @@ export function JobsPage() {
     <div>
       <PageHeader title="Check sheets" subtitle="One job per engine: every item measured, tied to the tools that measured it, then signed by an inspector." />
       <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
-        <DataTable
-          label="Jobs"
-          columns={columns}
-          data={jobs.data?.items ?? []}
-          total={jobs.data?.total ?? 0}
-          page={list.page}
-          pageSize={50}
-          onPageChange={list.setPage}
-          sorting={list.sorting}
-          onSortingChange={list.setSorting}
-          loading={jobs.isPending}
-          rowKey={(j) => j.id}
-          toolbar={
-            <>
-              <input aria-label="Engine serial" placeholder="Engine serial" className="rounded-md border border-paper-line px-3 py-1.5" defaultValue={list.filters.engineSerial} onChange={(e) => list.setFilter("engineSerial", e.target.value)} />
-              <select aria-label="Status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
-                <option value="">Open and signed</option>
-                <option value="open">Open</option>
-                <option value="signed">Signed</option>
-              </select>
-              <label className="flex items-center gap-1 text-sm">
-                <input type="checkbox" checked={list.filters.mine === "true"} onChange={(e) => list.setFilter("mine", e.target.checked ? "true" : "")} /> Mine
-              </label>
-            </>
-          }
-        />
+        <div className="min-w-0">
+          <FilterChips
+            className="mb-3"
+            filters={activeFilters(list.filters, describeFilters)}
+            onClear={(k) => list.clearFilters(k as (typeof FILTER_KEYS)[number])}
+            onClearAll={() => list.clearFilters()}
+            total={jobs.data?.total}
+            noun={["check sheet", "check sheets"]}
+          />
+          {jobs.isError && <ErrorNote>{errorMessage(jobs.error)}</ErrorNote>}
+          <DataTable
+            label="Jobs"
+            columns={columns}
+            data={jobs.data?.items ?? []}
+            total={jobs.data?.total ?? 0}
+            page={list.page}
+            pageSize={50}
+            onPageChange={list.setPage}
+            sorting={list.sorting}
+            onSortingChange={list.setSorting}
+            loading={jobs.isPending}
+            rowKey={(j) => j.id}
+            toolbar={
+              <>
+                <input aria-label="Engine serial" placeholder="Engine serial" className="rounded-md border border-paper-line px-3 py-1.5" value={list.filters.engineSerial} onChange={(e) => list.setFilter("engineSerial", e.target.value)} />
+                <select aria-label="Status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
+                  <option value="">Open and signed</option>
+                  {JOB_LIST_STATUSES.map((s) => (
+                    <option key={s} value={s}>
+                      {JOB_LIST_STATUS_LABELS[s]}
+                    </option>
+                  ))}
+                </select>
+                <label className="flex items-center gap-1 text-sm">
+                  <input type="checkbox" checked={list.filters.mine === "true"} onChange={(e) => list.setFilter("mine", e.target.checked ? "true" : "")} /> Mine
+                </label>
+              </>
+            }
+          />
+        </div>
         {canOpen && <OpenJobCard />}
       </div>
     </div>

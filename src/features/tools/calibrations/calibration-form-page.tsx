@@ -20,7 +20,9 @@ import { cx } from "../../../components/ui/cx";
 import { ApiError, errorMessage } from "../../../lib/api-client";
 import { decimalInput, fromLocalInput, toLocalInput, fileInputClass } from "../lib/form";
 import { len, when } from "../lib/format";
-import { liveCalibration, parseNumber, standardForCompute, type LiveContext, type PointText } from "../lib/live-calibration";
+import { liveCalibration, parseNumber, type LiveContext, type PointText } from "../lib/live-calibration";
+import { standardForCompute } from "../../../../shared/calibrations/calibration-compute";
+import { DECISION_RULES, DECISION_RULE_LABELS } from "../../../../shared/calibrations/decision-rules";
 import { LivePointCells, LiveSummary } from "./live-result";
 import { PointsTable } from "./calibration-history";
 import { ResultBadge, TurWarning } from "./result-badge";
@@ -221,7 +223,7 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
     // In the order they were ticked: the first one's certificate feeds the budget, as on the server.
     standards: v.standardIds.flatMap((id) => {
       const c = standardChoices.find((x) => x.s.id === id);
-      return c?.cert ? [standardForCompute(c.s, c.cert)] : [];
+      return c?.cert ? [standardForCompute({ standard: c.s, certificate: c.cert })] : [];
     }),
     limitedRange: v.limited && parseNumber(v.limitedMin) != null && parseNumber(v.limitedMax) != null ? { min: parseNumber(v.limitedMin)!, max: parseNumber(v.limitedMax)! } : null,
     performedAt: performedIso,
@@ -273,9 +275,12 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
             <TextField label="Performed at" type="datetime-local" error={e.performedAt?.message} {...form.register("performedAt")} />
             <TextField label="Temperature (°C)" {...decimalInput} error={e.temperatureC?.message} {...form.register("temperatureC")} />
             <TextField label="Humidity (% RH)" {...decimalInput} error={e.humidityPct?.message} {...form.register("humidityPct")} />
-            <SelectField label="Decision rule" hint="ILAC-G8: guarded accepts only within MPE − U." error={e.decisionRule?.message} {...form.register("decisionRule")}>
-              <option value="simple">Simple (± MPE)</option>
-              <option value="guarded">Guarded (± MPE − U)</option>
+            <SelectField label="Decision rule" hint="ILAC-G8: guarded acceptance keeps U inside the limit." error={e.decisionRule?.message} {...form.register("decisionRule")}>
+              {DECISION_RULES.map((r) => (
+                <option key={r} value={r}>
+                  {DECISION_RULE_LABELS[r]}
+                </option>
+              ))}
             </SelectField>
             <SelectField label="Performed" {...form.register("source")}>
               <option value="in_house">In-house</option>

@@ -8,10 +8,11 @@ import { Card, EmptyState, ErrorNote, Facts, Loading } from "../../../components
 import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
 import { day, len, signedLen, when } from "../lib/format";
+import { DECISION_RULE_LABELS } from "../../../../shared/calibrations/decision-rules";
 import { ReviewForm } from "./review-form";
 import { ResultBadge, TurWarning } from "./result-badge";
 
-/** Every calibration record of the tool, newest first; superseded records stay, marked. */
+/** Every calibration record of the tool, newest first as the server orders them (a correction leads the record it corrects); superseded records stay, marked. */
 export function CalibrationHistory({ tool }: { tool: ToolDetail }) {
   const cals = useCalibrations(tool.assetTag);
   return (
@@ -20,18 +21,13 @@ export function CalibrationHistory({ tool }: { tool: ToolDetail }) {
         <EmptyState>No calibration on record.</EmptyState>
       ) : (
         <ol className="flex flex-col gap-4" aria-label="Calibration records">
-          {newestFirst(cals.data.items).map((c, i) => (
+          {cals.data.items.map((c, i) => (
             <CalibrationRecord key={c.id} c={c} tool={tool} open={i === 0} />
           ))}
         </ol>
       )}
     </Card>
   );
-}
-
-/** Newest first; a correction usually repeats the date it corrects, so on a tie the later-signed record leads. */
-function newestFirst(items: Calibration[]): Calibration[] {
-  return [...items].sort((a, b) => Date.parse(b.performedAt) - Date.parse(a.performedAt) || Date.parse(b.createdAt) - Date.parse(a.createdAt));
 }
 
 function CalibrationRecord({ c, tool, open }: { c: Calibration; tool: ToolDetail; open: boolean }) {
@@ -57,7 +53,7 @@ function CalibrationRecord({ c, tool, open }: { c: Calibration; tool: ToolDetail
           ["As found", c.asFoundInTolerance ? "In tolerance" : <span className="font-semibold text-stop">Out of tolerance</span>],
           ["Next due", c.nextDueAt],
           ["Performed by", c.performedBy?.name ?? c.performedByName],
-          ["Decision rule", c.decisionRule === "guarded" ? "Guarded acceptance (|error| max MPE − U)" : "Simple acceptance (|error| max MPE)"],
+          ["Decision rule", DECISION_RULE_LABELS[c.decisionRule]],
           ["Environment", [c.temperatureC != null ? `${c.temperatureC} °C` : null, c.humidityPct != null ? `${c.humidityPct} % RH` : null].filter(Boolean).join(", ") || null],
           [
             "Standards used",

@@ -5,7 +5,7 @@ import { useChain } from "../api/calibrations";
 import { PageHeader, ErrorNote, Loading, Facts } from "../../../components/ui/layout";
 import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
-import { when } from "../lib/format";
+import { len, when } from "../lib/format";
 import { AccreditationBadge } from "../labs/labs-page";
 import { ResultBadge } from "./result-badge";
 
@@ -135,7 +135,7 @@ export function ChainPage() {
                           <Facts
                             items={[
                               ["Issued – due", `${cert.issuedAt} – ${cert.dueAt}`],
-                              ["Expanded uncertainty", `${cert.expandedUncertainty} (k = ${cert.coverageFactor}), in the standard's unit`],
+                              ["Expanded uncertainty", `U = ${len(cert.expandedUncertainty, s.unit)} (k = ${cert.coverageFactor})`],
                               [
                                 "File",
                                 cert.hasFile && cert.fileUrl ? (

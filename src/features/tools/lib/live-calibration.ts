@@ -2,12 +2,9 @@
 // signs with (computeCalibration → judgePoint, uncertaintyBudget,
 // calibrationResult; nextDueAt), fed with what the person has typed so far.
 // Nothing here is a second rule set: it only decides what is complete enough to judge.
-import { computeCalibration, type ComputedPoint, type ComputeCalibrationInput, type ComputePointInput, type ComputeStandard } from "../../../../shared/calibrations/calibration-compute";
+import { computeCalibration, type ComputedPoint, type ComputeCalibrationInput, type ComputePointInput } from "../../../../shared/calibrations/calibration-compute";
 import { DecisionRuleError, type CalibrationResult } from "../../../../shared/calibrations/decision-rules";
 import { nextDueAt } from "../../../../shared/calibrations/due-dates";
-import { dec } from "../../../../shared/common/decimal";
-import type { Certificate } from "../../../../shared/standards/standards.schemas";
-import type { LengthUnit } from "../../../../shared/common/units";
 
 /** One check point as typed in the form (text, so nothing is rounded while typing). */
 export interface PointText {
@@ -46,14 +43,6 @@ export function parseNumber(text: string | null | undefined): number | null {
   if (t === "" || !/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(t)) return null;
   const n = Number(t);
   return Number.isFinite(n) ? n : null;
-}
-
-/** A standard's certificate as the shared computation takes it (the server builds the same from its rows). */
-export function standardForCompute(standard: { unit: LengthUnit; nominal: number | null }, cert: Certificate): ComputeStandard {
-  const certifiedValues: NonNullable<ComputeStandard["certifiedValues"]> = [];
-  if (standard.nominal != null && cert.certifiedValue != null) certifiedValues.push({ nominal: standard.nominal, value: cert.certifiedValue });
-  for (const e of cert.elementValues ?? []) certifiedValues.push({ nominal: e.nominal, value: dec(e.nominal).plus(dec(e.deviation)) });
-  return { unit: standard.unit, expandedUncertainty: cert.expandedUncertainty, coverageFactor: cert.coverageFactor, certifiedValues };
 }
 
 const PROBLEMS: Record<string, string> = {
