@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { CalendarDateSchema, InstantSchema, LengthSchema, PageQuerySchema, UnitSchema, optionalText } from "../common/lists.schemas";
 import { DECISION_RULES } from "./decision-rules";
-import { AccreditationStateSchema } from "../labs/labs.schemas";
+import { AccreditationStateSchema, LabSchema } from "../labs/labs.schemas";
 
 export const DecisionRuleSchema = z.enum(DECISION_RULES);
 export const CALIBRATION_RESULTS = ["pass", "adjusted", "fail", "limited"] as const;
@@ -198,15 +198,7 @@ export const CheckResultSchema = CheckSchema.extend({
 export type CheckResult = z.infer<typeof CheckResultSchema>;
 
 /** GET /api/tools/:assetTag/chain: tool → calibration → standards → certificates → lab and accreditation → national institute. */
-export const ChainLabSchema = z.object({
-  id: z.string(),
-  name: z.string(),
-  accreditationBody: z.string().nullable(),
-  accreditationNumber: z.string().nullable(),
-  scope: z.string().nullable(),
-  accreditationExpiresAt: CalendarDateSchema.nullable(),
-  accreditation: AccreditationStateSchema,
-});
+export const ChainLabSchema = LabSchema.omit({ contact: true, createdAt: true });
 export const ChainSchema = z.object({
   tool: z.object({ assetTag: z.string(), description: z.string(), serialNumber: z.string(), unit: UnitSchema }),
   /** The calibration that counts now (null when none). */

@@ -52,12 +52,28 @@ describe("check sheets awaiting signature", () => {
     t.clock.set("2026-06-15T15:00:00Z");
   });
 
-  it("a mechanic's open check sheets on the overview are the jobs list's open sheets that are theirs", async () => {
+  it("a mechanic's open check sheets on the overview are the jobs list's open sheets that are theirs, a corrected signed sheet among them", async () => {
+    const table = await makeLimitTable(t.db, { items: [{ key: "visual", label: "Cylinder visual", kind: "visual" }] });
     const m = await t.agent("mechanic");
+    const i = await t.agent("inspector");
+    const own = (await m.post("/api/jobs", { limitTableId: table.id, engineSerial: "MINE-OWN" })).body;
+    const corrected = (await m.post("/api/jobs", { limitTableId: table.id, engineSerial: "MINE-CORRECTED" })).body;
+    const signed = (await m.post("/api/jobs", { limitTableId: table.id, engineSerial: "MINE-SIGNED" })).body;
+    for (const j of [corrected, signed]) {
+      await m.post(`/api/jobs/${j.id}/readings`, { itemKey: "visual", visualResult: "serviceable" });
+      expect((await i.post(`/api/jobs/${j.id}/sign`, { certificateNumber: "IA-MINE" })).status).toBe(200);
+    }
+    t.clock.set("2026-06-15T17:00:00Z");
+    const readingId = (await m.get(`/api/jobs/${corrected.id}`)).body.items[0].rows[0].reading.id;
+    expect((await m.post(`/api/readings/${readingId}/supersede`, { reason: "Wrong cylinder noted", visualResult: "serviceable" })).status).toBe(201);
+
     const mine = (await m.get("/api/stats/mine")).body.openJobs.map((j: { id: string }) => j.id).sort();
     const list = (await m.get("/api/jobs?status=open&mine=true&pageSize=200")).body;
+    expect(ids(list)).toEqual(expect.arrayContaining([own.id, corrected.id]));
+    expect(ids(list)).not.toContain(signed.id);
+    expect(mine).toEqual(ids(list));
     expect(list.total).toBe(mine.length);
-    expect(ids(list)).toEqual(mine);
+    t.clock.set("2026-06-15T15:00:00Z");
   });
 
   it("an unknown sheet status is bad input: 400 naming the allowed values", async () => {

@@ -1,14 +1,7 @@
 import { AppError, notFound, refused } from "../../http/errors";
 import type { OutboxMessage, OutboxMessageDetail } from "../../../shared/reminders/reminders.schemas";
+import type { CaughtMessage } from "../../dev-services/mail-catcher";
 
-interface CaughtMessage {
-  to: string[];
-  from: string;
-  subject: string;
-  sentAt: string;
-  text: string;
-  html: string | null;
-}
 
 // The outbox exists only where mail goes to the local catcher (npm start, tests);
 // with a real mail service the messages are in that service, not here.
