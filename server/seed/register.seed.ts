@@ -200,7 +200,7 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
   const yearly = (last: number) => [last + 730, last + 365, last].filter((d) => d <= 880);
   const specs: ToolSpec[] = [
     { tag: "MIC-0101", family: "mic01", description: "Outside micrometer 0-1 in", range: [0, 1], location: "Crib drawer A1", maker: CORVANE, model: "CV-25 (demo)", history: yearly(120) },
-    { tag: "MIC-0102", family: "mic01", description: "Outside micrometer 1-2 in", range: [1, 2], location: "Crib drawer A1", maker: CORVANE, model: "CV-50 (demo)", history: yearly(95) },
+    { tag: "MIC-0102", family: "mic12", description: "Outside micrometer 1-2 in", range: [1, 2], location: "Crib drawer A1", maker: CORVANE, model: "CV-50 (demo)", history: yearly(95), standards: ["SET-01", "GBS-01"] },
     { tag: "MIC-0103", family: "mic01", description: "Outside micrometer 0-1 in, ratchet stop", range: [0, 1], location: "Crib drawer A1", maker: OSTRAVA, history: yearly(210) },
     { tag: "MIC-0104", family: "mic01", description: "Outside micrometer 0-1 in, carbide faces", range: [0, 1], location: "Crib drawer A1", maker: CORVANE, model: "CV-25C (demo)", history: yearly(160) },
     { tag: "MIC-0105", family: "mic56", description: "Outside micrometer 5-6 in (reads telescoping gauges on the barrel bore)", range: [5, 6], location: "Crib drawer A4", maker: OSTRAVA, model: "OG-150 (demo)", history: yearly(75), standards: ["SET-03"] },

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { CalendarDateSchema, InstantSchema, LengthSchema, PageQuerySchema, UnitSchema, optionalText } from "../common/lists.schemas";
 import { DECISION_RULES } from "./decision-rules";
-import { AccreditationStateSchema, LabSchema } from "../labs/labs.schemas";
+import { LabSchema } from "../labs/labs.schemas";
 
 export const DecisionRuleSchema = z.enum(DECISION_RULES);
 export const CALIBRATION_RESULTS = ["pass", "adjusted", "fail", "limited"] as const;

@@ -36,6 +36,8 @@ export const InvestigationListQuerySchema = z.object({
   toolAssetTag: optionalText(60),
   status: z.enum(INVESTIGATION_STATUSES).optional(),
   jobId: uuid.optional(),
+  /** Only investigations with affected items still waiting for a disposition. */
+  awaitingDisposition: z.union([z.boolean(), z.enum(["true", "false"]).transform((v) => v === "true")]).optional(),
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(500).default(100),
 });

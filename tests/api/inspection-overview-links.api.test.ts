@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { makeLimitTable } from "../support/factories-inspection";
 import { makeUsableTool } from "../support/factories-crib";
+import * as inv from "../support/factories-investigations";
 
 // The counts on the overview lead to filtered lists (src/features/overview/components/links.ts); a count and
 // the list it opens must agree, whatever the sheets and investigations hold.
@@ -110,6 +111,31 @@ describe("open investigations", () => {
     expect(ofTool.body).toEqual([]);
     const allOfTool = await quality.get(`/api/investigations?toolAssetTag=${lostB.assetTag}`);
     expect(allOfTool.body.map((v: { id: string; status: string }) => [v.id, v.status])).toEqual([[b.investigationId, "closed"]]);
+  });
+
+  it("the count of investigations needing a disposition equals the list it opens, and a decided item takes its investigation off it", async () => {
+    const crib = await t.agent("crib");
+    const quality = await t.agent("quality");
+    const tool = await makeUsableTool(t.db);
+    const { table } = await inv.makeLimitTable(t.db);
+    const job = await inv.makeJob(t.db, table.id);
+    await inv.makeReading(t.db, { jobId: job.id, itemKey: "stem", kind: "journal", values: ["0.4337", "0.4338"], takenAt: t.clock.now(), toolIds: [tool.id] });
+    const lost = (await crib.post(`/api/tools/${tool.assetTag}/lost`, { reason: "Left on the engine stand; not found" })).body;
+    const needing = async () => (await quality.get("/api/stats/inspection")).body.investigationsNeedingDisposition.length;
+    const listed = async () => Number((await quality.get("/api/investigations?status=open&awaitingDisposition=true")).headers["x-total-count"]);
+    const before = await needing();
+    expect(await listed()).toBe(before);
+    expect((await quality.get("/api/investigations?status=open&awaitingDisposition=true")).body.map((v: { id: string }) => v.id)).toContain(lost.investigationId);
+
+    const detail = (await quality.get(`/api/investigations/${lost.investigationId}`)).body;
+    const decided = await quality.post(`/api/investigations/${lost.investigationId}/dispositions`, {
+      itemIds: detail.items.map((i: { id: string }) => i.id),
+      kind: "no_impact",
+      rationale: "Stem read 0.0003 in inside both limits; the part was also checked with a second micrometer in calibration.",
+    });
+    expect(decided.status).toBe(201);
+    expect(await needing()).toBe(before - 1);
+    expect(await listed()).toBe(before - 1);
   });
 
   it("an unknown investigation status is bad input: 400", async () => {

@@ -60,6 +60,22 @@ describe("the demo register", () => {
     expect(Object.keys(shared.toolIds as object)).toContain("MIC-0104");
   });
 
+  it("every demo micrometer sits in the family of its own range: MIC-0102 (1-2 in) is calibrated at 1-2 in sizes, never 0-1 in", async () => {
+    const a = await t.agent("auditor");
+    const mic = (await a.get("/api/tools?kind=outside_micrometer&pageSize=500")).body.items as { assetTag: string; rangeMin: number; rangeMax: number; unit: string; familyId: string }[];
+    const families = new Map(((await a.get("/api/families?pageSize=500")).body.items as { id: string; name: string }[]).map((f) => [f.id, f.name]));
+    const mic0102 = mic.find((m) => m.assetTag === "MIC-0102")!;
+    expect(families.get(mic0102.familyId)).toBe("Outside micrometer 1-2 in");
+    for (const m of mic) {
+      const range = m.unit === "in" ? `${m.rangeMin}-${m.rangeMax} in` : `${m.rangeMin}-${m.rangeMax} mm`;
+      expect(families.get(m.familyId), m.assetTag).toContain(`Outside micrometer ${range}`);
+    }
+    const [last] = (await a.get("/api/tools/MIC-0102/calibrations")).body.items as { points: { nominal: number }[] }[];
+    const sizes = last.points.map((p) => p.nominal);
+    expect(Math.min(...sizes)).toBeGreaterThanOrEqual(1);
+    expect(Math.max(...sizes)).toBeLessThanOrEqual(2);
+  });
+
   it("has at least 60 tools, every status and every kind", async () => {
     const a = await t.agent("auditor");
     const all = (await a.get("/api/tools?pageSize=500")).body;

@@ -44,6 +44,49 @@ describe("the tool register in the browser", () => {
     await context.close();
   });
 
+  it("a dashboard link to tools due within 30 days lands on the register filtered on the server, shows the filter, and clearing it lists every tool again", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "crib");
+    await page.goto("/tools?dueWithinDays=30&sort=dueAt");
+    const table = registerTable(page);
+    const chip = page.getByRole("group", { name: "Due filter" });
+    await expect(chip.textContent()).resolves.toMatch(/Due: within 30 days/);
+    // MIC-0201 is due soon in the demo shop; MIC-0110 is overdue and MIC-0101 is months from due.
+    await table.getByRole("link", { name: "MIC-0201" }).waitFor();
+    await expect(table.getByRole("link", { name: "MIC-0110" }).count()).resolves.toBe(0);
+    await expect(table.getByRole("link", { name: "MIC-0101" }).count()).resolves.toBe(0);
+    const statuses = await table.locator("tbody tr td:nth-child(2)").allTextContents();
+    expect(statuses.every((s) => /Due soon|In calibration|Limited/.test(s))).toBe(true);
+    const csv = await page.getByRole("link", { name: "Export CSV" }).getAttribute("href");
+    expect(csv).toMatch(/dueWithinDays=30/);
+    await b.screenshot(page, "register-due-within-30");
+
+    await chip.getByRole("button", { name: "Clear due-date filter" }).click();
+    await page.waitForURL((u) => !u.search.includes("dueWithinDays"));
+    await table.getByRole("link", { name: "MIC-0110" }).waitFor();
+    await expect(chip.count()).resolves.toBe(0);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("the location filter offers the shop's locations in a list and keeps the choice in the address", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "mechanic");
+    await page.goto("/tools");
+    const table = registerTable(page);
+    await table.getByRole("link", { name: "MIC-0101" }).waitFor();
+    const location = page.getByLabel("Filter by location");
+    await expect(location.evaluate((el) => el.tagName)).resolves.toBe("SELECT");
+    await expect.poll(() => location.locator("option").allTextContents()).toContain("Quarantine shelf");
+    await location.selectOption("Quarantine shelf");
+    await page.waitForURL(/location=Quarantine(\+|%20)shelf/);
+    await table.getByRole("link", { name: "MIC-0101" }).waitFor({ state: "detached" });
+    await expect(table.getByRole("link", { name: "MIC-0111" }).count()).resolves.toBe(1);
+    await b.screenshot(page, "register-location-filter");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
   it("the page of an overdue tool says, large, do not use, and why", async () => {
     const { page, context, errors } = await b.newPage();
     await b.signIn(page, "mechanic");
@@ -141,6 +184,10 @@ describe("the tool register in the browser", () => {
     await page.getByRole("link", { name: "Back to MIC-0103" }).click();
     const history = page.getByRole("list", { name: "Calibration records" });
     await expect(history.getByRole("listitem").first().textContent()).resolves.toMatch(/Adjusted/);
+    // The decision rule in plain words, without symbols the shop font lacks.
+    const newest = (await history.getByRole("listitem").first().textContent()) ?? "";
+    expect(newest).toMatch(/Simple acceptance: pass when the error is within ± MPE/);
+    expect(newest).not.toMatch(/[≤≥]|\|error\|/);
     expect(errors).toEqual([]);
     await context.close();
   });
@@ -159,6 +206,8 @@ describe("the tool register in the browser", () => {
     expect(text).toMatch(/Meridian Dimensional Lab/);
     expect(text).toMatch(/National measurement institute/);
     expect(text).toMatch(/National Length Institute of Harrow/);
+    // The certificate's U is shown in the standard's own unit.
+    expect(text).toMatch(/Expanded uncertaintyU = 0\.0000\d+ in \(k = 2\)/);
     const href = await chain.getByRole("link", { name: /Download certificate MDL-DEMO-GBS-01-/ }).getAttribute("href");
     const file = await page.request.get(href!);
     expect(file.status()).toBe(200);
@@ -238,7 +287,9 @@ describe("the tool register in the browser", () => {
     }
     await page.getByRole("button", { name: "Sign the calibration record" }).click();
     const refusal = page.getByRole("alert").filter({ hasText: "not in calibration" });
-    await expect(refusal.textContent()).resolves.toMatch(/A reference standard you chose was not in calibration on the calibration date\. GBS-01/);
+    // No certificate of GBS-01 had been issued yet: the refusal says so rather than that one ran out.
+    await expect(refusal.textContent()).resolves.toMatch(/A reference standard you chose was not in calibration on the calibration date\. No certificate of GBS-01 covers 2023-01-10/);
+    await expect(refusal.textContent()).resolves.not.toMatch(/ran out/);
     await expect(page.getByRole("status", { name: "Saved calibration" }).count()).resolves.toBe(0);
     await b.screenshot(page, "calibration-refused");
     expect(errors).toEqual([]);

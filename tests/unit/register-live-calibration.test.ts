@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { liveCalibration, parseNumber, type LiveContext, type PointText } from "../../src/features/tools/lib/live-calibration";
+import { standardForCompute } from "../../shared/calibrations/calibration-compute";
 
 // The calibration form's live answer must be the server's answer: these checks
 // drive the form's wrapper with typed text and compare with the published values.
@@ -57,6 +58,27 @@ describe("the calibration form's live verdicts", () => {
     const expected = 2 * Math.sqrt(0.000002 ** 2 + (0.0001 / (2 * Math.sqrt(3))) ** 2);
     expect(expected).toBeCloseTo(0.0000579, 7);
     expect(p.uncertainty).toBe(0.000058);
+  });
+
+  it("a gauge block's certified size is its nominal plus the deviation on its certificate, the same from the server's decimal strings and the form's numbers (arithmetic, no source)", () => {
+    const fromRows = standardForCompute({
+      standard: { unit: "in", nominal: null },
+      certificate: { expandedUncertainty: "0.000004", coverageFactor: "2", certifiedValue: null, elementValues: [{ nominal: "0.5", deviation: "0.000003" }] },
+    });
+    const fromApi = standardForCompute({
+      standard: { unit: "in", nominal: null },
+      certificate: { expandedUncertainty: 0.000004, coverageFactor: 2, certifiedValue: null, elementValues: [{ nominal: 0.5, deviation: 0.000003 }] },
+    });
+    for (const std of [fromRows, fromApi]) {
+      expect(std.expandedUncertainty).toBe(0.000004);
+      // An as-found of 0.5001 against a block that is really 0.500003 in is 0.000097 in large, not 0.0001.
+      const live = liveCalibration([point({ asFound: "0.5001" })], { ...ctx, standards: [std] });
+      expect(live.points[0].computed?.referenceSource).toBe("certified");
+      expect(live.points[0].computed?.errorAsFound).toBe(0.000097);
+    }
+    // A setting standard's certified length stands for its nominal.
+    const setting = standardForCompute({ standard: { unit: "mm", nominal: 25 }, certificate: { expandedUncertainty: 0.0005, coverageFactor: 2, certifiedValue: 25.0004 } });
+    expect(setting.certifiedValues?.map((c) => [Number(c.nominal), Number(c.value)])).toEqual([[25, 25.0004]]);
   });
 
   it("the next due date is the calendar date of the calibration in the shop's zone plus the interval (api.md, no grace period)", () => {

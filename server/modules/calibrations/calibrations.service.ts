@@ -142,7 +142,7 @@ export function calibrationsService(deps: RegisterDeps) {
       const why = details.map((d) => (d.dueAt ? `the certificate of ${d.assetTag} ran out ${d.dueAt}` : `no certificate of ${d.assetTag} covers ${date}`)).join("; ");
       throw refused(
         "standard_not_in_calibration",
-        `${why[0].toUpperCase()}${why.slice(1)}: ${lapsed.length === 1 ? "it was" : "they were"} not in calibration on ${date}; use a standard in calibration.`,
+        `${why[0].toUpperCase()}${why.slice(1)}; use a standard in calibration on ${date}.`,
         details,
       );
     }

@@ -243,10 +243,15 @@ export async function findReading(tx: DbOrTx, id: string) {
   return (await tx.select().from(readings).where(eq(readings.id, id)))[0] ?? null;
 }
 
-/** Investigations for the list, open first then newest; filters on the tool (or standard, or a cascaded tool), status and job. */
-export async function listInvestigations(tx: DbOrTx, f: { toolAssetTag?: string; status?: "open" | "closed"; jobId?: string; page: number; pageSize: number }) {
+/** How many affected items of an investigation still wait for a disposition (one definition for lists and dashboards). */
+export const undisposedItemsOf = (investigationId: SQL | typeof investigations.id) =>
+  sql`(select count(*) from investigation_items ui where ui.investigation_id = ${investigationId} and not exists (select 1 from dispositions ud where ud.investigation_item_id = ui.id))`;
+
+/** Investigations for the list, open first then newest; filters on the tool (or standard, or a cascaded tool), status, job and pending dispositions. */
+export async function listInvestigations(tx: DbOrTx, f: { toolAssetTag?: string; status?: "open" | "closed"; jobId?: string; awaitingDisposition?: boolean; page: number; pageSize: number }) {
   const conds: SQL[] = [];
   if (f.status) conds.push(eq(investigations.status, f.status));
+  if (f.awaitingDisposition !== undefined) conds.push(f.awaitingDisposition ? sql`${undisposedItemsOf(investigations.id)} > 0` : sql`${undisposedItemsOf(investigations.id)} = 0`);
   if (f.toolAssetTag) {
     const tag = f.toolAssetTag;
     conds.push(

@@ -2,6 +2,7 @@ import { sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { jobState } from "../jobs/job-state";
 import { notReturnedCount } from "../checkouts/checkouts.repository";
+import { undisposedItemsOf } from "../investigations/investigations.repository";
 
 type Row = Record<string, unknown>;
 /** Sheet states of the job aliased `j` (the same definition as the jobs list's status filter). */
@@ -72,7 +73,7 @@ export const statsRepository = {
 
   /** Open investigations with affected items that have no disposition yet. */
   async investigationsNeedingDisposition(db: DbOrTx, limit = 50) {
-    const pending = sql`(select count(*) from investigation_items i where i.investigation_id = v.id and not exists (select 1 from dispositions d where d.investigation_item_id = i.id))`;
+    const pending = undisposedItemsOf(sql`v.id`);
     const [rows, count] = await Promise.all([
       db.execute(sql`
         select v.id, t.asset_tag as tool_tag, s.asset_tag as standard_tag, v.trigger, v.opened_at, ${pending}::int as pending

@@ -30,7 +30,7 @@ export const feature: FeatureModule = {
   nav: [
     { to: "/crib", label: "Crib counter", group: "work", order: 20, permission: "checkouts.write" },
     { to: "/crib/custody", label: "Custody board", group: "work", order: 21, permission: "checkouts.write" },
-    { to: "/crib/shipments", label: "Outside labs shipments", group: "work", order: 22, permission: "shipments.write" },
+    { to: "/crib/shipments", label: "Lab shipments", group: "work", order: 22, permission: "shipments.write" },
     { to: "/crib/labels", label: "Labels", group: "work", order: 23, permission: "labels.print" },
     { to: "/my-tools", label: "My tools", group: "work", order: 30, roles: TOOL_HOLDERS },
     { to: "/scan", label: "Scan a tool", group: "work", order: 31 },

@@ -13,6 +13,7 @@ export interface InvestigationListParams {
   toolAssetTag?: string;
   status?: string;
   jobId?: string;
+  awaitingDisposition?: string;
   page: number;
   pageSize?: number;
 }

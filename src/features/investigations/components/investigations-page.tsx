@@ -11,10 +11,11 @@ import { when } from "./format";
 import { InvestigationStatus } from "./investigation-status";
 import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
 
-const FILTER_KEYS = ["toolAssetTag", "status"] as const;
+const FILTER_KEYS = ["toolAssetTag", "status", "awaitingDisposition"] as const;
 const describeFilters = {
   status: (v: string) => (v === "open" ? "Open" : v === "closed" ? "Closed" : v),
   toolAssetTag: (v: string) => `Tool ${v}`,
+  awaitingDisposition: (v: string) => (v === "true" ? "Awaiting a disposition" : "Every item dispositioned"),
 };
 
 const col = createColumnHelper<InvestigationSummary>();
@@ -45,7 +46,7 @@ const columns = [
 
 export function InvestigationsPage() {
   const list = useListParams(FILTER_KEYS);
-  const q = useInvestigations({ toolAssetTag: list.filters.toolAssetTag, status: list.filters.status, page: list.page, pageSize: PAGE_SIZE });
+  const q = useInvestigations({ toolAssetTag: list.filters.toolAssetTag, status: list.filters.status, awaitingDisposition: list.filters.awaitingDisposition, page: list.page, pageSize: PAGE_SIZE });
   return (
     <div className="flex flex-col gap-4">
       <PageHeader

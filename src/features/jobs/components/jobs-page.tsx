@@ -28,7 +28,17 @@ const columns = [
   col.accessor("workOrder", { header: "Work order", enableSorting: false }),
   col.accessor("limitTableName", { header: "Limits table", enableSorting: false, cell: (c) => `${c.getValue()} (v${c.row.original.limitTableVersion})` }),
   col.accessor("readingCount", { header: "Readings", enableSorting: false }),
-  col.accessor("status", { header: "Status", enableSorting: false, cell: (c) => (c.getValue() === "signed" ? <span className="font-semibold text-go">✓ Signed</span> : "Open") }),
+  col.accessor("status", {
+    header: "Status",
+    enableSorting: false,
+    // Open with readings on it is the list's "awaiting signature": an inspector has something to sign.
+    cell: (c) =>
+      c.getValue() === "signed" ? (
+        <span className="font-semibold text-go">✓ Signed</span>
+      ) : (
+        JOB_LIST_STATUS_LABELS[c.row.original.readingCount > 0 ? "awaiting_signature" : "open"]
+      ),
+  }),
   col.accessor("openedAt", { header: "Opened", cell: (c) => `${c.getValue().slice(0, 10)}${c.row.original.openedBy ? ` · ${c.row.original.openedBy.name}` : ""}` }),
 ];
 

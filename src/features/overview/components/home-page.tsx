@@ -69,7 +69,7 @@ function MechanicView() {
         <StatTile label="My tools" value={tools.length} to="/my-tools" />
         <StatTile label="Not usable" value={unusable} to="/my-tools" tone="stop" hint="Return or recalibrate" />
         <StatTile label="Due within 30 days" value={tools.filter((t) => t.usable && t.daysToDue != null && t.daysToDue <= 30).length} to="/my-tools" tone="caution" />
-        <StatTile label="My open check sheets" value={openJobs.length} to={links.openJobs} />
+        <StatTile label="My open check sheets" value={openJobs.length} to={links.myOpenJobs} />
       </TileRow>
       <div className="grid gap-4 xl:grid-cols-[3fr_2fr]">
         <Card title="My tools and their due dates">
@@ -138,7 +138,7 @@ function InspectionView() {
       </h2>
       <TileRow className="sm:grid-cols-3 xl:grid-cols-6">
         <StatTile label="Sheets awaiting signature" value={sheetsTotal} to={links.awaitingSignature} tone="caution" />
-        <StatTile label="Investigations needing a disposition" value={investigationsTotal} to={links.openInvestigations} tone="hold" />
+        <StatTile label="Investigations needing a disposition" value={investigationsTotal} to={links.investigationsAwaitingDisposition} tone="hold" />
       </TileRow>
       <div className="grid gap-4 xl:grid-cols-2">
         <JobsCard title="Check sheets awaiting signature" jobs={sheets} empty="Every sheet with readings is signed." total={sheetsTotal} allLink={links.awaitingSignature} />

@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
-import type { CreateTool, LifecycleChange, ToolActionResult, ToolDetail, ToolStatusResponse, ToolSummary } from "../../../../shared/tools/tools.schemas";
+import type { CreateTool, LifecycleChange, ToolActionResult, ToolDetail, ToolLocations, ToolStatusResponse, ToolSummary } from "../../../../shared/tools/tools.schemas";
 import type { Page } from "../../../../shared/common/lists.schemas";
 
 /** Register filters as they travel in the URL and to GET /api/tools. */
@@ -13,6 +13,11 @@ export interface ToolListParams {
   ownerType?: string;
   /** "false": every tool that may not be used, whatever the reason. */
   usable?: string;
+  /** Still in calibration and due within N days from today (dashboard links). */
+  dueWithinDays?: string;
+  /** Due on or after / on or before a calendar date. */
+  dueFrom?: string;
+  dueTo?: string;
   sort?: string;
   page: number;
   pageSize: number;
@@ -36,6 +41,10 @@ export const useTools = (p: ToolListParams) => useQuery(toolsQueryOptions(p));
 export function toolsCsvUrl(p: Omit<ToolListParams, "page" | "pageSize">): string {
   return `/api/tools${qs({ ...clean(p), format: "csv" })}`;
 }
+
+/** Every location named in the register: the choices of the location filter. */
+export const useToolLocations = () =>
+  useQuery({ queryKey: toolKeys.locations, queryFn: () => api.get<ToolLocations>("/api/tools/locations"), staleTime: 60_000 });
 
 export const toolQueryOptions = (tag: string) => queryOptions({ queryKey: toolKeys.detail(tag), queryFn: () => api.get<ToolDetail>(`/api/tools/${encodeURIComponent(tag)}`) });
 export const useTool = (tag: string) => useQuery(toolQueryOptions(tag));

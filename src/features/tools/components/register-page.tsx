@@ -2,10 +2,10 @@ import { useState } from "react";
 import { Link } from "react-router-dom";
 import { createColumnHelper } from "@tanstack/react-table";
 import { STATUS_LABELS, TOOL_STATUSES } from "../../../../shared/tools/tool-status";
-import { OWNER_TYPES, OWNER_TYPE_LABELS, type ToolSummary } from "../../../../shared/tools/tools.schemas";
+import { DUE_FILTERS, OWNER_TYPES, OWNER_TYPE_LABELS, type ToolSummary } from "../../../../shared/tools/tools.schemas";
 import { useCan, useCurrentUser } from "../../auth/api/auth";
 import { usePeople } from "../../users/api/users";
-import { toolsCsvUrl, useTools } from "../api/tools";
+import { toolsCsvUrl, useToolLocations, useTools } from "../api/tools";
 import { useAllFamilies } from "../api/families";
 import { PageHeader, ErrorNote } from "../../../components/ui/layout";
 import { DataTable } from "../../../components/ui/data-table";
@@ -17,7 +17,7 @@ import { useListParams } from "../../../lib/use-list-params";
 import { len } from "../lib/format";
 import { DebouncedInput } from "./debounced-input";
 
-const FILTERS = ["q", "status", "usable", "familyId", "location", "custodianId", "custodianName", "ownerType"] as const;
+const FILTERS = ["q", "status", "usable", "familyId", "location", "custodianId", "custodianName", "ownerType", ...DUE_FILTERS] as const;
 const PAGE_SIZE = 50;
 // On a phone the register opens with the columns that answer "may I use it?"; the chooser brings back the rest.
 const NARROW = () => window.matchMedia("(max-width: 639px)").matches;
@@ -58,7 +58,22 @@ export function RegisterPage() {
   const user = useCurrentUser();
   const canAdd = useCan("tools.write");
   const families = useAllFamilies();
-  const query = { q: f.q, status: f.status, usable: f.usable, familyId: f.familyId, location: f.location, custodianId: f.custodianId, ownerType: f.ownerType, sort: list.sort };
+  const locations = useToolLocations();
+  const query = {
+    q: f.q,
+    status: f.status,
+    usable: f.usable,
+    familyId: f.familyId,
+    location: f.location,
+    custodianId: f.custodianId,
+    ownerType: f.ownerType,
+    dueWithinDays: f.dueWithinDays,
+    dueFrom: f.dueFrom,
+    dueTo: f.dueTo,
+    sort: list.sort,
+  };
+  const location = locationOptions(locations.data?.items ?? [], f.location);
+  const due = dueFilterLabel(f);
   const tools = useTools({ ...query, page: list.page, pageSize: PAGE_SIZE });
   const filtered = FILTERS.some((k) => f[k]);
 
@@ -120,7 +135,14 @@ export function RegisterPage() {
                 </option>
               ))}
             </select>
-            <DebouncedInput aria-label="Filter by location" placeholder="Location" title="The whole location name, e.g. Crib A" className={cx(control, "w-32")} value={f.location} onValue={(v) => list.setFilter("location", v)} />
+            <select aria-label="Filter by location" className={cx(control, "max-w-[12rem]")} value={location.value} onChange={(e) => list.setFilter("location", e.target.value)}>
+              <option value="">Any location</option>
+              {location.choices.map((l) => (
+                <option key={l} value={l}>
+                  {l}
+                </option>
+              ))}
+            </select>
             <select aria-label="Filter by owner" className={control} value={f.ownerType} onChange={(e) => list.setFilter("ownerType", e.target.value)}>
               <option value="">Any owner</option>
               {OWNER_TYPES.map((o) => (
@@ -129,6 +151,7 @@ export function RegisterPage() {
                 </option>
               ))}
             </select>
+            {due && <FilterChip label="Due" value={due} clearLabel="Clear due-date filter" onClear={() => list.clearFilters(...DUE_FILTERS)} />}
             <CustodianFilter
               selected={f.custodianId ? { id: f.custodianId, name: f.custodianName || "selected person" } : null}
               onChange={(p) => list.update({ custodianId: p?.id ?? null, custodianName: p?.name ?? null })}
@@ -146,20 +169,39 @@ export function RegisterPage() {
   );
 }
 
+/** An active filter the toolbar has no control for (set by a link or a pick), with its own clear button. */
+function FilterChip({ label, value, clearLabel, onClear }: { label: string; value: string; clearLabel: string; onClear: () => void }) {
+  return (
+    <span role="group" aria-label={`${label} filter`} className="inline-flex min-h-10 items-center gap-2 rounded-md border border-brass/50 bg-brass-light/50 px-2 text-sm">
+      {label}: <strong>{value}</strong>
+      <button type="button" aria-label={clearLabel} className="min-h-8 min-w-8 px-1 font-bold" onClick={onClear}>
+        ✕
+      </button>
+    </span>
+  );
+}
+
+/** The due-date filter in words ("within 30 days", "2026-07-01 to 2026-07-31"), or null when none is set. */
+function dueFilterLabel(f: Record<(typeof DUE_FILTERS)[number], string>): string | null {
+  const parts: string[] = [];
+  if (f.dueWithinDays) parts.push(f.dueWithinDays === "0" ? "today (still in calibration)" : `within ${f.dueWithinDays} day${f.dueWithinDays === "1" ? "" : "s"} (still in calibration)`);
+  if (f.dueFrom && f.dueTo) parts.push(`${f.dueFrom} to ${f.dueTo}`);
+  else if (f.dueFrom) parts.push(`from ${f.dueFrom}`);
+  else if (f.dueTo) parts.push(`by ${f.dueTo}`);
+  return parts.length ? parts.join(", ") : null;
+}
+
+/** Locations to choose from and the one chosen (the filter ignores case); a location in the address stays choosable even if no tool is there now. */
+function locationOptions(known: string[], current: string): { choices: string[]; value: string } {
+  const match = known.find((l) => l.toLowerCase() === current.toLowerCase());
+  return current && !match ? { choices: [current, ...known], value: current } : { choices: known, value: match ?? "" };
+}
+
 /** Custodian filter: "in my custody" in one tap, or anyone found by name. */
 function CustodianFilter({ selected, onChange, me }: { selected: { id: string; name: string } | null; onChange: (p: { id: string; name: string } | null) => void; me: { id: string; name: string } }) {
   const [q, setQ] = useState("");
   const people = usePeople(q);
-  if (selected) {
-    return (
-      <span className="inline-flex min-h-10 items-center gap-2 rounded-md border border-brass/50 bg-brass-light/50 px-2 text-sm">
-        Custodian: <strong>{selected.id === me.id ? "me" : selected.name}</strong>
-        <button type="button" aria-label="Clear custodian filter" className="px-1 font-bold" onClick={() => onChange(null)}>
-          ✕
-        </button>
-      </span>
-    );
-  }
+  if (selected) return <FilterChip label="Custodian" value={selected.id === me.id ? "me" : selected.name} clearLabel="Clear custodian filter" onClear={() => onChange(null)} />;
   return (
     <span className="relative inline-flex items-center gap-2">
       <button type="button" className={cx(control, "text-sm")} onClick={() => onChange(me)}>
