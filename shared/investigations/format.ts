@@ -13,3 +13,9 @@ export function formatSignedLength(value: DecimalLike, unit: LengthUnit): string
   const d = dec(value);
   return `${d.gt(0) ? "+" : ""}${formatExactLength(d, unit)}`;
 }
+
+/** A length with its unit for reports and screens ("0.5003 in"); a dash when there is none, the bare number when the unit is unknown. */
+export const lengthWithUnit = (v: number | null | undefined, unit: LengthUnit | null | undefined) => (v == null ? "—" : unit ? `${formatExactLength(v, unit)} ${unit}` : String(v));
+
+/** The same signed, for errors and margins ("+0.0003 in"). */
+export const signedLengthWithUnit = (v: number | null | undefined, unit: LengthUnit | null | undefined) => (v == null ? "—" : unit ? `${formatSignedLength(v, unit)} ${unit}` : String(v));

@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { InstantSchema, UnitSchema, optionalText, PageQuerySchema } from "../common/lists.schemas";
-import { LimitItemSchema } from "../limit-tables/limit-tables.schemas";
+import { InstantSchema, optionalText, PageQuerySchema } from "../common/lists.schemas";
+import { LimitItemSchema, LimitTableSummarySchema } from "../limit-tables/limit-tables.schemas";
 import { ReadingViewSchema } from "../readings/readings.schemas";
 
 /** Open a job: an engine on a limits table revision (kept for the life of the job). */
@@ -89,17 +89,7 @@ export type SheetItem = z.infer<typeof SheetItemSchema>;
 
 /** GET /api/jobs/:id — the check sheet. */
 export const CheckSheetSchema = JobSummarySchema.extend({
-  limitTable: z.object({
-    id: z.string().uuid(),
-    name: z.string(),
-    engineModel: z.string(),
-    unit: UnitSchema,
-    sourceDocument: z.string(),
-    sourceRevision: z.string(),
-    version: z.number().int(),
-    isDemo: z.boolean(),
-    supersededById: z.string().uuid().nullable(),
-  }),
+  limitTable: LimitTableSummarySchema.pick({ id: true, name: true, engineModel: true, unit: true, sourceDocument: true, sourceRevision: true, version: true, isDemo: true, supersededById: true }),
   items: z.array(SheetItemSchema),
   signoffs: z.array(SignoffSchema),
   /** The sheet is locked: signed, and nothing corrected since. */

@@ -59,7 +59,8 @@ async function toError(res: Response): Promise<ApiError> {
 
 type Method = "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
 
-async function request<T>(method: Method, url: string, body?: unknown, retried = false): Promise<T> {
+/** The answer of a request that succeeded; a refusal is thrown as an ApiError. */
+async function send(method: Method, url: string, body?: unknown, retried = false): Promise<Response> {
   const headers: Record<string, string> = { Accept: "application/json" };
   let payload: BodyInit | undefined;
   if (body instanceof FormData) payload = body;
@@ -74,16 +75,29 @@ async function request<T>(method: Method, url: string, body?: unknown, retried =
     // A stale token (e.g. after the server restarted) is fetched again once.
     if (err.code === "csrf_token_invalid" && !retried) {
       csrfToken = null;
-      return request<T>(method, url, body, true);
+      return send(method, url, body, true);
     }
     throw err;
   }
+  return res;
+}
+
+async function request<T>(method: Method, url: string, body?: unknown): Promise<T> {
+  const res = await send(method, url, body);
   if (res.status === 204) return undefined as T;
   return (await res.json()) as T;
 }
 
+/** A list answered as a bare array with its full count in X-Total-Count, as the page { items, total }. */
+async function getWithTotal<T>(url: string): Promise<{ items: T[]; total: number }> {
+  const res = await send("GET", url);
+  const items = (await res.json()) as T[];
+  return { items, total: Number(res.headers.get("X-Total-Count") ?? items.length) };
+}
+
 export const api = {
   get: <T>(url: string) => request<T>("GET", url),
+  getWithTotal,
   post: <T>(url: string, body?: unknown) => request<T>("POST", url, body ?? {}),
   put: <T>(url: string, body?: unknown) => request<T>("PUT", url, body ?? {}),
   patch: <T>(url: string, body?: unknown) => request<T>("PATCH", url, body ?? {}),

@@ -115,11 +115,16 @@ describe("the quality overview in the browser", () => {
     await context.close();
   });
 
-  it("an auditor may export but sees no import and no interval analysis", async () => {
+  it("an auditor reads the interval analysis but records no decision, and may export but not import", async () => {
     const { page, context, errors } = await b.newPage();
     await b.signIn(page, "auditor");
     const nav = page.getByRole("navigation", { name: "Main" });
-    await expect(nav.getByRole("link", { name: "Interval analysis" }).count()).resolves.toBe(0);
+    await nav.getByRole("link", { name: "Interval analysis" }).click();
+    await page.getByRole("table").getByRole("link").first().click();
+    await page.waitForURL(/\/analysis\/intervals\/.+/);
+    await page.getByRole("heading", { name: "Reliability model (exponential, NCSL RP-1)" }).waitFor();
+    await expect(page.getByRole("heading", { name: "Record an interval decision" }).count()).resolves.toBe(0);
+    await expect(page.getByRole("button", { name: "Record decision" }).count()).resolves.toBe(0);
     await nav.getByRole("link", { name: "Import and export" }).click();
     await page.getByRole("link", { name: "Download the register (CSV)" }).waitFor();
     await expect(page.getByRole("button", { name: "Check the file" }).count()).resolves.toBe(0);

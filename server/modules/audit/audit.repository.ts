@@ -2,6 +2,7 @@ import { and, desc, eq, gte, lt, sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { auditEvents } from "./audit.table";
 import { users } from "../users/users.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export interface AuditEntry {
   actorId: string | null;
@@ -59,7 +60,7 @@ export const auditRepository = {
       f.fromInstant ? gte(auditEvents.at, f.fromInstant) : undefined,
       f.toInstantExclusive ? lt(auditEvents.at, f.toInstantExclusive) : undefined,
     );
-    const [items, [{ total }]] = await Promise.all([
+    return listPage(
       db
         .select({
           id: auditEvents.id,
@@ -77,10 +78,9 @@ export const auditRepository = {
         .where(where)
         .orderBy(desc(auditEvents.at), desc(auditEvents.id))
         .limit(f.pageSize)
-        .offset((f.page - 1) * f.pageSize),
+        .offset(pageOffset(f.page, f.pageSize)),
       db.select({ total: sql<number>`count(*)::int` }).from(auditEvents).where(where),
-    ]);
-    return { items, total };
+    );
   },
 
   /** Distinct record types on the trail, by a skip scan over the entity index (fast on millions of lines). */

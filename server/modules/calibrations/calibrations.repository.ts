@@ -5,6 +5,7 @@ import { standards } from "../standards/standards.table";
 import { setElements } from "../tools/tools.table";
 import { users } from "../users/users.table";
 import { labs } from "../labs/labs.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type CalibrationRow = typeof calibrations.$inferSelect;
 export type CalibrationPointRow = typeof calibrationPoints.$inferSelect;
@@ -21,17 +22,16 @@ export const calibrationsRepository = {
   /** A tool's calibrations, newest first. */
   async listForTool(db: DbOrTx, toolId: string, opts: { includeSuperseded: boolean; page: number; pageSize: number }) {
     const where = and(eq(calibrations.toolId, toolId), opts.includeSuperseded ? undefined : notSuperseded);
-    const [items, [{ total }]] = await Promise.all([
+    return listPage(
       db
         .select()
         .from(calibrations)
         .where(where)
         .orderBy(...NEWEST_FIRST)
         .limit(opts.pageSize)
-        .offset((opts.page - 1) * opts.pageSize),
+        .offset(pageOffset(opts.page, opts.pageSize)),
       db.select({ total: count() }).from(calibrations).where(where),
-    ]);
-    return { items, total };
+    );
   },
 
   /** Everything shown beside a set of calibrations: points (with element labels), standards, reviews, corrections, labs, people. */

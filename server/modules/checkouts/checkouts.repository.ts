@@ -7,6 +7,7 @@ import { families } from "../families/families.table";
 import { users } from "../users/users.table";
 import { standards } from "../standards/standards.table";
 import { intermediateChecks } from "../checks/checks.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type CheckoutRow = typeof checkouts.$inferSelect;
 export type ToolRow = typeof tools.$inferSelect;
@@ -144,16 +145,15 @@ export const checkoutsRepository = {
         : undefined,
     );
     const order = SORTS[f.sort ?? (f.open ? "dueBackAt" : "-issuedAt")];
-    const [items, [{ total }]] = await Promise.all([
-      viewQuery(db).where(where).orderBy(order, asc(checkouts.id)).limit(f.pageSize).offset((f.page - 1) * f.pageSize),
+    return listPage(
+      viewQuery(db).where(where).orderBy(order, asc(checkouts.id)).limit(f.pageSize).offset(pageOffset(f.page, f.pageSize)),
       db
         .select({ total: count() })
         .from(checkouts)
         .innerJoin(tools, eq(tools.id, checkouts.toolId))
         .innerJoin(person, eq(person.id, checkouts.userId))
         .where(where),
-    ]);
-    return { items, total };
+    );
   },
 
   /** Open checkouts held by a person. */

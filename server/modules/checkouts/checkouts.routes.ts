@@ -1,9 +1,9 @@
 import { Router, type NextFunction, type Request, type Response } from "express";
-import multer from "multer";
 import { z } from "zod";
 import type { AppDeps } from "../../app";
 import { defineRoutes } from "../../http/route";
 import { AppError } from "../../http/errors";
+import { isMulterError, singleFileUpload } from "../../http/upload";
 import { pageOf } from "../../../shared/common/lists.schemas";
 import {
   CheckoutListQuerySchema,
@@ -26,14 +26,13 @@ const PHOTO_LIMIT = 10 * 1024 * 1024;
  * fields (`zeroCheck` as JSON text), so one schema validates both.
  */
 function photoUpload() {
-  const single = multer({ storage: multer.memoryStorage(), limits: { fileSize: PHOTO_LIMIT, files: 1 } }).single("photo");
+  const single = singleFileUpload("photo", PHOTO_LIMIT, (err) =>
+    isMulterError(err) ? new AppError("invalid_input", 400, `The upload is not as expected: ${err.message}. Send one image in the field "photo".`) : undefined,
+  );
   return (req: Request, res: Response, next: NextFunction) => {
     // Nothing is read from strangers: the route answers 401 before any upload is parsed.
     if (!req.is("multipart/form-data") || !req.user) return next();
     single(req, res, (err?: unknown) => {
-      if (err instanceof multer.MulterError && err.code !== "LIMIT_FILE_SIZE") {
-        return next(new AppError("invalid_input", 400, `The upload is not as expected: ${err.message}. Send one image in the field "photo".`));
-      }
       if (err) return next(err);
       const fields = (req.body ?? {}) as Record<string, string>;
       let zeroCheck: unknown = undefined;

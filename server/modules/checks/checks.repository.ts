@@ -3,6 +3,7 @@ import type { DbOrTx } from "../../db/client";
 import { intermediateChecks } from "./checks.table";
 import { standards } from "../standards/standards.table";
 import { users } from "../users/users.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type CheckRow = typeof intermediateChecks.$inferSelect;
 
@@ -11,11 +12,10 @@ export const checksRepository = {
   insert: async (db: DbOrTx, values: typeof intermediateChecks.$inferInsert) => (await db.insert(intermediateChecks).values(values).returning())[0],
   async listForTool(db: DbOrTx, toolId: string, page: number, pageSize: number) {
     const where = eq(intermediateChecks.toolId, toolId);
-    const [items, [{ total }]] = await Promise.all([
-      db.select().from(intermediateChecks).where(where).orderBy(desc(intermediateChecks.performedAt)).limit(pageSize).offset((page - 1) * pageSize),
+    return listPage(
+      db.select().from(intermediateChecks).where(where).orderBy(desc(intermediateChecks.performedAt)).limit(pageSize).offset(pageOffset(page, pageSize)),
       db.select({ total: count() }).from(intermediateChecks).where(where),
-    ]);
-    return { items, total };
+    );
   },
   async names(db: DbOrTx, rows: CheckRow[]) {
     const userIds = [...new Set(rows.map((r) => r.performedBy).filter((x): x is string => !!x))];

@@ -2,6 +2,7 @@ import { and, asc, count, eq, ilike, sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { families } from "./families.table";
 import { tools } from "../tools/tools.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type FamilyRow = typeof families.$inferSelect;
 
@@ -16,17 +17,16 @@ export const familiesRepository = {
   },
   async list(db: DbOrTx, opts: { q?: string; kind?: FamilyRow["kind"]; page: number; pageSize: number }) {
     const where = and(opts.q ? ilike(families.name, `%${opts.q}%`) : undefined, opts.kind ? eq(families.kind, opts.kind) : undefined);
-    const [items, [{ total }]] = await Promise.all([
+    return listPage(
       db
         .select({ family: families, toolCount })
         .from(families)
         .where(where)
         .orderBy(asc(families.name))
         .limit(opts.pageSize)
-        .offset((opts.page - 1) * opts.pageSize),
+        .offset(pageOffset(opts.page, opts.pageSize)),
       db.select({ total: count() }).from(families).where(where),
-    ]);
-    return { items, total };
+    );
   },
   insert: async (db: DbOrTx, values: typeof families.$inferInsert) => (await db.insert(families).values(values).returning())[0],
   update: async (db: DbOrTx, id: string, values: Partial<typeof families.$inferInsert>) =>

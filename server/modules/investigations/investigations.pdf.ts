@@ -1,22 +1,11 @@
-import { createRequire } from "node:module";
-import PDFDocument from "pdfkit";
-import type { LengthUnit } from "../../../shared/common/units";
-import { formatExactLength, formatSignedLength } from "../../../shared/investigations/format";
+import { newPdf, printedInstant } from "../../platform/pdf";
+import { lengthWithUnit, signedLengthWithUnit } from "../../../shared/investigations/format";
 import { DISPOSITION_LABELS, INVESTIGATION_CAUTIONS, TRIGGER_LABELS, type InvestigationDetail, type InvestigationItem } from "../../../shared/investigations/investigations.schemas";
 
-const require = createRequire(import.meta.url);
-const FONT = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-400-normal.woff");
-const FONT_BOLD = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-700-normal.woff");
+const when = (iso: string | null, tz: string) => (iso ? printedInstant(iso, tz, { seconds: true }) : "—");
 
-const when = (iso: string | null, tz: string) =>
-  iso
-    ? new Intl.DateTimeFormat("en-CA", { timeZone: tz, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit", hour12: false })
-        .format(new Date(iso))
-        .replace(",", "")
-    : "—";
-
-const len = (v: number | null, unit: LengthUnit | null) => (v == null ? "—" : unit ? `${formatExactLength(v, unit)} ${unit}` : String(v));
-const signedLen = (v: number | null, unit: LengthUnit | null) => (v == null ? "—" : unit ? `${formatSignedLength(v, unit)} ${unit}` : String(v));
+const len = lengthWithUnit;
+const signedLen = signedLengthWithUnit;
 
 function itemTitle(i: InvestigationItem): string {
   if (i.kind === "calibration") return `Calibration of ${i.toolAssetTag ?? ""} on ${i.takenAt?.slice(0, 10) ?? ""}`;
@@ -30,12 +19,7 @@ function itemTitle(i: InvestigationItem): string {
  * determinations).
  */
 export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date, tz: string): Promise<Buffer> {
-  const doc = new PDFDocument({ size: "LETTER", margin: 48, info: { Title: `Investigation ${inv.toolAssetTag ?? ""}`, Author: "Tenthwise" } });
-  doc.registerFont("body", FONT);
-  doc.registerFont("bold", FONT_BOLD);
-  const chunks: Buffer[] = [];
-  doc.on("data", (c: Buffer) => chunks.push(c));
-  const done = new Promise<Buffer>((resolve) => doc.on("end", () => resolve(Buffer.concat(chunks))));
+  const { doc, done } = newPdf(`Investigation ${inv.toolAssetTag ?? ""}`, { margin: 48 });
 
   const heading = (text: string) => doc.moveDown(0.6).font("bold").fontSize(12).text(text).font("body").fontSize(9.5);
   const fact = (k: string, v: string) => doc.font("bold").text(`${k}: `, { continued: true }).font("body").text(v);

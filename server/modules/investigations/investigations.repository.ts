@@ -18,6 +18,7 @@ import {
   users,
 } from "../../db/schema";
 import { dispositions, investigationItems, investigations } from "./investigations.table";
+import { pageOffset } from "../../db/paging";
 
 export type InvestigationRow = typeof investigations.$inferSelect;
 export type InvestigationItemRow = typeof investigationItems.$inferSelect;
@@ -277,7 +278,7 @@ export async function listInvestigations(tx: DbOrTx, f: { toolAssetTag?: string;
     .where(where)
     .orderBy(sql`case when ${investigations.status} = 'open' then 0 else 1 end`, desc(investigations.openedAt), desc(investigations.id))
     .limit(f.pageSize)
-    .offset((f.page - 1) * f.pageSize);
+    .offset(pageOffset(f.page, f.pageSize));
   return { total, rows };
 }
 

@@ -1,20 +1,12 @@
-import { createRequire } from "node:module";
-import PDFDocument from "pdfkit";
 import { formatLength, type LengthUnit } from "../../../shared/common/units";
 import { formatClearance } from "../../../shared/inspection/sizes";
 import { FLAG_LABELS, type ReadingFlag } from "../../../shared/readings/readings.schemas";
 import { STATUS_LABELS, type ToolStatus } from "../../../shared/tools/tool-status";
 import type { CheckSheet, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
 import { CAUTIONS } from "../../../shared/common/cautions";
+import { newPdf, printedInstant } from "../../platform/pdf";
 
-const require = createRequire(import.meta.url);
-const FONT = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-400-normal.woff");
-const FONT_BOLD = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-700-normal.woff");
-
-/** The same three sentences the Cautions component shows. */
-
-const when = (iso: string, tz: string) =>
-  new Intl.DateTimeFormat("en-CA", { timeZone: tz, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", hour12: false }).format(new Date(iso)).replace(",", "");
+const when = printedInstant;
 
 const COLS = [
   { key: "item", title: "Item", w: 118 },
@@ -52,12 +44,7 @@ function rowCells(item: SheetItem, row: SheetRow, unit: LengthUnit, tz: string):
 
 /** The check sheet as a printable PDF: items, values, sizes, clearances, verdicts, tools with due dates, who measured, who signed, cautions. */
 export function writeCheckSheetPdf(sheet: CheckSheet, printedAt: Date, tz: string): Promise<Buffer> {
-  const doc = new PDFDocument({ size: "LETTER", margin: 36, info: { Title: `Check sheet ${sheet.engineSerial}`, Author: "Tenthwise" } });
-  doc.registerFont("body", FONT);
-  doc.registerFont("bold", FONT_BOLD);
-  const chunks: Buffer[] = [];
-  doc.on("data", (c: Buffer) => chunks.push(c));
-  const done = new Promise<Buffer>((resolve) => doc.on("end", () => resolve(Buffer.concat(chunks))));
+  const { doc, done } = newPdf(`Check sheet ${sheet.engineSerial}`, { margin: 36 });
   const unit = sheet.limitTable.unit;
   const left = doc.page.margins.left;
   const bottom = () => doc.page.height - doc.page.margins.bottom;

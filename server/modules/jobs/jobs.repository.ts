@@ -5,6 +5,7 @@ import { limitTables } from "../limit-tables/limit-tables.table";
 import { users } from "../users/users.table";
 import { jobState, jobStatusCondition } from "./job-state";
 import type { JobListStatus } from "../../../shared/jobs/jobs.schemas";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type JobRow = typeof jobs.$inferSelect;
 
@@ -47,7 +48,7 @@ export const jobsRepository = {
       q.status ? jobStatusCondition(jobs.id, q.status) : undefined,
       q.mine ? sql`(${jobs.openedBy} = ${userId} or exists (select 1 from readings r where r.job_id = ${jobs.id} and r.taken_by = ${userId}))` : undefined,
     );
-    const [items, [{ total }]] = await Promise.all([
+    return listPage(
       db
         .select(summaryColumns)
         .from(jobs)
@@ -56,10 +57,9 @@ export const jobsRepository = {
         .where(where)
         .orderBy(...SORTS[q.sort])
         .limit(q.pageSize)
-        .offset((q.page - 1) * q.pageSize),
+        .offset(pageOffset(q.page, q.pageSize)),
       db.select({ total: count() }).from(jobs).where(where),
-    ]);
-    return { items, total };
+    );
   },
 
   /** Locks the job while a reading or sign-off is recorded, so they cannot cross. */

@@ -1,14 +1,7 @@
-import { createRequire } from "node:module";
-import PDFDocument from "pdfkit";
 import { STATUS_LABELS } from "../../../shared/tools/tool-status";
 import type { CalibrationLabel, DoNotUseTag } from "../../../shared/checkouts/labels.schemas";
 import { CAUTIONS } from "../../../shared/common/cautions";
-
-const require = createRequire(import.meta.url);
-const FONT = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-400-normal.woff");
-const FONT_BOLD = require.resolve("@fontsource/noto-sans/files/noto-sans-latin-700-normal.woff");
-
-/** The three sentences of the Cautions component, printed wherever a PDF judges a tool. */
+import { newPdf } from "../../platform/pdf";
 
 const PT = 72; // points per inch
 /**
@@ -18,28 +11,14 @@ const PT = 72; // points per inch
  */
 export const SHEET_30UP = { cols: 3, rows: 10, w: 2.625 * PT, h: 1 * PT, top: 0.5 * PT, left: 0.1875 * PT, pitchX: 2.75 * PT, pitchY: 1 * PT } as const;
 
-function newDoc(title: string) {
-  const doc = new PDFDocument({ size: "LETTER", margin: 0, autoFirstPage: false, info: { Title: title, Author: "Tenthwise" } });
-  doc.registerFont("body", FONT);
-  doc.registerFont("bold", FONT_BOLD);
-  return doc;
-}
-
-function toBuffer(doc: PDFKit.PDFDocument): Promise<Buffer> {
-  return new Promise((resolve, reject) => {
-    const chunks: Buffer[] = [];
-    doc.on("data", (c: Buffer) => chunks.push(c));
-    doc.on("end", () => resolve(Buffer.concat(chunks)));
-    doc.on("error", reject);
-    doc.end();
-  });
-}
+/** Labels and tags place everything themselves: no margin, no page until one is added. */
+const newDoc = (title: string) => newPdf(title, { margin: 0, autoFirstPage: false });
 
 const png = (dataUrl: string) => Buffer.from(dataUrl.split(",")[1], "base64");
 
 /** A sheet (or several) of calibration labels; `skip` leaves the first positions of a partly used sheet empty. */
 export function calibrationLabelsPdf(labels: CalibrationLabel[], opts: { skip: number; shopName: string; printedOn: string }): Promise<Buffer> {
-  const doc = newDoc("Calibration labels");
+  const { doc, done } = newDoc("Calibration labels");
   const L = SHEET_30UP;
   const perPage = L.cols * L.rows;
   const header = () => {
@@ -67,12 +46,13 @@ export function calibrationLabelsPdf(labels: CalibrationLabel[], opts: { skip: n
     doc.font("body").fontSize(6.5).text(`By ${label.calibratedBy ?? "—"}`, tx, y + pad + 37, { width: tw, lineBreak: false, ellipsis: true });
     doc.fontSize(5.5).fillColor("#444").text(label.usable ? "Scan for current status" : `Now: ${STATUS_LABELS[label.status]} — do not use`, tx, y + pad + 49, { width: tw, lineBreak: false, ellipsis: true });
   });
-  return toBuffer(doc);
+  doc.end();
+  return done;
 }
 
 /** A full-page DO NOT USE tag with the tool, the reasons, who tagged it and the status QR code. */
 export function doNotUsePdf(tag: DoNotUseTag, opts: { shopName: string }): Promise<Buffer> {
-  const doc = newDoc(`Do not use ${tag.assetTag}`);
+  const { doc, done } = newDoc(`Do not use ${tag.assetTag}`);
   doc.addPage();
   const m = 0.6 * PT;
   const w = 612 - 2 * m;
@@ -100,5 +80,6 @@ export function doNotUsePdf(tag: DoNotUseTag, opts: { shopName: string }): Promi
   doc.fontSize(10).fillColor("#333").text(`Current status: ${tag.statusUrl}`, m, y, { width: w, align: "center" });
   doc.fontSize(10).text("Leave this tag on the tool until the crib or quality releases it.", m, doc.y + 6, { width: w, align: "center" });
   doc.font("bold").fontSize(8).fillColor("#333").text("Cautions.", m, 792 - m - 52, { width: w, continued: true }).font("body").text(` ${CAUTIONS.join(" ")}`);
-  return toBuffer(doc);
+  doc.end();
+  return done;
 }

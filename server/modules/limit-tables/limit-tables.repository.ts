@@ -3,6 +3,7 @@ import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { limitTables, limitItems } from "./limit-tables.table";
 import { users } from "../users/users.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type LimitTableRow = typeof limitTables.$inferSelect;
 export type LimitItemRow = typeof limitItems.$inferSelect;
@@ -41,11 +42,10 @@ export const limitTablesRepository = {
       q.engineModel ? eq(limitTables.engineModel, q.engineModel) : undefined,
       q.current === true ? isNull(newer.id) : q.current === false ? sql`${newer.id} is not null` : undefined,
     );
-    const [items, [{ total }]] = await Promise.all([
-      summaryQuery(db).where(where).orderBy(...SORTS[q.sort]).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    return listPage(
+      summaryQuery(db).where(where).orderBy(...SORTS[q.sort]).limit(q.pageSize).offset(pageOffset(q.page, q.pageSize)),
       db.select({ total: count() }).from(limitTables).leftJoin(newer, eq(newer.supersedesId, limitTables.id)).where(where),
-    ]);
-    return { items, total };
+    );
   },
   async summary(db: DbOrTx, id: string) {
     const [row] = await summaryQuery(db).where(eq(limitTables.id, id));

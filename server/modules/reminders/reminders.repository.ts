@@ -4,6 +4,7 @@ import { reminderLog, reminderRuns, notificationPreferences } from "./reminders.
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
 import type { PlannedReminder } from "../../../shared/reminders/reminder-plan";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type ReminderRunRow = typeof reminderRuns.$inferSelect;
 export type ReminderLogRow = typeof reminderLog.$inferSelect;
@@ -113,11 +114,10 @@ export const remindersRepository = {
   },
 
   async listRuns(db: DbOrTx, page: number, pageSize: number) {
-    const [items, [{ total }]] = await Promise.all([
-      db.select().from(reminderRuns).orderBy(desc(reminderRuns.startedAt), desc(reminderRuns.id)).limit(pageSize).offset((page - 1) * pageSize),
+    return listPage(
+      db.select().from(reminderRuns).orderBy(desc(reminderRuns.startedAt), desc(reminderRuns.id)).limit(pageSize).offset(pageOffset(page, pageSize)),
       db.select({ total: count() }).from(reminderRuns),
-    ]);
-    return { items, total };
+    );
   },
 
   findRun: (db: DbOrTx, id: string) => db.query.reminderRuns.findFirst({ where: eq(reminderRuns.id, id) }),

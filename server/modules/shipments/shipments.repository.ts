@@ -5,6 +5,7 @@ import { labShipments } from "./shipments.table";
 import { labs } from "../labs/labs.table";
 import { tools } from "../tools/tools.table";
 import { users } from "../users/users.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 const shipper = alias(users, "shipper");
 const receiver = alias(users, "receiver");
@@ -50,10 +51,9 @@ export const shipmentsRepository = {
       f.labId ? eq(labShipments.labId, f.labId) : undefined,
       like ? or(ilike(tools.assetTag, like), ilike(tools.description, like), ilike(labShipments.purchaseOrder, like), ilike(labs.name, like)) : undefined,
     );
-    const [items, [{ total }]] = await Promise.all([
-      viewQuery(db).where(where).orderBy(f.open ? asc(labShipments.shippedAt) : desc(labShipments.shippedAt), asc(labShipments.id)).limit(f.pageSize).offset((f.page - 1) * f.pageSize),
+    return listPage(
+      viewQuery(db).where(where).orderBy(f.open ? asc(labShipments.shippedAt) : desc(labShipments.shippedAt), asc(labShipments.id)).limit(f.pageSize).offset(pageOffset(f.page, f.pageSize)),
       db.select({ total: count() }).from(labShipments).innerJoin(tools, eq(tools.id, labShipments.toolId)).innerJoin(labs, eq(labs.id, labShipments.labId)).where(where),
-    ]);
-    return { items, total };
+    );
   },
 };

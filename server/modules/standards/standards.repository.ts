@@ -1,6 +1,7 @@
 import { and, asc, count, desc, eq, ilike, inArray, or, sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { standards, standardCertificates } from "./standards.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type StandardRow = typeof standards.$inferSelect;
 export type CertificateRow = typeof standardCertificates.$inferSelect;
@@ -39,11 +40,10 @@ export const standardsRepository = {
       opts.unit ? eq(standards.unit, opts.unit) : undefined,
       opts.inCalibration === undefined ? undefined : opts.inCalibration ? inCal : sql`not ${inCal}`,
     );
-    const [items, [{ total }]] = await Promise.all([
-      db.select().from(standards).where(where).orderBy(asc(standards.assetTag)).limit(opts.pageSize).offset((opts.page - 1) * opts.pageSize),
+    return listPage(
+      db.select().from(standards).where(where).orderBy(asc(standards.assetTag)).limit(opts.pageSize).offset(pageOffset(opts.page, opts.pageSize)),
       db.select({ total: count() }).from(standards).where(where),
-    ]);
-    return { items, total };
+    );
   },
   insert: async (db: DbOrTx, values: typeof standards.$inferInsert) => (await db.insert(standards).values(values).returning())[0],
   insertCertificate: async (db: DbOrTx, values: typeof standardCertificates.$inferInsert) => (await db.insert(standardCertificates).values(values).returning())[0],

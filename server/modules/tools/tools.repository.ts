@@ -6,6 +6,7 @@ import { users } from "../users/users.table";
 import { checkouts } from "../checkouts/checkouts.table";
 import { intermediateChecks } from "../checks/checks.table";
 import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type ToolRow = typeof tools.$inferSelect;
 export type SetElementRow = typeof setElements.$inferSelect;
@@ -71,7 +72,7 @@ export const toolsRepository = {
   /** One SQL-sorted page of the register and the total. */
   async page(db: DbOrTx, f: ToolSqlFilters, sort: { key: SqlSortKey; desc: boolean }, page: number, pageSize: number) {
     const where = whereOf(f);
-    const [items, [{ total }]] = await Promise.all([
+    const { items, total } = await listPage(
       db
         .select(listColumns)
         .from(tools)
@@ -79,9 +80,9 @@ export const toolsRepository = {
         .where(where)
         .orderBy(orderOf(sort), asc(tools.assetTag))
         .limit(pageSize)
-        .offset((page - 1) * pageSize),
+        .offset(pageOffset(page, pageSize)),
       db.select({ total: count() }).from(tools).innerJoin(families, eq(families.id, tools.familyId)).where(where),
-    ]);
+    );
     return { items: items as ToolListRow[], total };
   },
 

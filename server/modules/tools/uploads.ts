@@ -1,12 +1,12 @@
-import multer from "multer";
 import type { Request, Response, NextFunction, Router } from "express";
 import { can, type Permission } from "../../../shared/auth/roles";
 import { AppError, Errors } from "../../http/errors";
 import type { SessionUser } from "../../http/route";
 import type { ObjectStorage } from "../../platform/storage";
+import { singleFileUpload } from "../../http/upload";
 
 export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_UPLOAD_BYTES, files: 1 } });
+const upload = singleFileUpload("file", MAX_UPLOAD_BYTES);
 
 /** Certificates and photos: PDF or a common image, recognised by their first bytes, not by what the browser claims. */
 const SIGNATURES: { type: string; test: (b: Buffer) => boolean }[] = [
@@ -25,7 +25,7 @@ export function acceptFileUpload(router: Router, path: string, permission: Permi
     const user = req.user as SessionUser | undefined;
     if (!user) return next(Errors.notSignedIn());
     if (!can(user.role, permission)) return next(Errors.forbidden(`Your role (${user.role}) may not do this.`));
-    upload.single("file")(req, res, (err?: unknown) => next(err));
+    upload(req, res, next);
   });
 }
 

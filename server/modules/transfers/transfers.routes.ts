@@ -1,15 +1,16 @@
 import { Router, type Request, type Response } from "express";
-import multer from "multer";
 import { ZodError } from "zod";
 import { defineRoutes, type SessionUser } from "../../http/route";
 import { can } from "../../../shared/auth/roles";
 import type { AppDeps } from "../../app";
 import { AppError } from "../../http/errors";
+import { singleFileUpload } from "../../http/upload";
 import { decodeCsv, transfersService, type Progress } from "./transfers.service";
 import { CommitResultSchema, DryRunResultSchema, ImportRequestSchema, type ImportStreamLine } from "../../../shared/transfers/transfers.schemas";
 import { calendarDate } from "../../../shared/common/dates";
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 20 * 1024 * 1024, files: 1 } });
+// A malformed upload is bad input, never a server fault.
+const upload = singleFileUpload("file", 20 * 1024 * 1024, () => new AppError("invalid_upload", 400, "The upload could not be read: send one CSV file in the field “file”."));
 
 /** The CSV text of a request: an uploaded file (checked for UTF-8) or the `csv` field. */
 function csvText(req: Request, csv: string | undefined): string {
@@ -60,11 +61,7 @@ export function transfersRoutes(deps: AppDeps) {
   // The file is read only for a signed-in person who may import (route() checks again before any work).
   const guardAndParse = (req: Request, res: Response, next: (err?: unknown) => void) => {
     if (!can((req.user as SessionUser | undefined)?.role, "import.run")) return next();
-    return upload.single("file")(req, res, (err?: unknown) => {
-      if (!err || (err instanceof multer.MulterError && err.code === "LIMIT_FILE_SIZE")) return next(err);
-      // A malformed upload is bad input, never a server fault.
-      return next(new AppError("invalid_upload", 400, "The upload could not be read: send one CSV file in the field “file”."));
-    });
+    return upload(req, res, next);
   };
   router.post("/api/imports/dry-run", guardAndParse);
   router.post("/api/imports/commit", guardAndParse);

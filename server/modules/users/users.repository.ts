@@ -1,6 +1,7 @@
 import { and, asc, count, eq, ilike, or, sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { users } from "./users.table";
+import { listPage, pageOffset } from "../../db/paging";
 
 export type UserRow = typeof users.$inferSelect;
 
@@ -13,11 +14,10 @@ export const usersRepository = {
       opts.role ? eq(users.role, opts.role as UserRow["role"]) : undefined,
       opts.active === undefined ? undefined : eq(users.active, opts.active),
     );
-    const [items, [{ total }]] = await Promise.all([
-      db.select().from(users).where(where).orderBy(asc(users.name)).limit(opts.pageSize).offset((opts.page - 1) * opts.pageSize),
+    return listPage(
+      db.select().from(users).where(where).orderBy(asc(users.name)).limit(opts.pageSize).offset(pageOffset(opts.page, opts.pageSize)),
       db.select({ total: count() }).from(users).where(where),
-    ]);
-    return { items, total };
+    );
   },
   insert: async (db: DbOrTx, values: typeof users.$inferInsert) => (await db.insert(users).values(values).returning())[0],
   update: async (db: DbOrTx, id: string, values: Partial<typeof users.$inferInsert>) =>

@@ -4,7 +4,7 @@ import { TextField } from "../../../components/ui/field";
 import { ButtonLink } from "../../../components/ui/button";
 import { qs } from "../../../lib/api-client";
 import { calibrationLabelsPdfUrl, doNotUsePdfUrl } from "../api/labels";
-import { ScanField } from "./scan-field";
+import { TagListPicker } from "./tag-list-picker";
 
 const linkClass = "inline-flex min-h-10 items-center rounded-md bg-ink px-4 py-2 text-sm font-semibold text-paper";
 
@@ -18,17 +18,7 @@ export function LabelsPage() {
     <div className="mx-auto max-w-4xl">
       <PageHeader title="Labels and tags" subtitle="Calibration labels for 30-up 2⅝ × 1 in label sheets (US Letter), and DO NOT USE tags." />
       <Card title="Calibration labels" className="mb-5">
-        <ScanField label="Add a tool" hint="Scan or type each tag, then Enter." onScan={(t) => setTags((x) => (x.includes(t.toUpperCase()) ? x : [...x, t.toUpperCase()]))} />
-        <ul className="mt-2 flex flex-wrap gap-2" aria-label="Tools to label">
-          {tags.map((t) => (
-            <li key={t} className="flex items-center gap-1 rounded-full border border-paper-line bg-paper-sunk px-3 py-1 font-mono text-sm">
-              {t}
-              <button type="button" aria-label={`Remove ${t}`} className="ml-1 font-bold" onClick={() => setTags((x) => x.filter((y) => y !== t))}>
-                ×
-              </button>
-            </li>
-          ))}
-        </ul>
+        <TagListPicker tags={tags} setTags={setTags} listLabel="Tools to label" />
         <TextField label="Labels already used on the sheet" type="number" min={0} max={29} value={skip} onChange={(e) => setSkip(e.target.value)} wrapperClassName="mt-3 max-w-xs" hint="Printing starts after them." />
         {tags.length > 0 && (
           <div className="mt-4 flex flex-wrap gap-2">

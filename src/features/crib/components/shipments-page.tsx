@@ -8,7 +8,7 @@ import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import type { Shipment } from "../../../../shared/shipments/shipments.schemas";
 import { useLabs, useReceiveShipment, useShipments, useShipTools } from "../api/shipments";
-import { ScanField } from "./scan-field";
+import { TagListPicker } from "./tag-list-picker";
 import { shortWhen } from "./format";
 
 const col = createColumnHelper<Shipment>();
@@ -59,17 +59,7 @@ export function ShipmentsPage() {
       <Card title="Ship tools to a lab" className="mb-5">
         <div className="grid gap-3 md:grid-cols-2">
           <div>
-            <ScanField label="Add a tool" hint="Scan or type each tag, then Enter." autoFocus={false} onScan={(t) => setTags((x) => (x.some((y) => y.toUpperCase() === t.toUpperCase()) ? x : [...x, t.toUpperCase()]))} />
-            <ul className="mt-2 flex flex-wrap gap-2" aria-label="Tools to ship">
-              {tags.map((t) => (
-                <li key={t} className="flex items-center gap-1 rounded-full border border-paper-line bg-paper-sunk px-3 py-1 font-mono text-sm">
-                  {t}
-                  <button type="button" aria-label={`Remove ${t}`} className="ml-1 font-bold" onClick={() => setTags((x) => x.filter((y) => y !== t))}>
-                    ×
-                  </button>
-                </li>
-              ))}
-            </ul>
+            <TagListPicker tags={tags} setTags={setTags} listLabel="Tools to ship" autoFocus={false} />
           </div>
           <div className="grid gap-3">
             <SelectField label="Lab" value={labId} onChange={(e) => setLabId(e.target.value)}>

@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { api, ApiError, qs } from "../../../lib/api-client";
+import { api, qs } from "../../../lib/api-client";
 import type {
   CloseInvestigationInput,
   CreateDispositionInput,
@@ -26,17 +26,10 @@ export const investigationKeys = {
 
 /**
  * GET /api/investigations answers an array (api.md); the total of a paged list travels in X-Total-Count, so
- * this one fetcher reads the header and hands the page its { items, total }.
+ * the list is read with api.getWithTotal, which hands the page its { items, total }.
  */
-async function fetchInvestigations(p: InvestigationListParams): Promise<Page<InvestigationSummary>> {
-  const url = `/api/investigations${qs({ ...p, pageSize: p.pageSize ?? 50 })}`;
-  const res = await fetch(url, { credentials: "same-origin", headers: { Accept: "application/json" } });
-  if (!res.ok) {
-    const body = (await res.json().catch(() => null)) as { error?: { code: string; message: string; details?: unknown } } | null;
-    throw new ApiError(res.status, body?.error?.code ?? `http_${res.status}`, body?.error?.message ?? `The server answered ${res.status}.`, body?.error?.details);
-  }
-  const items = (await res.json()) as InvestigationSummary[];
-  return { items, total: Number(res.headers.get("X-Total-Count") ?? items.length) };
+function fetchInvestigations(p: InvestigationListParams): Promise<Page<InvestigationSummary>> {
+  return api.getWithTotal<InvestigationSummary>(`/api/investigations${qs({ ...p, pageSize: p.pageSize ?? 50 })}`);
 }
 
 export const investigationsQueryOptions = (p: InvestigationListParams) =>

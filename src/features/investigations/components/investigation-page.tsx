@@ -23,7 +23,8 @@ import { SelectField, TextAreaField, TextField } from "../../../components/ui/fi
 import { Cautions } from "../../../components/ui/cautions";
 import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
-import { length, signedLength, when } from "./format";
+import { lengthWithUnit as length, signedLengthWithUnit as signedLength } from "../../../../shared/investigations/format";
+import { shortInstant as when } from "../../../lib/format";
 import { InvestigationStatus } from "./investigation-status";
 
 export function InvestigationPage() {

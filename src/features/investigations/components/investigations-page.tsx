@@ -7,9 +7,10 @@ import { DataTable } from "../../../components/ui/data-table";
 import { Cautions } from "../../../components/ui/cautions";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
-import { when } from "./format";
+import { shortInstant as when } from "../../../lib/format";
 import { InvestigationStatus } from "./investigation-status";
 import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
+import { FilterSelect } from "../../../components/ui/filter-select";
 
 const FILTER_KEYS = ["toolAssetTag", "status", "awaitingDisposition"] as const;
 const describeFilters = {
@@ -82,11 +83,7 @@ export function InvestigationsPage() {
               value={list.filters.toolAssetTag}
               onChange={(e) => list.setFilter("toolAssetTag", e.target.value)}
             />
-            <select aria-label="Filter by status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
-              <option value="">Open and closed</option>
-              <option value="open">Open</option>
-              <option value="closed">Closed</option>
-            </select>
+            <FilterSelect label="Filter by status" all="Open and closed" options={["open", "closed"]} labels={{ open: "Open", closed: "Closed" }} value={list.filters.status} onChange={(v) => list.setFilter("status", v)} />
           </>
         }
       />

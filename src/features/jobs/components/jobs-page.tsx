@@ -13,6 +13,7 @@ import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { useCan } from "../../auth/api/auth";
 import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
+import { FilterSelect } from "../../../components/ui/filter-select";
 
 const FILTER_KEYS = ["engineSerial", "status", "mine"] as const;
 const describeFilters = {
@@ -82,14 +83,7 @@ export function JobsPage() {
             toolbar={
               <>
                 <input aria-label="Engine serial" placeholder="Engine serial" className="rounded-md border border-paper-line px-3 py-1.5" value={list.filters.engineSerial} onChange={(e) => list.setFilter("engineSerial", e.target.value)} />
-                <select aria-label="Status" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)}>
-                  <option value="">Open and signed</option>
-                  {JOB_LIST_STATUSES.map((s) => (
-                    <option key={s} value={s}>
-                      {JOB_LIST_STATUS_LABELS[s]}
-                    </option>
-                  ))}
-                </select>
+                <FilterSelect label="Status" all="Open and signed" options={JOB_LIST_STATUSES} labels={JOB_LIST_STATUS_LABELS} value={list.filters.status} onChange={(v) => list.setFilter("status", v)} />
                 <label className="flex items-center gap-1 text-sm">
                   <input type="checkbox" checked={list.filters.mine === "true"} onChange={(e) => list.setFilter("mine", e.target.checked ? "true" : "")} /> Mine
                 </label>

@@ -4,7 +4,7 @@ import { PageHeader, EmptyState, ErrorNote, Loading, Facts } from "../../../comp
 import { Button, ButtonLink } from "../../../components/ui/button";
 import { ApiError, errorMessage } from "../../../lib/api-client";
 import { cx } from "../../../components/ui/cx";
-import { formatInstant } from "../lib/format";
+import { formatInstant } from "../../../lib/format";
 
 export function OutboxPage() {
   const outbox = useOutbox();

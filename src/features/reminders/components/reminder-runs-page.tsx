@@ -9,7 +9,7 @@ import { Button, ButtonLink } from "../../../components/ui/button";
 import { api, errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { cx } from "../../../components/ui/cx";
-import { formatInstant } from "../lib/format";
+import { formatInstant } from "../../../lib/format";
 import { stageLabel } from "../../../../shared/reminders/reminder-plan";
 import type { ReminderRun, RunRemindersResult } from "../../../../shared/reminders/reminders.schemas";
 import type { Settings } from "../../../../shared/settings/settings.schemas";

@@ -8,6 +8,7 @@ import { Card, EmptyState, ErrorNote, Facts, Loading } from "../../../components
 import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
 import { day, len, signedLen, when } from "../lib/format";
+import { RecordTable } from "../components/record-table";
 import { DECISION_RULE_LABELS } from "../../../../shared/calibrations/decision-rules";
 import { ReviewForm } from "./review-form";
 import { ResultBadge, TurWarning } from "./result-badge";
@@ -109,41 +110,24 @@ function CalibrationRecord({ c, tool, open }: { c: Calibration; tool: ToolDetail
 /** The signed points of a record: the server's own numbers, shown as recorded. */
 export function PointsTable({ points, unit }: { points: CalibrationPoint[]; unit: "in" | "mm" }) {
   return (
-    <div className="overflow-x-auto">
-      <table className="mt-2 w-full whitespace-nowrap text-left text-sm" aria-label="Check points">
-        <thead className="text-xs uppercase tracking-wide text-ink-faint">
-          <tr>
-            <th className="py-1 pr-3">Nominal</th>
-            <th className="pr-3">Reference</th>
-            <th className="pr-3">As found</th>
-            <th className="pr-3">Error</th>
-            <th className="pr-3">As left</th>
-            <th className="pr-3">MPE ±</th>
-            <th className="pr-3">U (k=2)</th>
-            <th className="pr-3">TUR</th>
-            <th>Verdict</th>
-          </tr>
-        </thead>
-        <tbody>
-          {points.map((p) => (
-            <tr key={p.id} className="border-t border-paper-line">
-              <td className="py-1 pr-3">
-                {len(p.nominal, unit)}
-                {p.elementLabel && <span className="block text-xs text-ink-faint">element {p.elementLabel}</span>}
-              </td>
-              <td className="pr-3">{len(p.reference, unit)}</td>
-              <td className="pr-3">{len(p.asFound, unit)}</td>
-              <td className={cx("pr-3", !p.asFoundInTolerance && "font-semibold text-stop")}>{signedLen(p.errorAsFound, unit)}</td>
-              <td className="pr-3">{p.asLeft == null ? "—" : `${len(p.asLeft, unit)} (${signedLen(p.errorAsLeft, unit)})`}</td>
-              <td className="pr-3">{len(p.mpe, unit)}</td>
-              <td className="pr-3">{p.uncertainty == null ? "—" : len(p.uncertainty, unit, 6)}</td>
-              <td className={cx("pr-3", p.turAdequate === false && "font-semibold text-caution")}>{p.tur == null ? "—" : `${p.tur.toFixed(1)}:1`}</td>
-              <td className={cx("font-semibold", p.verdict === "pass" ? "text-go" : "text-stop")}>{p.verdict === "pass" ? "✓ Pass" : "✕ Fail"}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <RecordTable label="Check points" className="mt-2 whitespace-nowrap" headers={["Nominal", "Reference", "As found", "Error", "As left", "MPE ±", "U (k=2)", "TUR", "Verdict"]}>
+      {points.map((p) => (
+        <tr key={p.id} className="border-t border-paper-line">
+          <td className="py-1 pr-3">
+            {len(p.nominal, unit)}
+            {p.elementLabel && <span className="block text-xs text-ink-faint">element {p.elementLabel}</span>}
+          </td>
+          <td className="pr-3">{len(p.reference, unit)}</td>
+          <td className="pr-3">{len(p.asFound, unit)}</td>
+          <td className={cx("pr-3", !p.asFoundInTolerance && "font-semibold text-stop")}>{signedLen(p.errorAsFound, unit)}</td>
+          <td className="pr-3">{p.asLeft == null ? "—" : `${len(p.asLeft, unit)} (${signedLen(p.errorAsLeft, unit)})`}</td>
+          <td className="pr-3">{len(p.mpe, unit)}</td>
+          <td className="pr-3">{p.uncertainty == null ? "—" : len(p.uncertainty, unit, 6)}</td>
+          <td className={cx("pr-3", p.turAdequate === false && "font-semibold text-caution")}>{p.tur == null ? "—" : `${p.tur.toFixed(1)}:1`}</td>
+          <td className={cx("font-semibold", p.verdict === "pass" ? "text-go" : "text-stop")}>{p.verdict === "pass" ? "✓ Pass" : "✕ Fail"}</td>
+        </tr>
+      ))}
+    </RecordTable>
   );
 }
 

@@ -4,6 +4,7 @@ import { Card, EmptyState, ErrorNote, Loading } from "../../../components/ui/lay
 import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
 import { len, signedLen, when } from "../lib/format";
+import { RecordTable } from "./record-table";
 
 const CONTEXT = { pre_use: "Pre-use", return_zero_check: "On return", found_check: "When found" } as const;
 
@@ -15,41 +16,24 @@ export function ChecksCard({ tool }: { tool: ToolDetail }) {
       {checks.isPending ? <Loading /> : checks.isError ? <ErrorNote>{errorMessage(checks.error)}</ErrorNote> : checks.data.items.length === 0 ? (
         <EmptyState>No intermediate checks recorded.</EmptyState>
       ) : (
-        <div className="overflow-x-auto">
-          <table className="w-full whitespace-nowrap text-left text-sm" aria-label="Intermediate checks">
-            <thead className="text-xs uppercase tracking-wide text-ink-faint">
-              <tr>
-                <th className="py-1 pr-3">When</th>
-                <th className="pr-3">Result</th>
-                <th className="pr-3">Nominal</th>
-                <th className="pr-3">Reading</th>
-                <th className="pr-3">Deviation</th>
-                <th className="pr-3">Tolerance</th>
-                <th className="pr-3">Standard</th>
-                <th className="pr-3">By</th>
-                <th>Context</th>
-              </tr>
-            </thead>
-            <tbody>
-              {checks.data.items.map((c) => (
-                <tr key={c.id} className="border-t border-paper-line">
-                  <td className="py-1.5 pr-3 whitespace-nowrap">{when(c.performedAt)}</td>
-                  <td className={cx("pr-3 font-semibold", c.passed ? "text-go" : "text-stop")}>{c.passed ? "✓ Passed" : "✕ Failed"}</td>
-                  <td className="pr-3">{len(c.nominal, tool.unit)}</td>
-                  <td className="pr-3">{len(c.reading, tool.unit)}</td>
-                  <td className="pr-3">{signedLen(c.deviation, tool.unit)}</td>
-                  <td className="pr-3">± {len(c.tolerance, tool.unit)}</td>
-                  <td className="pr-3">{c.standard?.assetTag ?? "—"}</td>
-                  <td className="pr-3">{c.performedBy?.name ?? "—"}</td>
-                  <td>
-                    {CONTEXT[c.context]}
-                    {c.note && <span className="block text-ink-faint">{c.note}</span>}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
+        <RecordTable label="Intermediate checks" className="whitespace-nowrap" headers={["When", "Result", "Nominal", "Reading", "Deviation", "Tolerance", "Standard", "By", "Context"]}>
+          {checks.data.items.map((c) => (
+            <tr key={c.id} className="border-t border-paper-line">
+              <td className="py-1.5 pr-3 whitespace-nowrap">{when(c.performedAt)}</td>
+              <td className={cx("pr-3 font-semibold", c.passed ? "text-go" : "text-stop")}>{c.passed ? "✓ Passed" : "✕ Failed"}</td>
+              <td className="pr-3">{len(c.nominal, tool.unit)}</td>
+              <td className="pr-3">{len(c.reading, tool.unit)}</td>
+              <td className="pr-3">{signedLen(c.deviation, tool.unit)}</td>
+              <td className="pr-3">± {len(c.tolerance, tool.unit)}</td>
+              <td className="pr-3">{c.standard?.assetTag ?? "—"}</td>
+              <td className="pr-3">{c.performedBy?.name ?? "—"}</td>
+              <td>
+                {CONTEXT[c.context]}
+                {c.note && <span className="block text-ink-faint">{c.note}</span>}
+              </td>
+            </tr>
+          ))}
+        </RecordTable>
       )}
     </Card>
   );

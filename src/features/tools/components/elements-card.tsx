@@ -5,6 +5,7 @@ import { Card } from "../../../components/ui/layout";
 import { cx } from "../../../components/ui/cx";
 import { len, when } from "../lib/format";
 import { ReasonAction } from "./reason-action";
+import { RecordTable } from "./record-table";
 
 /** Leaves of a feeler set or blocks of a gauge block set; a rejected element is never chosen again. */
 export function ElementsCard({ tool }: { tool: ToolDetail }) {
@@ -14,52 +15,38 @@ export function ElementsCard({ tool }: { tool: ToolDetail }) {
   const rejected = tool.elements.filter((e) => !e.usable).length;
   return (
     <Card title={`Set elements (${tool.elements.length}${rejected ? `, ${rejected} rejected` : ""})`}>
-      <div className="overflow-x-auto">
-        <table className="w-full text-left text-sm" aria-label="Set elements">
-          <thead className="text-xs uppercase tracking-wide text-ink-faint">
-            <tr>
-              <th className="py-1 pr-3">Element</th>
-              <th className="pr-3">Nominal</th>
-              <th className="pr-3">Grade</th>
-              <th className="pr-3">Certified deviation</th>
-              <th className="pr-3">State</th>
-              {canReject && <th>Action</th>}
-            </tr>
-          </thead>
-          <tbody>
-            {tool.elements.map((e) => (
-              <tr key={e.id} className={cx("border-t border-paper-line", !e.usable && "bg-stop-light/50")}>
-                <td className={cx("py-1.5 pr-3 font-semibold", !e.usable && "line-through")}>{e.label}</td>
-                <td className="pr-3">{len(e.nominal, tool.unit)}</td>
-                <td className="pr-3">{e.grade ?? "—"}</td>
-                <td className="pr-3">{e.certifiedDeviation == null ? "—" : len(e.certifiedDeviation, tool.unit, 6)}</td>
-                <td className="pr-3">
-                  {e.usable ? (
-                    <span className="text-go">✓ In use</span>
-                  ) : (
-                    <span className="font-semibold text-stop">
-                      ✕ Rejected {when(e.rejectedAt)}
-                      {e.rejectedReason && <span className="block font-normal">{e.rejectedReason}</span>}
-                    </span>
-                  )}
-                </td>
-                {canReject && (
-                  <td>
-                    {e.usable && (
-                      <ReasonAction
-                        label={`Reject ${word} ${e.label}`}
-                        variant="ghost"
-                        prompt={`Why is ${word} ${e.label} rejected? It will never be chosen again.`}
-                        run={(reason) => reject.mutateAsync({ elementId: e.id, reason })}
-                      />
-                    )}
-                  </td>
+      <RecordTable label="Set elements" headers={["Element", "Nominal", "Grade", "Certified deviation", "State", canReject && "Action"]}>
+        {tool.elements.map((e) => (
+          <tr key={e.id} className={cx("border-t border-paper-line", !e.usable && "bg-stop-light/50")}>
+            <td className={cx("py-1.5 pr-3 font-semibold", !e.usable && "line-through")}>{e.label}</td>
+            <td className="pr-3">{len(e.nominal, tool.unit)}</td>
+            <td className="pr-3">{e.grade ?? "—"}</td>
+            <td className="pr-3">{e.certifiedDeviation == null ? "—" : len(e.certifiedDeviation, tool.unit, 6)}</td>
+            <td className="pr-3">
+              {e.usable ? (
+                <span className="text-go">✓ In use</span>
+              ) : (
+                <span className="font-semibold text-stop">
+                  ✕ Rejected {when(e.rejectedAt)}
+                  {e.rejectedReason && <span className="block font-normal">{e.rejectedReason}</span>}
+                </span>
+              )}
+            </td>
+            {canReject && (
+              <td>
+                {e.usable && (
+                  <ReasonAction
+                    label={`Reject ${word} ${e.label}`}
+                    variant="ghost"
+                    prompt={`Why is ${word} ${e.label} rejected? It will never be chosen again.`}
+                    run={(reason) => reject.mutateAsync({ elementId: e.id, reason })}
+                  />
                 )}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
+              </td>
+            )}
+          </tr>
+        ))}
+      </RecordTable>
     </Card>
   );
 }

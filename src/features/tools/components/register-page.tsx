@@ -16,6 +16,7 @@ import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { len } from "../lib/format";
 import { DebouncedInput } from "./debounced-input";
+import { FilterSelect } from "../../../components/ui/filter-select";
 
 const FILTERS = ["q", "status", "usable", "familyId", "location", "custodianId", "custodianName", "ownerType", ...DUE_FILTERS] as const;
 const PAGE_SIZE = 50;
@@ -143,14 +144,7 @@ export function RegisterPage() {
                 </option>
               ))}
             </select>
-            <select aria-label="Filter by owner" className={control} value={f.ownerType} onChange={(e) => list.setFilter("ownerType", e.target.value)}>
-              <option value="">Any owner</option>
-              {OWNER_TYPES.map((o) => (
-                <option key={o} value={o}>
-                  {OWNER_TYPE_LABELS[o]}
-                </option>
-              ))}
-            </select>
+            <FilterSelect label="Filter by owner" className={control} all="Any owner" options={OWNER_TYPES} labels={OWNER_TYPE_LABELS} value={f.ownerType} onChange={(v) => list.setFilter("ownerType", v)} />
             {due && <FilterChip label="Due" value={due} clearLabel="Clear due-date filter" onClear={() => list.clearFilters(...DUE_FILTERS)} />}
             <CustodianFilter
               selected={f.custodianId ? { id: f.custodianId, name: f.custodianName || "selected person" } : null}

@@ -13,6 +13,7 @@ import { useListParams } from "../../../lib/use-list-params";
 import { DebouncedInput } from "../components/debounced-input";
 import { applyFieldErrors, asNumber, decimalInput } from "../lib/form";
 import { len } from "../lib/format";
+import { FilterSelect } from "../../../components/ui/filter-select";
 
 const col = createColumnHelper<Family>();
 
@@ -53,14 +54,7 @@ export function FamiliesPage() {
           toolbar={
             <>
               <DebouncedInput aria-label="Search families" placeholder="Search families" className="rounded-md border border-paper-line px-3 py-1.5" value={list.filters.q} onValue={(v) => list.setFilter("q", v)} />
-              <select aria-label="Filter by kind" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.kind} onChange={(e) => list.setFilter("kind", e.target.value)}>
-                <option value="">All kinds</option>
-                {TOOL_KINDS.map((k) => (
-                  <option key={k} value={k}>
-                    {KIND_LABELS[k]}
-                  </option>
-                ))}
-              </select>
+              <FilterSelect label="Filter by kind" all="All kinds" options={TOOL_KINDS} labels={KIND_LABELS} value={list.filters.kind} onChange={(v) => list.setFilter("kind", v)} />
             </>
           }
         />

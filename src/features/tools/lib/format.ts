@@ -37,7 +37,4 @@ export function day(value: string | null | undefined): string {
 }
 
 /** An instant as a short local date and time. */
-export function when(value: string | null | undefined): string {
-  if (!value) return "—";
-  return new Date(value).toLocaleString(undefined, { year: "numeric", month: "short", day: "numeric", hour: "2-digit", minute: "2-digit" });
-}
+export { shortInstant as when } from "../../../lib/format";

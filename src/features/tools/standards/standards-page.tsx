@@ -18,6 +18,7 @@ import { applyFieldErrors, asNumber, decimalInput, fileInputClass } from "../lib
 import { len } from "../lib/format";
 import { CertificateFields } from "./certificate-fields";
 import { InCalibrationBadge } from "./in-calibration-badge";
+import { FilterSelect } from "../../../components/ui/filter-select";
 
 export const standardKindLabel = (k: string) => (k === "check_block" ? "Check block" : (KIND_LABELS as Record<string, string>)[k] ?? k);
 
@@ -66,11 +67,14 @@ export function StandardsPage() {
           toolbar={
             <>
               <DebouncedInput aria-label="Search standards" placeholder="Search tag or name" className="rounded-md border border-paper-line px-3 py-1.5" value={list.filters.q} onValue={(v) => list.setFilter("q", v)} />
-              <select aria-label="Filter by calibration state" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.inCalibration} onChange={(e) => list.setFilter("inCalibration", e.target.value)}>
-                <option value="">In calibration or not</option>
-                <option value="true">In calibration</option>
-                <option value="false">Not in calibration</option>
-              </select>
+              <FilterSelect
+                label="Filter by calibration state"
+                all="In calibration or not"
+                options={["true", "false"]}
+                labels={{ true: "In calibration", false: "Not in calibration" }}
+                value={list.filters.inCalibration}
+                onChange={(v) => list.setFilter("inCalibration", v)}
+              />
             </>
           }
         />

@@ -11,6 +11,7 @@ import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
+import { FilterSelect } from "../../../components/ui/filter-select";
 
 const col = createColumnHelper<UserDetail>();
 
@@ -90,14 +91,7 @@ export function UsersPage() {
           toolbar={
             <>
               <input aria-label="Search people" placeholder="Search name or e-mail" className="rounded-md border border-paper-line px-3 py-1.5" defaultValue={list.filters.q} onChange={(e) => list.setFilter("q", e.target.value)} />
-              <select aria-label="Filter by role" className="rounded-md border border-paper-line px-2 py-1.5" value={list.filters.role} onChange={(e) => list.setFilter("role", e.target.value)}>
-                <option value="">All roles</option>
-                {ROLES.map((r) => (
-                  <option key={r} value={r}>
-                    {ROLE_LABELS[r]}
-                  </option>
-                ))}
-              </select>
+              <FilterSelect label="Filter by role" all="All roles" options={ROLES} labels={ROLE_LABELS} value={list.filters.role} onChange={(v) => list.setFilter("role", v)} />
             </>
           }
         />
