@@ -1,18 +1,19 @@
 import multer from "multer";
 import type { NextFunction, Request, Response } from "express";
-import type { AppError } from "./errors";
+import { AppError } from "./errors";
 
 /**
  * Parses a multipart body with at most one file, in `field`, into memory (req.file). A file over
  * `maxBytes` reaches the error handler as 413 file_too_large; any other upload error becomes what
- * `badUpload` answers for it (400 in practice), or goes on as it is when it answers nothing.
+ * `badUpload` answers for it, or else a 400 saying what to send: a body the server cannot read is bad
+ * input, never a server error.
  */
 export function singleFileUpload(field: string, maxBytes: number, badUpload?: (err: unknown) => AppError | undefined) {
   const single = multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: 1 } }).single(field);
   return (req: Request, res: Response, next: NextFunction) =>
     single(req, res, (err?: unknown) => {
       if (!err || (err instanceof multer.MulterError && err.code === "LIMIT_FILE_SIZE")) return next(err);
-      next(badUpload?.(err) ?? err);
+      next(badUpload?.(err) ?? new AppError("invalid_upload", 400, `The upload could not be read: send one file in the field "${field}".`));
     });
 }
 

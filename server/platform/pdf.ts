@@ -33,7 +33,8 @@ export function printedInstant(iso: string, timeZone: string, opts: { seconds?: 
     hour: "2-digit",
     minute: "2-digit",
     ...(opts.seconds ? { second: "2-digit" } : {}),
-    hour12: false,
+    // h23, not hour12: false — Node 20 prints midnight as 24:05 with the latter.
+    hourCycle: "h23",
   })
     .format(new Date(iso))
     .replace(",", "");

@@ -2,22 +2,21 @@ import { RESULT_LABELS } from "../../../../shared/calibrations/calibrations.sche
 import type { CalibrationResult } from "../../../../shared/calibrations/decision-rules";
 import { MINIMUM_TUR } from "../../../../shared/calibrations/decision-rules";
 import { cx } from "../../../components/ui/cx";
+import { MarkBadge, type BadgeTone } from "../../../components/ui/status-badge";
 
-const LOOK: Record<CalibrationResult, { cls: string; mark: string }> = {
-  pass: { cls: "border-go/40 bg-go-light text-go", mark: "✓" },
-  adjusted: { cls: "border-caution/40 bg-caution-light text-caution", mark: "!" },
-  limited: { cls: "border-caution/40 bg-caution-light text-caution", mark: "!" },
-  fail: { cls: "border-stop/40 bg-stop-light text-stop", mark: "✕" },
+const LOOK: Record<CalibrationResult, { tone: BadgeTone; mark: string }> = {
+  pass: { tone: "go", mark: "✓" },
+  adjusted: { tone: "caution", mark: "!" },
+  limited: { tone: "caution", mark: "!" },
+  fail: { tone: "stop", mark: "✕" },
 };
 
 /** A calibration's overall result in words with a mark. */
 export function ResultBadge({ result, className }: { result: CalibrationResult; className?: string }) {
-  const l = LOOK[result];
   return (
-    <span className={cx("inline-flex items-center gap-1 whitespace-nowrap rounded-full border px-2 py-0.5 text-xs font-semibold", l.cls, className)}>
-      <span aria-hidden="true">{l.mark}</span>
+    <MarkBadge {...LOOK[result]} className={className}>
       {RESULT_LABELS[result]}
-    </span>
+    </MarkBadge>
   );
 }
 
