@@ -54,8 +54,9 @@ describe("counts on the overview open the lists they count", () => {
     // Clearing the chip widens the list to every tool out.
     await custody.chips.getByRole("button", { name: "Clear filter Not returned by their due-back time" }).click();
     await page.waitForURL((u) => !u.search.includes("overdue"));
-    await expect(page.getByRole("group", { name: "Active filters" }).count()).resolves.toBe(0);
-    await expect(page.getByRole("checkbox", { name: "Only not back in time" }).isChecked()).resolves.toBe(false);
+    // The address changes a moment before the page re-renders: wait for the page, not the address.
+    await expect.poll(() => page.getByRole("group", { name: "Active filters" }).count()).toBe(0);
+    await expect.poll(() => page.getByRole("checkbox", { name: "Only not back in time" }).isChecked()).toBe(false);
 
     // Open investigations → the investigations list, open ones only.
     const openInvestigations = await openTile(page, "Open investigations", /\/investigations\?status=open/);
@@ -77,7 +78,7 @@ describe("counts on the overview open the lists they count", () => {
     await b.screenshot(page, "overview-links-awaiting-signature");
     await sheets.chips.getByRole("button", { name: "Clear filter Awaiting signature" }).click();
     await page.waitForURL((u) => !u.search.includes("status"));
-    await expect(page.getByRole("combobox", { name: "Status" }).inputValue()).resolves.toBe("");
+    await expect.poll(() => page.getByRole("combobox", { name: "Status" }).inputValue()).toBe("");
 
     expect(errors).toEqual([]);
   });
@@ -94,7 +95,7 @@ describe("counts on the overview open the lists they count", () => {
     await b.screenshot(page, "overview-links-tool-investigations-phone");
     await inv.chips.getByRole("button", { name: "Clear filter Tool MIC-0104" }).click();
     await page.waitForURL((u) => !u.search.includes("toolAssetTag"));
-    await expect(page.getByRole("textbox", { name: "Filter by tool asset tag" }).inputValue()).resolves.toBe("");
+    await expect.poll(() => page.getByRole("textbox", { name: "Filter by tool asset tag" }).inputValue()).toBe("");
     expect(errors).toEqual([]);
   });
 });
