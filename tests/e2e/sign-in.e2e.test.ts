@@ -41,7 +41,7 @@ describe("signing in to Tenthwise in the browser", () => {
     await b.signIn(page, "mechanic");
     await expect(page.getByRole("navigation", { name: "Main" }).isVisible()).resolves.toBe(false);
     await page.getByRole("button", { name: "Menu" }).click();
-    await expect(page.getByRole("navigation", { name: "Main" }).isVisible()).resolves.toBe(true);
+    await expect.poll(() => page.getByRole("navigation", { name: "Main" }).isVisible()).toBe(true);
     await b.screenshot(page, "phone-menu-mechanic");
     await context.close();
   });
