@@ -126,3 +126,8 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
     </div>
   );
 }
+
+/** The paging props a DataTable takes from a page query ({ items, total }) and the URL's list state. */
+export function pagedProps<T>(query: { data?: { items: T[]; total: number }; isPending: boolean }, list: { page: number; setPage: (page: number) => void }, pageSize: number) {
+  return { data: query.data?.items ?? [], total: query.data?.total ?? 0, page: list.page, pageSize, onPageChange: list.setPage, loading: query.isPending };
+}

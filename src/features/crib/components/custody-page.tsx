@@ -1,6 +1,6 @@
 import { createColumnHelper } from "@tanstack/react-table";
 import { PageHeader } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { StatusBadge } from "../../../components/ui/status-badge";
@@ -87,14 +87,9 @@ export function CustodyPage() {
       <DataTable
         label="Tools out of the crib"
         columns={columns}
-        data={rows.data?.items ?? []}
-        total={rows.data?.total ?? 0}
-        page={list.page}
-        pageSize={list.pageSize}
-        onPageChange={list.setPage}
+        {...pagedProps(rows, list, list.pageSize)}
         sorting={list.sorting}
         onSortingChange={list.setSorting}
-        loading={rows.isPending}
         rowKey={(r) => r.id}
         empty={<p className="text-center text-ink-faint">No tools are out.</p>}
         toolbar={

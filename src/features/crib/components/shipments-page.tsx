@@ -1,7 +1,7 @@
 import { useState } from "react";
 import { createColumnHelper } from "@tanstack/react-table";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { errorMessage } from "../../../lib/api-client";
@@ -99,12 +99,7 @@ export function ShipmentsPage() {
       <DataTable
         label="Tools away at outside labs"
         columns={columns}
-        data={shipments.data?.items ?? []}
-        total={shipments.data?.total ?? 0}
-        page={list.page}
-        pageSize={list.pageSize}
-        onPageChange={list.setPage}
-        loading={shipments.isPending}
+        {...pagedProps(shipments, list, list.pageSize)}
         rowKey={(r) => r.id}
         empty={<p className="text-center text-ink-faint">No tools are away.</p>}
         toolbar={<TextField label="Search" placeholder="Tag, lab, PO" value={list.filters.q} onChange={(e) => list.setFilter("q", e.target.value)} />}

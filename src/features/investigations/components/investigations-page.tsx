@@ -3,7 +3,7 @@ import { createColumnHelper } from "@tanstack/react-table";
 import { TRIGGER_LABELS, type InvestigationSummary } from "../../../../shared/investigations/investigations.schemas";
 import { useInvestigations } from "../api/investigations";
 import { PageHeader, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { Cautions } from "../../../components/ui/cautions";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
@@ -65,12 +65,7 @@ export function InvestigationsPage() {
       <DataTable
         label="Investigations"
         columns={columns}
-        data={q.data?.items ?? []}
-        total={q.data?.total ?? 0}
-        page={list.page}
-        pageSize={PAGE_SIZE}
-        onPageChange={list.setPage}
-        loading={q.isPending}
+        {...pagedProps(q, list, PAGE_SIZE)}
         rowKey={(r) => r.id}
         initialHidden={["description"]}
         empty="No investigation matches. One opens by itself when a tool is found out of tolerance."

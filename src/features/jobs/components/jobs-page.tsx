@@ -6,7 +6,7 @@ import { CreateJobSchema, JOB_LIST_STATUS_LABELS, JOB_LIST_STATUSES, type Create
 import { useJobs, useOpenJob } from "../api/jobs";
 import { useLimitTables } from "../../limit-tables/api/limit-tables";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { errorMessage } from "../../../lib/api-client";
@@ -71,14 +71,9 @@ export function JobsPage() {
           <DataTable
             label="Jobs"
             columns={columns}
-            data={jobs.data?.items ?? []}
-            total={jobs.data?.total ?? 0}
-            page={list.page}
-            pageSize={50}
-            onPageChange={list.setPage}
+            {...pagedProps(jobs, list, 50)}
             sorting={list.sorting}
             onSortingChange={list.setSorting}
-            loading={jobs.isPending}
             rowKey={(j) => j.id}
             toolbar={
               <>

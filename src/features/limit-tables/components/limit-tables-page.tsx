@@ -3,7 +3,7 @@ import { createColumnHelper } from "@tanstack/react-table";
 import type { LimitTableSummary } from "../../../../shared/limit-tables/limit-tables.schemas";
 import { useLimitTables } from "../api/limit-tables";
 import { PageHeader } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { ButtonLink } from "../../../components/ui/button";
 import { useListParams } from "../../../lib/use-list-params";
 import { useCan } from "../../auth/api/auth";
@@ -34,14 +34,9 @@ export function LimitTablesPage() {
       <DataTable
         label="Limits tables"
         columns={columns}
-        data={tables.data?.items ?? []}
-        total={tables.data?.total ?? 0}
-        page={list.page}
-        pageSize={50}
-        onPageChange={list.setPage}
+        {...pagedProps(tables, list, 50)}
         sorting={list.sorting}
         onSortingChange={list.setSorting}
-        loading={tables.isPending}
         rowKey={(r) => r.id}
         toolbar={
           <>

@@ -4,7 +4,7 @@ import { useQuery } from "@tanstack/react-query";
 import { createColumnHelper } from "@tanstack/react-table";
 import { useReminderRun, useReminderRuns, useRunRemindersNow } from "../api/reminders";
 import { PageHeader, Card, ErrorNote, Loading } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { Button, ButtonLink } from "../../../components/ui/button";
 import { api, errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
@@ -92,12 +92,7 @@ export function ReminderRunsPage() {
       <DataTable
         label="Reminder runs"
         columns={columns}
-        data={runs.data?.items ?? []}
-        total={runs.data?.total ?? 0}
-        page={list.page}
-        pageSize={20}
-        onPageChange={list.setPage}
-        loading={runs.isPending}
+        {...pagedProps(runs, list, 20)}
         rowKey={(r) => r.id}
         empty={<p className="text-center text-ink-faint">No runs yet. The first scheduled run, or "Run reminders now", will appear here.</p>}
         initialHidden={["error"]}

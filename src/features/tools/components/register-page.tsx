@@ -8,7 +8,7 @@ import { usePeople } from "../../users/api/users";
 import { toolsCsvUrl, useToolLocations, useTools } from "../api/tools";
 import { useAllFamilies } from "../api/families";
 import { PageHeader, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { ButtonLink } from "../../../components/ui/button";
 import { StatusBadge } from "../../../components/ui/status-badge";
 import { cx } from "../../../components/ui/cx";
@@ -100,11 +100,7 @@ export function RegisterPage() {
       <DataTable
         label="Tool register"
         columns={columns}
-        data={tools.data?.items ?? []}
-        total={tools.data?.total ?? 0}
-        page={list.page}
-        pageSize={PAGE_SIZE}
-        onPageChange={list.setPage}
+        {...pagedProps(tools, list, PAGE_SIZE)}
         sorting={list.sorting}
         onSortingChange={list.setSorting}
         loading={tools.isFetching}

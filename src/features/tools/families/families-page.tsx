@@ -5,7 +5,7 @@ import { CreateFamilySchema, KIND_LABELS, TOOL_KINDS, type CreateFamilyInput, ty
 import { useCan } from "../../auth/api/auth";
 import { useCreateFamily, useFamilies } from "../api/families";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { ApiError, errorMessage } from "../../../lib/api-client";
@@ -44,12 +44,7 @@ export function FamiliesPage() {
         <DataTable
           label="Tool families"
           columns={columns}
-          data={families.data?.items ?? []}
-          total={families.data?.total ?? 0}
-          page={list.page}
-          pageSize={50}
-          onPageChange={list.setPage}
-          loading={families.isPending}
+          {...pagedProps(families, list, 50)}
           rowKey={(f) => f.id}
           toolbar={
             <>

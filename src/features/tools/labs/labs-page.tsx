@@ -5,7 +5,7 @@ import { CreateLabSchema, type AccreditationState, type CreateLabInput, type Lab
 import { useCan } from "../../auth/api/auth";
 import { useCreateLab, useLabs } from "../api/labs";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField, TextAreaField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { cx } from "../../../components/ui/cx";
@@ -53,12 +53,7 @@ export function LabsPage() {
         <DataTable
           label="Outside labs"
           columns={columns}
-          data={labs.data?.items ?? []}
-          total={labs.data?.total ?? 0}
-          page={list.page}
-          pageSize={50}
-          onPageChange={list.setPage}
-          loading={labs.isPending}
+          {...pagedProps(labs, list, 50)}
           rowKey={(l) => l.id}
           initialHidden={["contact"]}
           toolbar={<DebouncedInput aria-label="Search labs" placeholder="Search labs" className="rounded-md border border-paper-line px-3 py-1.5" value={list.filters.q} onValue={(v) => list.setFilter("q", v)} />}

@@ -8,7 +8,7 @@ import { KIND_LABELS } from "../../../../shared/families/families.schemas";
 import { useCan } from "../../auth/api/auth";
 import { useCreateStandard, useStandards, useUploadCertificateFile } from "../api/standards";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { ApiError, errorMessage } from "../../../lib/api-client";
@@ -56,12 +56,7 @@ export function StandardsPage() {
         <DataTable
           label="Reference standards"
           columns={columns}
-          data={standards.data?.items ?? []}
-          total={standards.data?.total ?? 0}
-          page={list.page}
-          pageSize={50}
-          onPageChange={list.setPage}
-          loading={standards.isPending}
+          {...pagedProps(standards, list, 50)}
           rowKey={(s) => s.id}
           initialHidden={["location", "grade"]}
           toolbar={

@@ -6,7 +6,7 @@ import { CreateUserSchema, type CreateUserInput, type UserDetail } from "../../.
 import { ROLES, ROLE_LABELS, type Role } from "../../../../shared/auth/roles";
 import { useCreateUser, useResetPassword, useUpdateUser, useUsers } from "../api/users";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
-import { DataTable } from "../../../components/ui/data-table";
+import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
 import { errorMessage } from "../../../lib/api-client";
@@ -81,12 +81,7 @@ export function UsersPage() {
         <DataTable
           label="People"
           columns={columns}
-          data={users.data?.items ?? []}
-          total={users.data?.total ?? 0}
-          page={list.page}
-          pageSize={50}
-          onPageChange={list.setPage}
-          loading={users.isPending}
+          {...pagedProps(users, list, 50)}
           rowKey={(u) => u.id}
           toolbar={
             <>
