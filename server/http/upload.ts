@@ -1,5 +1,7 @@
 import multer from "multer";
-import type { NextFunction, Request, Response } from "express";
+import type { NextFunction, Request, RequestHandler, Response } from "express";
+import { can, type Permission } from "../../shared/auth/roles";
+import type { SessionUser } from "./route";
 import { AppError } from "./errors";
 
 /**
@@ -19,3 +21,11 @@ export function singleFileUpload(field: string, maxBytes: number, badUpload?: (e
 
 /** Multer's own refusals (unexpected field, too many files…), as opposed to a body it could not read at all. */
 export const isMulterError = (err: unknown): err is multer.MulterError => err instanceof multer.MulterError;
+
+/**
+ * Runs an upload parser only for a signed-in person whose role may use the route; anyone else
+ * falls through unread to the route, whose guard answers 401 or 403 — no stranger's file is read.
+ */
+export function uploadOnlyFor(permission: Permission, parse: RequestHandler): RequestHandler {
+  return (req, res, next) => (can((req.user as SessionUser | undefined)?.role, permission) ? parse(req, res, next) : next());
+}

@@ -3,7 +3,7 @@ import { z } from "zod";
 import type { AppDeps } from "../../app";
 import { defineRoutes } from "../../http/route";
 import { AppError } from "../../http/errors";
-import { isMulterError, singleFileUpload } from "../../http/upload";
+import { isMulterError, singleFileUpload, uploadOnlyFor } from "../../http/upload";
 import { pageOf } from "../../../shared/common/lists.schemas";
 import {
   CheckoutListQuerySchema,
@@ -29,9 +29,8 @@ function photoUpload() {
   const single = singleFileUpload("photo", PHOTO_LIMIT, (err) =>
     isMulterError(err) ? new AppError("invalid_input", 400, `The upload is not as expected: ${err.message}. Send one image in the field "photo".`) : undefined,
   );
-  return (req: Request, res: Response, next: NextFunction) => {
-    // Nothing is read from strangers: the route answers 401 before any upload is parsed.
-    if (!req.is("multipart/form-data") || !req.user) return next();
+  return uploadOnlyFor("checkouts.write", (req: Request, res: Response, next: NextFunction) => {
+    if (!req.is("multipart/form-data")) return next();
     single(req, res, (err?: unknown) => {
       if (err) return next(err);
       const fields = (req.body ?? {}) as Record<string, string>;
@@ -46,7 +45,7 @@ function photoUpload() {
       req.body = { condition: fields.condition, note: fields.note, ...(zeroCheck === undefined ? {} : { zeroCheck }) };
       next();
     });
-  };
+  });
 }
 
 export function checkoutsRoutes(deps: AppDeps) {

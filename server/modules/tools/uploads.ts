@@ -1,9 +1,8 @@
-import type { Request, Response, NextFunction, Router } from "express";
-import { can, type Permission } from "../../../shared/auth/roles";
-import { AppError, Errors } from "../../http/errors";
-import type { SessionUser } from "../../http/route";
+import type { Request, Response, Router } from "express";
+import type { Permission } from "../../../shared/auth/roles";
+import { AppError } from "../../http/errors";
 import type { ObjectStorage } from "../../platform/storage";
-import { singleFileUpload } from "../../http/upload";
+import { singleFileUpload, uploadOnlyFor } from "../../http/upload";
 
 export const MAX_UPLOAD_BYTES = 10 * 1024 * 1024;
 const upload = singleFileUpload("file", MAX_UPLOAD_BYTES);
@@ -21,12 +20,7 @@ const SIGNATURES: { type: string; test: (b: Buffer) => boolean }[] = [
  * route declared next with defineRoutes; the role is checked before the upload is read.
  */
 export function acceptFileUpload(router: Router, path: string, permission: Permission) {
-  router.post(path, (req: Request, res: Response, next: NextFunction) => {
-    const user = req.user as SessionUser | undefined;
-    if (!user) return next(Errors.notSignedIn());
-    if (!can(user.role, permission)) return next(Errors.forbidden(`Your role (${user.role}) may not do this.`));
-    upload(req, res, next);
-  });
+  router.post(path, uploadOnlyFor(permission, upload));
 }
 
 /** The uploaded file with its recognised content type; 400 when missing or not a PDF/image. */

@@ -1,10 +1,9 @@
 import { Router, type Request, type Response } from "express";
 import { ZodError } from "zod";
-import { defineRoutes, type SessionUser } from "../../http/route";
-import { can } from "../../../shared/auth/roles";
+import { defineRoutes } from "../../http/route";
 import type { AppDeps } from "../../app";
 import { AppError } from "../../http/errors";
-import { singleFileUpload } from "../../http/upload";
+import { singleFileUpload, uploadOnlyFor } from "../../http/upload";
 import { decodeCsv, transfersService, type Progress } from "./transfers.service";
 import { CommitResultSchema, DryRunResultSchema, ImportRequestSchema, type ImportStreamLine } from "../../../shared/transfers/transfers.schemas";
 import { calendarDate } from "../../../shared/common/dates";
@@ -58,11 +57,7 @@ export function transfersRoutes(deps: AppDeps) {
   const route = defineRoutes(router, deps.registry, "transfers");
   const service = transfersService({ db: deps.db, clock: deps.clock, timeZone: deps.config.SHOP_TIME_ZONE });
 
-  // The file is read only for a signed-in person who may import (route() checks again before any work).
-  const guardAndParse = (req: Request, res: Response, next: (err?: unknown) => void) => {
-    if (!can((req.user as SessionUser | undefined)?.role, "import.run")) return next();
-    return upload(req, res, next);
-  };
+  const guardAndParse = uploadOnlyFor("import.run", upload);
   router.post("/api/imports/dry-run", guardAndParse);
   router.post("/api/imports/commit", guardAndParse);
 
