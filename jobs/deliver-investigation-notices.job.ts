@@ -1,5 +1,5 @@
 import cron from "node-cron";
-import type { AppDeps } from "../server/app";
+import type { AppDeps } from "../server/app-deps";
 import { deliverPendingNotices } from "../server/modules/investigations/investigations.notify";
 
 /**

@@ -1,4 +1,4 @@
-import type { AppDeps } from "../server/app";
+import type { AppDeps } from "../server/app-deps";
 import { startReminderSchedule } from "./reminder-schedule";
 import { startInvestigationNoticeSweep } from "./deliver-investigation-notices.job";
 

@@ -5,34 +5,14 @@ import session from "express-session";
 import connectPgSimple from "connect-pg-simple";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
-import { pino, type Logger } from "pino";
+import { pino } from "pino";
 import { csrfSync } from "csrf-sync";
-import type pg from "pg";
-import type { Db } from "./db/client";
-import type { Config } from "./config";
-import type { Clock } from "./platform/clock";
-import type { Mailer } from "./platform/mailer";
-import type { ObjectStorage } from "./platform/storage";
 import { OpenApiRegistry } from "./openapi/registry";
 import { errorHandler } from "./http/error-handler";
 import { Errors } from "./http/errors";
 import { authRoutes, configurePassport } from "./auth/auth.routes";
 import { moduleRouters } from "./modules";
-
-/** What the app is built from; tests pass their own database, clock, mailer and storage. */
-export interface AppServices {
-  db: Db;
-  pool: pg.Pool;
-  config: Config;
-  clock: Clock;
-  mailer: Mailer;
-  storage: ObjectStorage;
-  logger?: Logger;
-  /** Folder of the built client; served when it exists. */
-  clientDir?: string;
-}
-
-export type AppDeps = AppServices & { registry: OpenApiRegistry; logger: Logger };
+import type { AppDeps, AppServices } from "./app-deps";
 
 /** Builds the Express app; only server/index.ts listens. */
 export function createApp(services: AppServices) {

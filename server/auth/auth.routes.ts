@@ -3,7 +3,7 @@ import { Passport } from "passport";
 import { Strategy as LocalStrategy } from "passport-local";
 import { rateLimit, ipKeyGenerator } from "express-rate-limit";
 import { defineRoutes, type SessionUser } from "../http/route";
-import type { AppDeps } from "../app";
+import type { AppDeps } from "../app-deps";
 import { usersService } from "../modules/users/users.service";
 import { usersRepository } from "../modules/users/users.repository";
 import { LoginSchema, UserSchema } from "../../shared/users/users.schemas";

@@ -1,5 +1,5 @@
 import type { Router } from "express";
-import type { AppDeps } from "../app";
+import type { AppDeps } from "../app-deps";
 import { usersRoutes } from "./users/users.routes";
 import { settingsRoutes } from "./settings/settings.routes";
 import { familiesRoutes } from "./families/families.routes";

@@ -1,7 +1,7 @@
 import { Router } from "express";
 import { sql } from "drizzle-orm";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { auditRepository } from "./audit.repository";
 import { AuditFacetsSchema, AuditPageSchema, AuditQuerySchema } from "../../../shared/audit/audit.schemas";
 import { getSettings } from "../settings/settings.service";

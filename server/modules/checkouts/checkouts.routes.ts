@@ -1,6 +1,6 @@
 import { Router, type NextFunction, type Request, type Response } from "express";
 import { z } from "zod";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { AppError } from "../../http/errors";
 import { isMulterError, singleFileUpload, uploadOnlyFor } from "../../http/upload";

@@ -1,5 +1,5 @@
 import { Router } from "express";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { pageOf } from "../../../shared/common/lists.schemas";
 import { CheckListQuerySchema, CheckResultSchema, CheckSchema, CreateCheckSchema } from "../../../shared/calibrations/calibrations.schemas";

@@ -1,5 +1,5 @@
 import { Router } from "express";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { pageOf } from "../../../shared/common/lists.schemas";
 import { CreateFamilySchema, FamilyListQuerySchema, FamilySchema, UpdateFamilySchema } from "../../../shared/families/families.schemas";

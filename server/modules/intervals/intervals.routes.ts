@@ -1,7 +1,7 @@
 import { Router } from "express";
 import { z } from "zod";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { intervalsService } from "./intervals.service";
 import { ApplyIntervalResultSchema, ApplyIntervalSchema, DriftSchema, IntervalAnalysisSchema, IntervalFamilySchema } from "../../../shared/intervals/intervals.schemas";
 

@@ -1,7 +1,7 @@
 import { Router } from "express";
 import { z } from "zod";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { pageOf } from "../../../shared/common/lists.schemas";
 import { CheckSheetSchema, CreateJobSchema, JobListQuerySchema, JobSummarySchema, SignJobSchema } from "../../../shared/jobs/jobs.schemas";
 import { jobsRepository } from "./jobs.repository";

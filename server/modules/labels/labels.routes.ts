@@ -1,5 +1,5 @@
 import { Router, type Request } from "express";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { CalibrationLabelsQuerySchema, CalibrationLabelsSchema, DoNotUseQuerySchema, DoNotUseTagSchema } from "../../../shared/checkouts/labels.schemas";
 import { labelsService } from "./labels.service";

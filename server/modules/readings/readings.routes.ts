@@ -1,7 +1,7 @@
 import { Router } from "express";
 import { z } from "zod";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { CreateReadingSchema, FeelerLeavesQuerySchema, FeelerLeavesSchema, ReadingResultSchema, SupersedeReadingSchema } from "../../../shared/readings/readings.schemas";
 import { readingsService } from "./readings.service";
 

@@ -1,5 +1,5 @@
 import { Router } from "express";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { runReminders } from "./reminders.service";
 import { listReminderRuns, reminderRunDetail } from "./reminder-runs.service";

@@ -1,6 +1,6 @@
 import { Router } from "express";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { getSettings, updateSettings } from "./settings.service";
 import { SettingsSchema, UpdateSettingsSchema } from "../../../shared/settings/settings.schemas";
 

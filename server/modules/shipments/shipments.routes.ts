@@ -1,6 +1,6 @@
 import { Router } from "express";
 import { z } from "zod";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { pageOf } from "../../../shared/common/lists.schemas";
 import {

@@ -1,6 +1,6 @@
 import { Router } from "express";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { statsService } from "./stats.service";
 import { StatsDashboardSchema, StatsInspectionSchema, StatsMineSchema, StatsOverviewSchema } from "../../../shared/stats/stats.schemas";
 

@@ -1,7 +1,7 @@
 import { Router, type Request, type Response } from "express";
 import { ZodError } from "zod";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { AppError } from "../../http/errors";
 import { singleFileUpload, uploadOnlyFor } from "../../http/upload";
 import { decodeCsv, transfersService, type Progress } from "./transfers.service";

@@ -1,7 +1,7 @@
 import { Router } from "express";
 import { z } from "zod";
 import { defineRoutes } from "../../http/route";
-import type { AppDeps } from "../../app";
+import type { AppDeps } from "../../app-deps";
 import { usersService } from "./users.service";
 import { usersRepository } from "./users.repository";
 import { toUserDetail } from "./users.service";
