@@ -1,4 +1,7 @@
 import jStat from "jstat";
+import type { ComponentKey, Verdict } from "./study-labels";
+
+export { COMPONENT_LABELS, VERDICT_LABELS, type ComponentKey, type Verdict } from "./study-labels";
 
 // Gauge repeatability and reproducibility, crossed design: every appraiser measures every part the same number
 // of times. Statistics are estimates, so plain floating point is right here (lengths judged against a limit use
@@ -7,18 +10,6 @@ import jStat from "jstat";
 
 /** Values as [part][appraiser][trial], in one unit. */
 export type StudyGrid = number[][][];
-
-export type ComponentKey = "repeatability" | "reproducibility" | "appraiser" | "interaction" | "grr" | "part" | "total";
-
-export const COMPONENT_LABELS: Record<ComponentKey, string> = {
-  repeatability: "Repeatability (equipment variation, EV)",
-  reproducibility: "Reproducibility (appraiser variation, AV)",
-  appraiser: "Appraiser",
-  interaction: "Appraiser × part",
-  grr: "Gauge R&R (GRR)",
-  part: "Part-to-part (PV)",
-  total: "Total variation (TV)",
-};
 
 export interface VarianceComponent {
   key: ComponentKey;
@@ -41,14 +32,6 @@ export interface AnovaRow {
   f: number | null;
   p: number | null;
 }
-
-export type Verdict = "acceptable" | "conditional" | "not_acceptable";
-
-export const VERDICT_LABELS: Record<Verdict, string> = {
-  acceptable: "Acceptable",
-  conditional: "Conditional — may be acceptable for some uses",
-  not_acceptable: "Not acceptable",
-};
 
 export interface VerdictResult {
   verdict: Verdict;

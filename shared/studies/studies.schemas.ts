@@ -261,4 +261,4 @@ export type StudyGaps = z.infer<typeof StudyGapsSchema>;
 /** The reading flag a characteristic carries when read with a tool family whose latest study is not acceptable. */
 export const STUDY_READING_FLAG = "gauge_study_not_acceptable" as const;
 
-export { VERDICT_LABELS } from "./gauge-study-analysis";
+export { VERDICT_LABELS, COMPONENT_LABELS } from "./study-labels";
