@@ -16,15 +16,20 @@ import type { UserRow } from "../modules/users/users.repository";
 const DAY = 86_400_000;
 const sessionUser = (u: UserRow): SessionUser => ({ id: u.id, email: u.email, name: u.name, role: u.role });
 
-/** Invented readings: a true size per part, a small bias per appraiser, scatter, read to the tool's 0.0001 in. */
+/**
+ * Invented readings: a true size per part, a small bias per appraiser, scatter, read to the tool's 0.0001 in. Each
+ * value depends only on its part, appraiser and trial, so the demo's results are the same whatever order is drawn.
+ */
 function inventedReader(seed: string, sizes: number[], bias: number[], scatter: number) {
-  const rng = seedrandom(seed);
-  // A sum of uniforms looks enough like bench scatter for a demonstration.
-  const noise = () => (rng() + rng() + rng() - 1.5) * scatter;
-  return (part: number, appraiser: number) => Number((sizes[part - 1] + bias[appraiser] + noise()).toFixed(4));
+  return (part: number, appraiser: number, trial: number) => {
+    const rng = seedrandom(`${seed}/${part}/${appraiser}/${trial}`);
+    // A sum of uniforms looks enough like bench scatter for a demonstration.
+    const noise = (rng() + rng() + rng() - 1.5) * scatter;
+    return Number((sizes[part - 1] + bias[appraiser] + noise).toFixed(4));
+  };
 }
 
-async function takeAll(ctx: SeedContext, studyId: string, people: UserRow[], tools: string[], read: (part: number, appraiser: number) => number, start: Date, stopAfter: number[] = []) {
+async function takeAll(ctx: SeedContext, studyId: string, people: UserRow[], tools: string[], read: (part: number, appraiser: number, trial: number) => number, start: Date, stopAfter: number[] = []) {
   const clock = fixedClock(start);
   const service = studiesService({ db: ctx.db, clock, config: ctx.config });
   for (const [j, person] of people.entries()) {
@@ -34,7 +39,7 @@ async function takeAll(ctx: SeedContext, studyId: string, people: UserRow[], too
       const s = await service.session(studyId, user);
       if (!s.prompt || (stopAfter[j] != null && done >= stopAfter[j])) break;
       clock.set(new Date(clock.now().getTime() + 70_000));
-      await service.record(studyId, { part: s.prompt.part, trial: s.prompt.trial, value: read(s.prompt.part, j), toolAssetTags: [tools[j]] }, user);
+      await service.record(studyId, { part: s.prompt.part, trial: s.prompt.trial, value: read(s.prompt.part, j, s.prompt.trial), toolAssetTags: [tools[j]] }, user);
       done++;
     }
     clock.set(new Date(clock.now().getTime() + 40 * 60_000));

@@ -28,7 +28,7 @@ describe("gauge studies in the demo shop", () => {
     await card.getByRole("link", { name: "GRR-0001" }).click();
     await page.getByRole("heading", { name: /GRR-0001 — Piston pin dia\./ }).waitFor();
     await expect(page.getByRole("note").filter({ hasText: "Demo study" }).count()).resolves.toBe(1);
-    await page.getByRole("region", { name: "Verdict" }).getByText(/of the tolerance/).waitFor();
+    await page.getByRole("region", { name: "Verdict" }).getByText(/^GRR [\d.]+ % of the tolerance · ndc \d+$/).waitFor();
     await page.locator(".recharts-surface").first().waitFor();
     await app.screenshot(page, "studies-demo-finished");
     expect(errors).toEqual([]);
