@@ -1,6 +1,6 @@
 import { newPdf, printedInstant } from "../../platform/pdf";
 import { CAUTIONS } from "../../../shared/common/cautions";
-import { COMPONENT_LABELS, VERDICT_LABELS } from "../../../shared/studies/gauge-study-analysis";
+import { VERDICT_LABELS } from "../../../shared/studies/study-labels";
 import type { StudyAnalysis, StudyDetail } from "../../../shared/studies/studies.schemas";
 
 type Doc = PDFKit.PDFDocument;
@@ -101,7 +101,7 @@ function componentsChart(doc: Doc, box: { x: number; y: number; w: number; h: nu
     doc.fillColor("#333").text(b.name, x + i * 95 + 10, y + 13.5);
   });
   doc.save().lineWidth(0.5).strokeColor("#999").moveTo(left, top).lineTo(left, top + plotH).lineTo(left + plotW, top + plotH).stroke().restore();
-  for (const t of [0, 50, 100, ...(max > 100 ? [max] : [])]) doc.fillColor("#333").text(`${Math.round(t)}`, x, top + plotH - (plotH * t) / max - 3, { width: 26, align: "right" });
+  for (const t of [0, 50, ...(max < 110 ? [100] : [100, max])]) doc.fillColor("#333").text(`${Math.round(t)}`, x, top + plotH - (plotH * t) / max - 3, { width: 26, align: "right" });
   for (const t of [10, 30]) {
     const yy = top + plotH - (plotH * t) / max;
     doc.save().lineWidth(0.5).dash(2, { space: 2 }).strokeColor("#b3261e").moveTo(left, yy).lineTo(left + plotW, yy).stroke().undash().restore();
@@ -159,7 +159,7 @@ export function writeStudyPdf(s: StudyDetail, printedAt: Date, tz: string): Prom
 
     heading("ANOVA method (two-way random effects, parts × appraisers)");
     doc.text(
-      `Interaction p = ${fmt(a.anova.pInteraction, 4)} against α = ${a.anova.alpha}: ${a.anova.pooled ? "pooled into repeatability" : "kept in the model"}.` +
+      `Interaction p = ${fmt(a.anova.pInteraction, 4)} against alpha = ${a.anova.alpha}: ${a.anova.pooled ? "pooled into repeatability" : "kept in the model"}.` +
         (a.anova.negativeSetToZero.length ? ` Negative estimates set to zero: ${a.anova.negativeSetToZero.join(", ")}.` : ""),
     );
     const cols = [44, 150, 190, 270, 340, 400];
@@ -172,21 +172,23 @@ export function writeStudyPdf(s: StudyDetail, printedAt: Date, tz: string): Prom
     tableRow(["Source", "df", "SS", "MS", "F", "p"], true);
     for (const r of a.anova.table) tableRow([r.source, String(r.df), fmt(r.ss, 6), fmt(r.ms, 6), fmt(r.f, 4), r.p == null ? "" : fmt(r.p, 3)]);
     doc.moveDown(0.4);
-    const ccols = [44, 210, 280, 340, 400, 470];
+    // The report's font carries Latin only: short names, and SD for the standard deviation.
+    const SHORT: Record<string, string> = { repeatability: "Repeatability (EV)", reproducibility: "Reproducibility (AV)", appraiser: "Appraiser", interaction: "Appraiser × part", grr: "Gauge R&R (GRR)", part: "Part-to-part (PV)", total: "Total variation (TV)" };
+    const ccols = [44, 165, 245, 320, 395, 460];
     const compRow = (cells: string[], bold = false) => {
       const yy = doc.y;
       doc.font(bold ? "bold" : "body");
       cells.forEach((t, i) => doc.text(t, ccols[i], yy, { width: (ccols[i + 1] ?? 560) - ccols[i] - 4, lineBreak: false }));
       doc.font("body").text("", 44, yy + 11);
     };
-    compRow(["Component", "Variance", `σ (${u})`, "% contribution", "% of TV", "% of tolerance"], true);
-    for (const k of a.anova.components) compRow([COMPONENT_LABELS[k.key], fmt(k.variance, 6), fmt(k.sd, 6), pct(k.percentContribution), pct(k.percentTotalVariation), pct(k.percentTolerance)]);
-    doc.text(`Number of distinct categories: ${a.anova.ndc ?? "—"} (1.41 · σ part / σ GRR, truncated).`, 44);
+    compRow(["Component", "Variance", `SD (${u})`, "% contribution", "% of TV", "% of tolerance"], true);
+    for (const k of a.anova.components) compRow([SHORT[k.key], fmt(k.variance, 6), fmt(k.sd, 6), pct(k.percentContribution), pct(k.percentTotalVariation), pct(k.percentTolerance)]);
+    doc.text(`Number of distinct categories: ${a.anova.ndc ?? "—"} (1.41 × SD part / SD GRR, truncated).`, 44);
 
     heading("Average-and-range method");
     const ar = a.averageRange;
     doc.text(
-      `R̄ by appraiser ${ar.rangeByAppraiser.map((r, i) => `${LETTERS[i]} ${fmt(r, 4)}`).join(", ")}; R̿ ${fmt(ar.rBarBar, 6)}; X̄diff ${fmt(ar.xBarDiff, 6)}; Rp ${fmt(ar.partRange, 6)}; ` +
+      `Average range by appraiser ${ar.rangeByAppraiser.map((r, i) => `${LETTERS[i]} ${fmt(r, 4)}`).join(", ")}; overall ${fmt(ar.rBarBar, 6)}; spread of appraiser averages ${fmt(ar.xBarDiff, 6)}; range of part averages ${fmt(ar.partRange, 6)}; ` +
         `K1 ${ar.constants.K1}, K2 ${ar.constants.K2}, K3 ${ar.constants.K3}.`,
     );
     doc.text(
@@ -203,15 +205,15 @@ export function writeStudyPdf(s: StudyDetail, printedAt: Date, tz: string): Prom
       s.appraisers.map((ap, j) => ({ name: ap.name, shape: j, colour: COLOURS[j], joined: true, points: pts.filter((p) => p.appraiser === j).map((p) => ({ x: j * parts + p.part + 1, y: p.value })) }));
     const xLabels = Array.from({ length: parts * nA }, (_, i) => ({ x: i + 1, label: String((i % parts) + 1) }));
     lineChart(doc, { x: 44, y: 70, w: 520, h: 150 }, {
-      title: `Range chart by appraiser (${u}): UCL = D4 · R̿`,
+      title: `Range chart by appraiser (${u}): upper limit D4 × average range`,
       series: byApp(a.charts.range.points),
-      lines: [{ y: a.charts.range.ucl, label: `UCL ${fmt(a.charts.range.ucl, 3)}` }, { y: a.charts.range.center, label: `R̿ ${fmt(a.charts.range.center, 3)}` }],
+      lines: [{ y: a.charts.range.ucl, label: `UCL ${fmt(a.charts.range.ucl, 3)}` }, { y: a.charts.range.center, label: `mean ${fmt(a.charts.range.center, 3)}` }],
       xLabels,
       xMax: parts * nA,
       groups,
     });
     lineChart(doc, { x: 44, y: 235, w: 520, h: 150 }, {
-      title: `Average chart by appraiser (${u}): limits X̿ ± A2 · R̿; ${a.charts.average.percentBeyond.toFixed(0)} % of averages outside`,
+      title: `Average chart by appraiser (${u}): limits grand mean ± A2 × average range; ${a.charts.average.percentBeyond.toFixed(0)} % of averages outside`,
       series: byApp(a.charts.average.points),
       lines: [{ y: a.charts.average.ucl, label: `UCL ${fmt(a.charts.average.ucl, 4)}` }, { y: a.charts.average.lcl, label: `LCL ${fmt(a.charts.average.lcl, 4)}` }],
       xLabels,
