@@ -8,6 +8,8 @@ const DASHES = ["", "6 3", "2 2"];
 const LETTERS = "ABC";
 const tick = { fontSize: 11, fill: "#3b4d5e" };
 const num = (v: number) => Number(v.toPrecision(3)).toString();
+/** Sizes near a nominal need more digits than ranges do (0.8747 in, not 0.875). */
+const size = (v: number) => Number(v.toPrecision(5)).toString();
 
 /** Range and average charts by appraiser, the appraiser × part interaction plot and the components bars. */
 export default function StudyCharts({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
@@ -26,7 +28,7 @@ export default function StudyCharts({ s, a }: { s: StudyDetail; a: StudyAnalysis
   const rangeLabel = `Range chart by appraiser: R̿ ${num(a.charts.range.center)}, upper limit ${num(a.charts.range.ucl)} ${u}; ${
     a.charts.range.beyondLimits.length ? `above the limit: ${a.charts.range.beyondLimits.map((p) => `appraiser ${LETTERS[p.appraiser]} ${s.partLabels[p.part]} ${num(p.value)}`).join(", ")}` : "no range above the limit"
   }.`;
-  const avgLabel = `Average chart by appraiser: limits ${num(a.charts.average.lcl)} to ${num(a.charts.average.ucl)} ${u}; ${a.charts.average.percentBeyond.toFixed(0)} % of part averages outside them.`;
+  const avgLabel = `Average chart by appraiser: limits ${size(a.charts.average.lcl)} to ${size(a.charts.average.ucl)} ${u}; ${a.charts.average.percentBeyond.toFixed(0)} % of part averages outside them.`;
   const interaction = a.charts.interaction.map((p) => ({ part: p.part + 1, label: s.partLabels[p.part], ...Object.fromEntries(p.byAppraiser.map((v, j) => [`a${j}`, v])) }));
   const keys = ["grr", "repeatability", "reproducibility", "part"] as const;
   const names = { grr: "Gauge R&R", repeatability: "Repeatability", reproducibility: "Reproducibility", part: "Part-to-part" };
@@ -65,13 +67,13 @@ export default function StudyCharts({ s, a }: { s: StudyDetail; a: StudyAnalysis
             <LineChart margin={{ top: 8, right: 12, bottom: 0, left: 4 }}>
               <CartesianGrid strokeDasharray="3 3" stroke="#d6d0c4" />
               <XAxis dataKey="x" type="number" domain={[0.5, parts * n + 0.5]} ticks={xTicks} tickFormatter={partNo} tick={tick} interval={0} />
-              <YAxis tick={tick} width={56} tickFormatter={num} domain={["auto", "auto"]} />
+              <YAxis tick={tick} width={56} tickFormatter={size} domain={["auto", "auto"]} />
               {dividers.map((d) => (
                 <ReferenceLine key={d.x} x={d.x} stroke="#9aa5b0" label={{ value: d.label, fontSize: 11, fontWeight: 700, fill: "#3b4d5e", position: "insideTopLeft" }} />
               ))}
-              <ReferenceLine y={a.charts.average.ucl} stroke="#b3261e" strokeDasharray="4 3" label={{ value: `UCL ${num(a.charts.average.ucl)}`, fontSize: 10, fill: "#b3261e", position: "insideTopRight" }} />
-              <ReferenceLine y={a.charts.average.lcl} stroke="#b3261e" strokeDasharray="4 3" label={{ value: `LCL ${num(a.charts.average.lcl)}`, fontSize: 10, fill: "#b3261e", position: "insideBottomRight" }} />
-              <Tooltip formatter={(v) => [`${num(Number(v))} ${u}`, "Average"]} labelFormatter={(x) => xFmt(Number(x))} />
+              <ReferenceLine y={a.charts.average.ucl} stroke="#b3261e" strokeDasharray="4 3" label={{ value: `UCL ${size(a.charts.average.ucl)}`, fontSize: 10, fill: "#b3261e", position: "insideTopRight" }} />
+              <ReferenceLine y={a.charts.average.lcl} stroke="#b3261e" strokeDasharray="4 3" label={{ value: `LCL ${size(a.charts.average.lcl)}`, fontSize: 10, fill: "#b3261e", position: "insideBottomRight" }} />
+              <Tooltip formatter={(v) => [`${size(Number(v))} ${u}`, "Average"]} labelFormatter={(x) => xFmt(Number(x))} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
               {series(a.charts.average.points).map((sr, j) => (
                 <Line key={sr.name} data={sr.data} dataKey="y" name={sr.name} stroke={COLOURS[j]} strokeDasharray={DASHES[j]} strokeWidth={2} dot={{ r: 3 }} isAnimationActive={false} />
@@ -87,8 +89,8 @@ export default function StudyCharts({ s, a }: { s: StudyDetail; a: StudyAnalysis
             <LineChart data={interaction} margin={{ top: 8, right: 12, bottom: 0, left: 4 }}>
               <CartesianGrid strokeDasharray="3 3" stroke="#d6d0c4" />
               <XAxis dataKey="part" tick={tick} interval={0} />
-              <YAxis tick={tick} width={56} tickFormatter={num} domain={["auto", "auto"]} />
-              <Tooltip formatter={(v) => `${num(Number(v))} ${u}`} labelFormatter={(p) => s.partLabels[Number(p) - 1] ?? String(p)} />
+              <YAxis tick={tick} width={56} tickFormatter={size} domain={["auto", "auto"]} />
+              <Tooltip formatter={(v) => `${size(Number(v))} ${u}`} labelFormatter={(p) => s.partLabels[Number(p) - 1] ?? String(p)} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
               {s.appraisers.map((ap, j) => (
                 <Line key={ap.id} dataKey={`a${j}`} name={`${LETTERS[j]}: ${ap.name}`} stroke={COLOURS[j]} strokeDasharray={DASHES[j]} strokeWidth={2} dot={{ r: 3 }} isAnimationActive={false} />

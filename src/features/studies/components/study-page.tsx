@@ -15,6 +15,8 @@ const StudyCharts = lazy(() => import("./study-charts"));
 const LETTERS = "ABC";
 const fmt = (x: number | null | undefined, digits = 6) => (x == null || !Number.isFinite(x) ? "—" : Number(x.toPrecision(digits)).toString());
 const pct = (x: number | null | undefined) => (x == null ? "—" : `${x.toFixed(1)} %`);
+/** Squares of small lengths (in²) read better as powers of ten. */
+const sci = (x: number | null | undefined) => (x != null && x !== 0 && Math.abs(x) < 1e-3 ? x.toExponential(3) : fmt(x));
 
 export function StudyPage() {
   const { id = "" } = useParams();
@@ -114,7 +116,7 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
             {a.anova.negativeSetToZero.length > 0 && ` Negative estimates set to zero: ${a.anova.negativeSetToZero.join(", ")}.`}
           </p>
           <div className="overflow-x-auto">
-            <table className="w-full text-right text-sm tabular-nums [&_td]:pl-3 [&_th]:pl-3" aria-label="Analysis of variance">
+            <table className="w-full text-right text-sm tabular-nums [&_td]:pl-3 [&_td]:whitespace-nowrap [&_th]:pl-3" aria-label="Analysis of variance">
               <thead className="text-xs uppercase text-ink-soft">
                 <tr>
                   <th className="py-1 text-left">Source</th>
@@ -128,10 +130,10 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
               <tbody>
                 {a.anova.table.map((r) => (
                   <tr key={r.source} className="border-t border-paper-line">
-                    <td className="py-1 text-left">{r.source === "repeatability" ? (a.anova.pooled ? "Repeatability (with interaction)" : "Repeatability") : r.source === "interaction" ? "Appraiser × part" : r.source[0].toUpperCase() + r.source.slice(1)}</td>
+                    <td className="py-1 text-left !whitespace-normal">{r.source === "repeatability" ? (a.anova.pooled ? "Repeatability (with interaction)" : "Repeatability") : r.source === "interaction" ? "Appraiser × part" : r.source[0].toUpperCase() + r.source.slice(1)}</td>
                     <td>{r.df}</td>
-                    <td>{fmt(r.ss)}</td>
-                    <td>{fmt(r.ms)}</td>
+                    <td>{sci(r.ss)}</td>
+                    <td>{sci(r.ms)}</td>
                     <td>{fmt(r.f, 4)}</td>
                     <td>{r.p == null ? "" : fmt(r.p, 3)}</td>
                   </tr>
@@ -140,7 +142,7 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
             </table>
           </div>
           <div className="mt-3 overflow-x-auto">
-            <table className="w-full text-right text-sm tabular-nums [&_td]:pl-3 [&_th]:pl-3" aria-label="Variance components">
+            <table className="w-full text-right text-sm tabular-nums [&_td]:pl-3 [&_td]:whitespace-nowrap [&_th]:pl-3" aria-label="Variance components">
               <thead className="text-xs uppercase text-ink-soft">
                 <tr>
                   <th className="py-1 text-left">Component</th>
@@ -154,8 +156,8 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
               <tbody>
                 {a.anova.components.map((k) => (
                   <tr key={k.key} className={cx("border-t border-paper-line", k.key === "grr" && "font-semibold")}>
-                    <td className="py-1 text-left">{COMPONENT_LABELS[k.key]}</td>
-                    <td>{fmt(k.variance)}</td>
+                    <td className="py-1 text-left !whitespace-normal">{COMPONENT_LABELS[k.key]}</td>
+                    <td>{sci(k.variance)}</td>
                     <td>{fmt(k.sd)}</td>
                     <td>{pct(k.percentContribution)}</td>
                     <td>{pct(k.percentTotalVariation)}</td>
