@@ -16,3 +16,4 @@ export * from "../modules/readings/readings.table";
 export * from "../modules/investigations/investigations.table";
 export * from "../modules/reminders/reminders.table";
 export * from "../modules/intervals/intervals.table";
+export * from "../modules/studies/studies.table";

@@ -20,6 +20,7 @@ import { statsRoutes } from "./stats/stats.routes";
 import { intervalsRoutes } from "./intervals/intervals.routes";
 import { transfersRoutes } from "./transfers/transfers.routes";
 import { auditRoutes } from "./audit/audit.routes";
+import { studiesRoutes } from "./studies/studies.routes";
 
 /** Every resource's router, in mounting order. */
 export const moduleRouters: ((deps: AppDeps) => Router)[] = [
@@ -43,4 +44,5 @@ export const moduleRouters: ((deps: AppDeps) => Router)[] = [
   intervalsRoutes,
   transfersRoutes,
   auditRoutes,
+  studiesRoutes,
 ];

@@ -7,6 +7,7 @@ import { seedCrib } from "./crib.seed";
 import { seedInspection } from "./inspection.seed";
 import { seedInvestigations } from "./investigations.seed";
 import { seedReminders } from "./reminders.seed";
+import { seedStudies } from "./studies.seed";
 
 const MARK = "demo_seeded_at";
 
@@ -33,6 +34,7 @@ export async function seedDemoOnce(ctx: Omit<SeedContext, "users" | "people" | "
   await seedCrib(full);
   await seedInspection(full);
   await seedInvestigations(full);
+  await seedStudies(full);
   await seedReminders(full);
   await db.insert(settings).values({ key: MARK, value: { at: ctx.clock.now().toISOString() } });
   return true;

@@ -43,6 +43,10 @@ export const PERMISSIONS = {
   "intervals.apply": ["quality", "admin"],
   "import.run": ["quality", "admin"],
   "audit.read": ["quality", "auditor", "admin"],
+  // Gauge studies: quality sets them up; mechanics take them blind; values and results are read by those who judge them.
+  "studies.write": ["quality", "admin"],
+  "studies.read": ["quality", "inspector", "auditor", "admin"],
+  "studies.take": ["mechanic"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

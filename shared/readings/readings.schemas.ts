@@ -14,6 +14,7 @@ export const READING_FLAGS = [
   "not_in_custody",
   "suspect",
   "override",
+  "gauge_study_not_acceptable",
 ] as const;
 export type ReadingFlag = (typeof READING_FLAGS)[number];
 
@@ -27,6 +28,7 @@ export const FLAG_LABELS: Record<ReadingFlag, string> = {
   not_in_custody: "Tool not issued to the reader",
   suspect: "Suspect: the tool was later found out of tolerance",
   override: "Accepted by quality despite an unusable tool",
+  gauge_study_not_acceptable: "The tool family's latest gauge study on this characteristic is not acceptable",
 };
 
 export const MATERIAL_KEYS = Object.keys(EXPANSION_COEFFICIENTS) as [MaterialKey, ...MaterialKey[]];

@@ -14,6 +14,8 @@ export const SettingsSchema = z.object({
   windowStartsAtPassingCheck: z.boolean(),
   defaultLengthUnit: z.enum(["in", "mm"]),
   recordRetentionYears: z.number().int().min(1).max(100),
+  /** Gauge studies: the appraiser × part interaction is pooled into repeatability when its p-value exceeds this (Bancroft & Han 1983; 0.25 in several statistics packages). */
+  studyPoolingAlpha: z.number().gt(0, "Use a probability above 0.").lt(1, "Use a probability below 1."),
 });
 export type Settings = z.infer<typeof SettingsSchema>;
 export const UpdateSettingsSchema = SettingsSchema.partial();
@@ -31,4 +33,5 @@ export const DEFAULT_SETTINGS: Omit<Settings, "shopTimeZone"> = {
   windowStartsAtPassingCheck: false,
   defaultLengthUnit: "in",
   recordRetentionYears: 10,
+  studyPoolingAlpha: 0.25,
 };

@@ -5,6 +5,15 @@ declare module "jstat" {
     pdf(x: number, mean: number, std: number): number;
     inv(p: number, mean: number, std: number): number;
   }
-  const jStat: { normal: JStatNormal };
+  interface JStatCentralF {
+    cdf(x: number, df1: number, df2: number): number;
+    inv(p: number, df1: number, df2: number): number;
+  }
+  const jStat: {
+    normal: JStatNormal;
+    centralF: JStatCentralF;
+    /** Regularized incomplete beta function I_x(a, b). */
+    ibeta(x: number, a: number, b: number): number;
+  };
   export default jStat;
 }

@@ -9,6 +9,7 @@ import { feature as reminders } from "../features/reminders/routes";
 import { feature as analysis } from "../features/analysis/routes";
 import { feature as users } from "../features/users/routes";
 import { feature as settings } from "../features/settings/routes";
+import { feature as studies } from "../features/studies/routes";
 
 /** Every feature of the client; the router and the navigation are built from this list. */
-export const features: FeatureModule[] = [overview, tools, crib, limitTables, jobs, investigations, reminders, analysis, users, settings];
+export const features: FeatureModule[] = [overview, tools, crib, limitTables, jobs, investigations, reminders, analysis, users, settings, studies];

@@ -9,6 +9,7 @@ import { jobsRepository } from "../jobs/jobs.repository";
 import { limitTablesRepository, type LimitItemRow } from "../limit-tables/limit-tables.repository";
 import { toItemView } from "../limit-tables/limit-tables.service";
 import { readingsRepository, type ReadingInsert } from "./readings.repository";
+import { studyFlagsForReading } from "../studies/studies.service";
 import { can } from "../../../shared/auth/roles";
 import { num } from "../../../shared/common/decimal";
 import { convertLength, type LengthUnit } from "../../../shared/common/units";
@@ -217,6 +218,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       result = { verdict };
     }
 
+    if (item.kind === "journal" || item.kind === "bore") for (const f of await studyFlagsForReading(tx, { limitTableId: summary.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) })) flags.add(f);
     const flagList = [...flags];
     const row = await readingsRepository.insert(
       tx,

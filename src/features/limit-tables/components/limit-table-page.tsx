@@ -7,6 +7,7 @@ import { errorMessage } from "../../../lib/api-client";
 import { useCan } from "../../auth/api/auth";
 import { LIMIT_ITEM_KIND_LABELS, VERIFY_NOTICE, type LimitItemView } from "../../../../shared/limit-tables/limit-tables.schemas";
 import { formatLimit, formatRange } from "./limit-format";
+import { TableStudiesCard } from "../../studies/api/study-cards";
 
 /** Items grouped by their section, in table order. */
 export function bySection<T extends { section: string | null }>(items: T[]): [string, T[]][] {
@@ -82,6 +83,7 @@ export function LimitTablePage() {
           </div>
         </Card>
       ))}
+      <TableStudiesCard limitTableId={t.id} />
       <Cautions />
     </div>
   );

@@ -8,6 +8,7 @@ import { errorMessage } from "../../../lib/api-client";
 import { useDashboard, useInspection, useMine } from "../api/stats";
 import { DueByWeekChart, FamilyRates, StatTile, StatusCounts, TileRow } from "./dashboard-parts";
 import { links } from "./links";
+import { StudyGapsCard } from "../../studies/api/study-cards";
 
 const SHOP_VIEW: readonly Role[] = ["quality", "crib", "auditor", "admin"];
 const INSPECTION_VIEW: readonly Role[] = ["inspector", "quality", "auditor", "admin"];
@@ -50,6 +51,7 @@ function ShopView() {
         <StatusCounts byStatus={d.byStatus} />
       </div>
       <FamilyRates rates={d.inToleranceRateByFamily} canReview={canReview} />
+      <StudyGapsCard />
     </section>
   );
 }

@@ -61,6 +61,14 @@ export function SettingsPage() {
               <input type="checkbox" {...form.register("windowStartsAtPassingCheck")} />
               An investigation's window may start at the last passing intermediate check (otherwise at the last in-tolerance calibration)
             </label>
+            <TextField
+              label="Gauge studies: pool the appraiser × part interaction when its p-value is above"
+              hint="0.25 is the usual choice; 0.05 pools more often. A study keeps the value in force when it was set up."
+              type="number"
+              step="0.01"
+              error={e.studyPoolingAlpha?.message}
+              {...form.register("studyPoolingAlpha", { valueAsNumber: true })}
+            />
           </div>
         </Card>
         {save.isError && <ErrorNote>{errorMessage(save.error)}</ErrorNote>}

@@ -12,6 +12,7 @@ import { ElementsCard } from "./elements-card";
 import { ChecksCard } from "./checks-card";
 import { ToolPhoto } from "./tool-photo";
 import { CalibrationHistory } from "../calibrations/calibration-history";
+import { FamilyStudiesCard } from "../../studies/api/study-cards";
 
 export function ToolPage() {
   const { assetTag = "" } = useParams();
@@ -70,6 +71,7 @@ export function ToolPage() {
       {t.elements.length > 0 && <ElementsCard tool={t} />}
       <CalibrationHistory tool={t} />
       <ChecksCard tool={t} />
+      <FamilyStudiesCard familyId={t.family.id} familyName={t.familyName} />
     </div>
   );
 }
