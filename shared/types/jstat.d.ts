@@ -5,6 +5,14 @@ declare module "jstat" {
     pdf(x: number, mean: number, std: number): number;
     inv(p: number, mean: number, std: number): number;
   }
-  const jStat: { normal: JStatNormal };
+  interface JStatStudentT {
+    cdf(x: number, dof: number): number;
+    inv(p: number, dof: number): number;
+  }
+  interface JStatBeta {
+    cdf(x: number, alpha: number, beta: number): number;
+    inv(p: number, alpha: number, beta: number): number;
+  }
+  const jStat: { normal: JStatNormal; studentt: JStatStudentT; beta: JStatBeta };
   export default jStat;
 }
