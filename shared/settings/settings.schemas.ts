@@ -14,6 +14,10 @@ export const SettingsSchema = z.object({
   windowStartsAtPassingCheck: z.boolean(),
   defaultLengthUnit: z.enum(["in", "mm"]),
   recordRetentionYears: z.number().int().min(1).max(100),
+  /** r of the decision rule "guarded, shop multiplier": guard band w = r·U (ILAC-G8 §4.2.2). */
+  guardBandMultiplier: z.number().min(0).max(3),
+  /** Confidence of the interval test's Clopper-Pearson interval (NCSL RP-1 method A3). */
+  intervalConfidence: z.number().min(0.8).max(0.999),
 });
 export type Settings = z.infer<typeof SettingsSchema>;
 export const UpdateSettingsSchema = SettingsSchema.partial();
@@ -31,4 +35,6 @@ export const DEFAULT_SETTINGS: Omit<Settings, "shopTimeZone"> = {
   windowStartsAtPassingCheck: false,
   defaultLengthUnit: "in",
   recordRetentionYears: 10,
+  guardBandMultiplier: 1,
+  intervalConfidence: 0.95,
 };
