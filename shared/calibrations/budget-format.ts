@@ -4,12 +4,14 @@ import type { BudgetComponent, UncertaintyBudget } from "./uncertainty";
 
 const SMALL: Record<LengthUnit, { factor: number; symbol: string }> = { mm: { factor: 1000, symbol: "µm" }, in: { factor: 1e6, symbol: "µin" } };
 
-/** Three significant digits, without a trailing exponent for everyday sizes. */
+// Only glyphs the report font (Noto Sans, Latin) carries: no Greek, radicals, superscript minus or infinity.
+
+/** Three significant digits; very small or large numbers in e-notation ("1.00e-6"). */
 export function sig3(x: number): string {
   if (x === 0) return "0";
   const a = Math.abs(x);
   if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(3)));
-  return x.toPrecision(3).replace(/e([+-])(\d+)/, (_, s, d) => ` × 10${s === "-" ? "⁻" : ""}${[...d].map((c) => "⁰¹²³⁴⁵⁶⁷⁸⁹"[Number(c)]).join("")}`);
+  return x.toPrecision(3);
 }
 
 /** A small length in the unit a budget is read in: micrometres for a metric tool, microinches for an inch tool. */
@@ -36,10 +38,11 @@ export function budgetSensitivity(c: BudgetComponent, unit: LengthUnit): string 
   return "1";
 }
 
-export const dofText = (dof: number | null) => (dof == null ? "∞" : String(Math.round(dof * 10) / 10));
+/** Degrees of freedom; "infinite" for a Type B estimate taken as exactly known. */
+export const dofText = (dof: number | null) => (dof == null ? "infinite" : String(Math.round(dof * 10) / 10));
 
 /** The closing lines of a budget: u_c, ν_eff, k, U. */
 export function budgetSummary(b: UncertaintyBudget, stated: number | null): string {
   const p = `${(b.coverageProbability * 100).toFixed(2)} %`;
-  return `u_c = ${budgetLength(b.combined, b.unit)} · ν_eff = ${dofText(b.effectiveDof)} · k = ${b.k.toFixed(2)} (${p}, t-distribution) · U = k·u_c = ${budgetLength(b.expanded, b.unit)}${stated != null ? `, stated ${budgetLength(stated, b.unit)}` : ""}`;
+  return `u_c = ${budgetLength(b.combined, b.unit)} · effective degrees of freedom ${dofText(b.effectiveDof)} (Welch-Satterthwaite) · k = ${b.k.toFixed(2)} (${p}, t-distribution) · U = k·u_c = ${budgetLength(b.expanded, b.unit)}${stated != null ? `, stated ${budgetLength(stated, b.unit)}` : ""}`;
 }

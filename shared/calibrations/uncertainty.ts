@@ -97,7 +97,7 @@ export interface BudgetComponent {
   /** The stated quantity: a certificate's U, a half-width a, a resolution d, an experimental s, in `quantityUnit`. */
   quantity: number;
   quantityUnit: "length" | "celsius" | "per_kelvin";
-  /** What the quantity is divided by for its standard uncertainty: k, √3, √12, √n. */
+  /** What the quantity is divided by for its standard uncertainty: k, sqrt(3), sqrt(12), sqrt(n) — written with the glyphs the report font has. */
   divisor: number;
   divisorLabel: string;
   /** u(x_i), in `quantityUnit`. */
@@ -181,14 +181,14 @@ export function pointBudget(input: PointBudgetInput): UncertaintyBudget {
       rows.push({ kind: "standard", source: s.source, type: "B", distribution: "normal", quantity: Math.abs(s.expandedUncertainty), quantityUnit: "length", divisor: s.coverageFactor, divisorLabel: `k = ${s.coverageFactor}`, standardUncertainty: u, sensitivity: 1, contribution: u, dof: s.dof });
     } else {
       const u = rectangularStandardUncertainty(s.halfWidth);
-      rows.push({ kind: "standard_grade", source: s.source, type: "B", distribution: "rectangular", quantity: Math.abs(s.halfWidth), quantityUnit: "length", divisor: SQRT3, divisorLabel: "√3", standardUncertainty: u, sensitivity: 1, contribution: u, dof: null });
+      rows.push({ kind: "standard_grade", source: s.source, type: "B", distribution: "rectangular", quantity: Math.abs(s.halfWidth), quantityUnit: "length", divisor: SQRT3, divisorLabel: "sqrt(3)", standardUncertainty: u, sensitivity: 1, contribution: u, dof: null });
     }
   }
   if (input.standards.length === 0) notes.push("No reference standard contributes: the budget holds the tool's own terms only.");
 
   const d = Math.abs(input.resolution);
   const uRes = resolutionStandardUncertainty(d);
-  rows.push({ kind: "resolution", source: "Resolution of the tool under test", type: "B", distribution: "rectangular", quantity: d, quantityUnit: "length", divisor: 2 * SQRT3, divisorLabel: "√12", standardUncertainty: uRes, sensitivity: 1, contribution: uRes, dof: null });
+  rows.push({ kind: "resolution", source: "Resolution of the tool under test", type: "B", distribution: "rectangular", quantity: d, quantityUnit: "length", divisor: 2 * SQRT3, divisorLabel: "sqrt(12)", standardUncertainty: uRes, sensitivity: 1, contribution: uRes, dof: null });
 
   const readings = input.repeatReadings ?? [];
   if (readings.length >= 2) {
@@ -196,7 +196,7 @@ export function pointBudget(input: PointBudgetInput): UncertaintyBudget {
     const n = readings.length;
     const u = s / Math.sqrt(n);
     // GUM 4.2.3: the mean of n readings is reported, so its standard deviation s/√n counts, with n − 1 degrees of freedom.
-    rows.push({ kind: "repeatability", source: `Repeatability, ${n} repeated readings (standard deviation of the mean)`, type: "A", distribution: "t", quantity: s, quantityUnit: "length", divisor: Math.sqrt(n), divisorLabel: `√${n}`, standardUncertainty: u, sensitivity: 1, contribution: u, dof: n - 1 });
+    rows.push({ kind: "repeatability", source: `Repeatability, ${n} repeated readings (standard deviation of the mean)`, type: "A", distribution: "t", quantity: s, quantityUnit: "length", divisor: Math.sqrt(n), divisorLabel: `sqrt(${n})`, standardUncertainty: u, sensitivity: 1, contribution: u, dof: n - 1 });
   } else {
     notes.push("No repeated readings at this point: repeatability is not evaluated (record two or more readings to include it).");
   }
@@ -208,7 +208,7 @@ export function pointBudget(input: PointBudgetInput): UncertaintyBudget {
     const theta = Math.abs(input.temperatureC - REFERENCE_TEMPERATURE_C);
     const uAlpha = rectangularStandardUncertainty(alphaDiff);
     const c = mmTo(L * theta, unit);
-    rows.push({ kind: "temperature_offset", source: `Difference in expansion of tool and standard at ${input.temperatureC} °C (|t − 20 °C| = ${round(theta, 3)} K)`, type: "B", distribution: "rectangular", quantity: alphaDiff, quantityUnit: "per_kelvin", divisor: SQRT3, divisorLabel: "√3", standardUncertainty: uAlpha, sensitivity: c, contribution: Math.abs(c) * uAlpha, dof: null });
+    rows.push({ kind: "temperature_offset", source: `Difference in expansion of tool and standard at ${input.temperatureC} °C (|t − 20 °C| = ${round(theta, 3)} K)`, type: "B", distribution: "rectangular", quantity: alphaDiff, quantityUnit: "per_kelvin", divisor: SQRT3, divisorLabel: "sqrt(3)", standardUncertainty: uAlpha, sensitivity: c, contribution: Math.abs(c) * uAlpha, dof: null });
   } else {
     notes.push("No temperature recorded: the departure from 20 °C is not evaluated.");
   }
@@ -218,7 +218,7 @@ export function pointBudget(input: PointBudgetInput): UncertaintyBudget {
     const uTheta = rectangularStandardUncertainty(a);
     const alpha = Math.abs(input.alphaPerK ?? STEEL_ALPHA_PER_K);
     const c = mmTo(L * alpha, unit);
-    rows.push({ kind: "temperature_variation", source: `Temperature variation between tool and standard (± ${a} °C stated)`, type: "B", distribution: "rectangular", quantity: a, quantityUnit: "celsius", divisor: SQRT3, divisorLabel: "√3", standardUncertainty: uTheta, sensitivity: c, contribution: Math.abs(c) * uTheta, dof: null });
+    rows.push({ kind: "temperature_variation", source: `Temperature variation between tool and standard (± ${a} °C stated)`, type: "B", distribution: "rectangular", quantity: a, quantityUnit: "celsius", divisor: SQRT3, divisorLabel: "sqrt(3)", standardUncertainty: uTheta, sensitivity: c, contribution: Math.abs(c) * uTheta, dof: null });
   } else if (input.temperatureC != null) {
     notes.push("No temperature variation stated: a difference in temperature between tool and standard is not evaluated.");
   }

@@ -108,7 +108,7 @@ export function writeCalibrationPdf(c: Calibration, tool: { description: string;
     ]),
   );
 
-  heading("Uncertainty budget of each point (JCGM 100: root-sum-square, Welch–Satterthwaite ν_eff, k from the t-distribution)");
+  heading("Uncertainty budget of each point (JCGM 100: root-sum-square, Welch-Satterthwaite degrees of freedom, k from the t-distribution)");
   for (const p of c.points) {
     if (doc.y > bottom() - 90) doc.addPage();
     doc.moveDown(0.4).font("bold").fontSize(9).text(`Point ${p.seq}: ${lengthWithUnit(p.nominal, u)}${p.elementLabel ? ` (element ${p.elementLabel})` : ""}`, left);
@@ -130,7 +130,7 @@ export function writeCalibrationPdf(c: Calibration, tool: { description: string;
         { title: "Divisor", width: 42, align: "right" },
         { title: "Sensitivity c", width: 70, align: "right" },
         { title: "|c|·u", width: 64, align: "right" },
-        { title: "ν", width: 30, align: "right" },
+        { title: "Degrees of freedom", width: 44, align: "right" },
       ],
       b.components.map((r) => [r.source, r.type, DISTRIBUTION_LABELS[r.distribution], budgetQuantity(r, u), r.divisorLabel, budgetSensitivity(r, u), budgetLength(r.contribution, u), dofText(r.dof)]),
     );

@@ -34,7 +34,7 @@ const columns = [
       return (
         <span title={f.reason} className={look.className}>
           {look.text}
-          {f.decision !== "keep" && f.decision !== "none" && f.recommendedIntervalDays != null ? ` → ${f.recommendedIntervalDays} d` : ""}
+          {f.decision !== "keep" && f.decision !== "none" && f.recommendedIntervalDays != null ? ` to ${f.recommendedIntervalDays} d` : ""}
         </span>
       );
     },

@@ -25,7 +25,7 @@ import { standardForCompute } from "../../../../shared/calibrations/calibration-
 import { DECISION_RULES, DECISION_RULE_LABELS, type DecisionRule } from "../../../../shared/calibrations/decision-rules";
 import { LivePointCells, LiveSummary } from "./live-result";
 import { PointsTable } from "./calibration-history";
-import { ResultBadge, TurWarning } from "./result-badge";
+import { AsFoundBadge, ResultBadge, TurWarning } from "./result-badge";
 import { ToolAnswer } from "../components/tool-answer";
 
 interface PointRow extends PointText {
@@ -537,13 +537,21 @@ function SavedCalibration({ tool, saved }: { tool: ToolDetail; saved: Calibratio
     <div className="flex flex-col gap-5">
       <PageHeader title={`Calibration of ${tool.assetTag} saved`} subtitle="The server judged the record with the same rules the form showed." />
       <section role="status" aria-label="Saved calibration" className="rounded-card border border-paper-line bg-paper-raised p-4 shadow-card">
-        <p className="flex flex-wrap items-center gap-3 text-xl font-bold">
-          Result: <ResultBadge result={saved.result} className="text-base" />
+        <p className="flex flex-wrap items-center gap-3 text-lg font-semibold">
+          As found: <AsFoundBadge inTolerance={saved.asFoundInTolerance} statement={saved.asFoundStatement} className="text-sm" />
+        </p>
+        <p className="mt-1 flex flex-wrap items-center gap-3 text-xl font-bold">
+          Release: <ResultBadge result={saved.result} className="text-base" />
         </p>
         <p className="mt-1">
-          As found {saved.asFoundInTolerance ? "in tolerance" : <strong className="text-stop">out of tolerance</strong>}; next due <strong>{saved.nextDueAt}</strong>.
-          {saved.awaitingReview && " Awaiting certificate review before the tool counts as in calibration."}
+          As found {saved.asFoundInTolerance ? "in tolerance" : <strong className="text-stop">out of tolerance</strong>}; {saved.adjusted ? "adjusted, released on the as-left readings" : "not adjusted"}; next due{" "}
+          <strong>{saved.nextDueAt}</strong>.{saved.awaitingReview && " Awaiting certificate review before the tool counts as in calibration."}
         </p>
+        {(saved.asFoundStatement === "conditional_pass" || saved.asFoundStatement === "conditional_fail") && (
+          <p className="mt-1 text-sm">
+            Some points lie within U of a limit: they are listed under <Link className="underline" to="/calibrations/conditional">Conditional results</Link> for review.
+          </p>
+        )}
         {saved.investigationId && (
           <p className="mt-1 font-semibold text-stop">
             An out-of-tolerance investigation was opened: <Link className="underline" to={`/investigations/${saved.investigationId}`}>open it</Link>.

@@ -157,7 +157,7 @@ export function PointBudget({ point: p, unit }: { point: CalibrationPoint; unit:
           {p.referenceParts.map((r) => `${r.standard}${r.element ? ` block ${r.element}` : ""} ${r.certified ? `certified ${len(r.value, unit, unit === "in" ? 6 : 5)}` : "at nominal"}`).join(" + ")}
         </p>
       )}
-      <RecordTable label={`Uncertainty budget, point ${p.seq}`} className="mt-1" headers={["Source", "Type", "Distribution", "Value", "Divisor", "Sensitivity c", "|c|·u", "ν"]}>
+      <RecordTable label={`Uncertainty budget, point ${p.seq}`} className="mt-1" headers={["Source", "Type", "Distribution", "Value", "Divisor", "Sensitivity c", "|c|·u", "Degrees of freedom"]}>
         {b.components.map((r, i) => (
           <tr key={i} className="border-t border-paper-line">
             <td className="py-1 pr-3">{r.source}</td>
