@@ -11,7 +11,7 @@ export function sig3(x: number): string {
   if (x === 0) return "0";
   const a = Math.abs(x);
   if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(3)));
-  return x.toPrecision(3);
+  return x.toExponential(2);
 }
 
 /** A small length in the unit a budget is read in: micrometres for a metric tool, microinches for an inch tool. */

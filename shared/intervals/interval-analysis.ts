@@ -236,8 +236,9 @@ export function driftTrend(calibrations: DriftCalibration[], mpe: number, interv
   const toDate = (d: number) => addDays(startDay, Math.ceil(d - 1e-9));
   const predictedExceedAt = central <= horizonDays ? toDate(central) : null;
   const earliestExceedAt = earliest <= horizonDays ? toDate(earliest) : null;
-  if (!predictedExceedAt && !earliestExceedAt) return { ...base, outlook: rate === 0 && uRate === 0 ? "no_trend" : "beyond_two_intervals" };
+  // The outlook follows the fitted rate; the earliest date allowing for its uncertainty is told beside it, never instead of it.
+  if (!predictedExceedAt) return { ...base, earliestExceedAt, outlook: rate === 0 && uRate === 0 ? "no_trend" : "beyond_two_intervals" };
   const today = (typeof now === "string" ? new Date(now) : now).toISOString().slice(0, 10);
-  const outlook: DriftOutlook = (predictedExceedAt ?? earliestExceedAt)! <= today ? "may_have_left" : "predicted";
+  const outlook: DriftOutlook = predictedExceedAt <= today ? "may_have_left" : "predicted";
   return { ...base, predictedExceedAt, earliestExceedAt, outlook };
 }

@@ -123,14 +123,14 @@ export function writeCalibrationPdf(c: Calibration, tool: { description: string;
     const b = p.budget;
     table(
       [
-        { title: "Source", width: 250 },
+        { title: "Source", width: 240 },
         { title: "Type", width: 30 },
         { title: "Distribution", width: 58 },
         { title: "Value", width: 78, align: "right" },
         { title: "Divisor", width: 42, align: "right" },
         { title: "Sensitivity c", width: 70, align: "right" },
         { title: "|c|·u", width: 64, align: "right" },
-        { title: "Degrees of freedom", width: 44, align: "right" },
+        { title: "Degrees of freedom", width: 54, align: "right" },
       ],
       b.components.map((r) => [r.source, r.type, DISTRIBUTION_LABELS[r.distribution], budgetQuantity(r, u), r.divisorLabel, budgetSensitivity(r, u), budgetLength(r.contribution, u), dofText(r.dof)]),
     );

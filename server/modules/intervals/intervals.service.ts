@@ -182,8 +182,8 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
             asFoundInTolerance: Boolean(p.as_found_in_tolerance),
           }));
           const t = driftTrend(points.map((p) => ({ at: p.performedAt, errorAsFound: p.errorAsFound, errorAsLeft: p.errorAsLeft })), mpe, tool.intervalDays, now);
-          const first = t.earliestExceedAt ?? t.predictedExceedAt;
-          const flagged = t.outlook === "already_out" || t.outlook === "may_have_left" || (t.outlook === "predicted" && !!first && !!status.dueAt && first <= status.dueAt);
+          const today = now.toISOString().slice(0, 10);
+          const flagged = t.outlook === "already_out" || t.outlook === "may_have_left" || (t.outlook === "predicted" && !!status.dueAt && t.predictedExceedAt! <= status.dueAt);
           return {
             key,
             nominal: Number(pts[0].nominal),
@@ -197,7 +197,7 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
                 : { ratePerDay: t.ratePerDay, rateUncertaintyPerDay: t.rateUncertaintyPerDay!, k: t.k!, startAt: t.startAt!, startError: t.startError!, horizonAt: t.horizonAt!, predictedExceedAt: t.predictedExceedAt, earliestExceedAt: t.earliestExceedAt },
             outlook: t.outlook,
             flagged,
-            message: driftMessage(t, points.length, status.dueAt),
+            message: driftMessage(t, points.length, status.dueAt, today),
           };
         })
         .sort((a, b) => (a.element ?? "").localeCompare(b.element ?? "") || a.nominal - b.nominal);
@@ -207,8 +207,11 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
 }
 
 /** What a drift series says, in words a quality manager acts on. */
-function driftMessage(t: ReturnType<typeof driftTrend>, calibrations: number, dueAt: string | null): string {
+function driftMessage(t: ReturnType<typeof driftTrend>, calibrations: number, dueAt: string | null, today: string): string {
   const soon = (d: string) => (dueAt && d <= dueAt ? `, before the next due date (${dueAt}): consider recalibrating sooner` : "");
+  // The earliest date allowing for the fit's uncertainty, when it is still ahead and earlier than the fitted one.
+  const early = t.earliestExceedAt && t.earliestExceedAt > today && (!t.predictedExceedAt || t.earliestExceedAt < t.predictedExceedAt) ? t.earliestExceedAt : null;
+  const uncertain = `; allowing for the fit's uncertainty (k = ${t.k?.toFixed(2)}) it could be as early as ${early}`;
   switch (t.outlook) {
     case "insufficient":
       return `${calibrations} calibration${calibrations === 1 ? "" : "s"} at this point: a drift rate needs at least two intervals (three calibrations).`;
@@ -217,12 +220,10 @@ function driftMessage(t: ReturnType<typeof driftTrend>, calibrations: number, du
     case "no_trend":
       return "No drift between calibrations: not expected to leave tolerance within two intervals.";
     case "beyond_two_intervals":
-      return `Not expected to leave tolerance within two intervals (by ${t.horizonAt}).`;
+      return `Not expected to leave tolerance within two intervals (by ${t.horizonAt})${early ? uncertain : ""}.`;
     case "may_have_left":
-      return `May already have left tolerance: the drift since the last calibration reaches the permissible error around ${t.predictedExceedAt ?? t.earliestExceedAt}. Check it before use.`;
+      return `May already have left tolerance: the drift since the last calibration reaches the permissible error around ${t.predictedExceedAt}. Check it before use.`;
     case "predicted":
-      return t.predictedExceedAt
-        ? `Expected to reach the permissible error around ${t.predictedExceedAt}${t.earliestExceedAt && t.earliestExceedAt < t.predictedExceedAt ? ` (as early as ${t.earliestExceedAt} allowing for the fit's uncertainty)` : ""}${soon(t.earliestExceedAt ?? t.predictedExceedAt)}.`
-        : `Not expected to reach the permissible error within two intervals on the fitted rate, but it could as early as ${t.earliestExceedAt} allowing for the fit's uncertainty${soon(t.earliestExceedAt!)}.`;
+      return `Expected to reach the permissible error around ${t.predictedExceedAt}${early ? uncertain : ""}${soon(t.predictedExceedAt!)}.`;
   }
 }

@@ -121,7 +121,7 @@ function SeriesChart({ s, unit, dueAt }: { s: DriftSeries; unit: string; dueAt: 
   const domain: [number, number] = [first - 20 * MS_PER_DAY, last + 20 * MS_PER_DAY];
   const values = [...s.points.flatMap((p) => [p.errorAsFound, p.errorAsLeft ?? 0]), ...fit.flatMap((f) => f.band)];
   const span = Math.max(s.mpe * 1.4, ...values.map((v) => Math.min(Math.abs(v) * 1.1, s.mpe * 3)));
-  const exceed = tr?.earliestExceedAt ?? tr?.predictedExceedAt ?? null;
+  const exceed = tr?.predictedExceedAt ?? null;
   const title = `${s.element ? `Element ${s.element}, ` : ""}check point ${s.nominal} ${unit}`;
   const rate = tr ? `Fitted drift ${(tr.ratePerDay * 365).toPrecision(2)} ${unit} a year ± ${(tr.k * tr.rateUncertaintyPerDay * 365).toPrecision(2)} (k = ${tr.k.toFixed(2)}).` : "";
   return (
@@ -135,13 +135,13 @@ function SeriesChart({ s, unit, dueAt }: { s: DriftSeries; unit: string; dueAt: 
           <ComposedChart margin={{ top: 8, right: 12, bottom: 0, left: 8 }}>
             <CartesianGrid strokeDasharray="3 3" stroke="#d6d0c4" />
             <XAxis dataKey="t" type="number" domain={domain} ticks={monthTicks(domain[0], domain[1])} tickFormatter={(t: number) => monthLabel.format(new Date(t))} tick={{ fontSize: 11, fill: "#3b4d5e" }} scale="time" allowDuplicatedCategory={false} />
-            <YAxis domain={[-span, span]} tick={{ fontSize: 11, fill: "#3b4d5e" }} width={70} tickFormatter={(v: number) => v.toPrecision(2)} />
+            <YAxis domain={[-span, span]} allowDataOverflow ticks={[-s.mpe, -s.mpe / 2, 0, s.mpe / 2, s.mpe]} tick={{ fontSize: 11, fill: "#3b4d5e" }} width={70} tickFormatter={(v: number) => (v === 0 ? "0" : String(Number(v.toPrecision(3))))} />
             <ReferenceArea y1={-s.mpe} y2={s.mpe} fill="#dcefe3" fillOpacity={0.5} />
             <ReferenceLine y={s.mpe} stroke="#b3261e" strokeDasharray="4 3" label={{ value: `+MPE ${s.mpe}`, fontSize: 10, fill: "#b3261e", position: "insideTopLeft" }} />
             <ReferenceLine y={-s.mpe} stroke="#b3261e" strokeDasharray="4 3" label={{ value: `−MPE`, fontSize: 10, fill: "#b3261e", position: "insideBottomLeft" }} />
             <ReferenceLine y={0} stroke="#6b7c8c" />
             {dueAt && <ReferenceLine x={ms(dueAt)} stroke="#a86a00" label={{ value: "next due", fontSize: 10, fill: "#a86a00", position: "insideTopRight" }} />}
-            {exceed && <ReferenceLine x={ms(exceed)} stroke="#b3261e" strokeDasharray="2 2" label={{ value: "may reach MPE", fontSize: 10, fill: "#b3261e", position: "insideBottomRight" }} />}
+            {exceed && <ReferenceLine x={ms(exceed)} stroke="#b3261e" strokeDasharray="2 2" label={{ value: "expected to reach MPE", fontSize: 10, fill: "#b3261e", position: "insideBottomRight" }} />}
             <Tooltip labelFormatter={(t) => new Date(Number(t)).toISOString().slice(0, 10)} formatter={(v) => [Array.isArray(v) ? v.map((x) => Number(x).toPrecision(3)).join(" to ") : `${Number(v).toPrecision(3)} ${unit}`]} />
             <Legend wrapperStyle={{ fontSize: 12 }} />
             {fit.length > 0 && <Area data={fit} dataKey="band" name="Fit ± k·u" fill="#e9d9b6" stroke="none" fillOpacity={0.7} isAnimationActive={false} />}

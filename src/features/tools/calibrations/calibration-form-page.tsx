@@ -420,7 +420,7 @@ function CalibrationForm({
                   <th className="pr-2">Found · Release</th>
                   <th className="pr-2">Reference</th>
                   <th className="pr-2">MPE ±</th>
-                  <th className="pr-2">U (k=2)</th>
+                  <th className="pr-2">U</th>
                   <th />
                 </tr>
               </thead>
