@@ -28,6 +28,7 @@ export async function seedInvestigations(ctx: SeedContext): Promise<void> {
       humidityPct: 41,
       standardIds: gaugeBlocks ? [gaugeBlocks.id] : [],
       decisionRule: "simple",
+      adjusted: true,
       points: NOMINALS.map((nominal) => ({ nominal, reference: nominal, asFound: AS_FOUND[nominal] ?? nominal, asLeft: nominal })),
       notes: "Anvil faces found worn near mid-range; lapped and re-set to zero (demo).",
     }),

@@ -10,6 +10,7 @@ import { calibrationsService } from "../modules/calibrations/calibrations.servic
 import { checksService } from "../modules/checks/checks.service";
 import { changeLifecycle } from "../modules/tools/tool-lifecycle.repository";
 import { onOutOfToleranceFinding } from "../modules/investigations/investigations.hooks";
+import { closeInvestigation } from "../modules/investigations/investigations.service";
 import { labShipments } from "../modules/shipments/shipments.table";
 import { standardsRepository } from "../modules/standards/standards.repository";
 import { getSettings } from "../modules/settings/settings.service";
@@ -20,6 +21,8 @@ import { CreateLabSchema } from "../../shared/labs/labs.schemas";
 import { CreateCalibrationSchema, CreateCheckSchema, type CalibrationPointInput } from "../../shared/calibrations/calibrations.schemas";
 import { addDays, calendarDate } from "../../shared/common/dates";
 import { dec } from "../../shared/common/decimal";
+import { computeCalibration, type ComputeStandard } from "../../shared/calibrations/calibration-compute";
+import type { DecisionRule } from "../../shared/calibrations/decision-rules";
 
 // The register of the invented demo shop, Harrow Flats Engine Works: labs,
 // reference standards with certificates, families, 60+ tools in every status
@@ -27,6 +30,11 @@ import { dec } from "../../shared/common/decimal";
 // Everything is invented demo data, relative to ctx.clock, written through the
 // same services (and schemas) as the API, each with a clock set to the instant
 // it happened. MIC-0104's as-found failure is left to the investigations seed.
+// Every ILAC-G8 statement appears: most points pass, readings on a limit are
+// conditional passes, and three dial indicators were found out of tolerance in
+// the past year (one a conditional fail, from repeated readings), each adjusted
+// and its investigation closed; so the dial indicators' interval test says
+// "shorten" while the micrometers' says "keep".
 
 const DAY = 86_400_000;
 const HOUR = 3_600_000;
@@ -35,6 +43,20 @@ const ACCREDITOR = "Larchmont Accreditation Council (demo, invented)";
 const INCH_MIC = [0.105, 0.21, 0.315, 0.42, 0.5, 0.605, 0.71, 0.815, 0.92, 1.0];
 const MM_MIC = [2.5, 5.1, 7.7, 10.3, 12.9, 15.0, 17.6, 20.2, 22.8, 25.0];
 const FEELER_LEAVES = [0.0015, 0.002, 0.003, 0.004, 0.005, 0.006, 0.007, 0.008, 0.009, 0.01, 0.012, 0.015, 0.02, 0.025];
+/** Blocks of the demo inch set that build every demo check size (invented deviations, µin-sized). */
+const INCH_BLOCKS = (
+  [
+    ["0.100", 0.000002], ["0.105", -0.000001], ["0.110", 0.000001], ["0.115", 0.000002], ["0.120", -0.000002], ["0.125", 0.000001], ["0.200", 0.000003], ["0.250", 0.000001],
+    ["0.300", -0.000002], ["0.500", 0.000002], ["0.600", 0.000001], ["0.700", -0.000001], ["0.750", null], ["0.800", 0.000002], ["1.000", -0.000003], ["2.000", 0.000004], ["4.000", -0.000005],
+  ] as const
+).map(([label, deviation]) => ({ label, nominal: Number(label), deviation }));
+/** Blocks of the demo metric set: each micrometer size from one or two blocks; 1.1 mm and 16.5 mm carry no certified value (used within grade 0). */
+const MM_BLOCKS = (
+  [
+    ["1.1", null], ["1.2", 0.00004], ["1.3", -0.00003], ["1.4", 0.00002], ["2.5", 0.00003], ["2.7", -0.00002], ["5", 0.00006], ["5.1", -0.00004],
+    ["9", 0.00005], ["10", 0.00005], ["11.5", -0.00006], ["15", 0.00007], ["16.5", null], ["19", -0.00005], ["21.5", 0.00008], ["25", -0.00008],
+  ] as const
+).map(([label, deviation]) => ({ label, nominal: Number(label), deviation }));
 
 /** Deterministic noise, so every demo shop is seeded the same (mulberry32). */
 function prng(seed: number) {
@@ -83,6 +105,10 @@ interface ToolSpec {
   intervalDays?: number;
   limited?: { min: number; max: number; note: string };
   notes?: string;
+  /** As-found findings out of tolerance, by the calibration's days-ago: the point and what it read (repeat readings give a mean). */
+  findings?: Record<number, { nominal: number; readings: number[]; note: string }>;
+  /** Decision rule of the latest calibration (default simple). */
+  lastRule?: DecisionRule;
 }
 
 export async function seedRegister(ctx: SeedContext): Promise<void> {
@@ -110,9 +136,9 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
 
   // Reference standards: three yearly certificates each, covering the whole two-year history and beyond today.
   const certPeriods = [900, 535, 170].map((d) => ({ issuedAt: dateAgo(d), dueAt: addDays(dateAgo(d), 365) }));
-  const stdSpecs: { tag: string; name: string; kind: "gauge_block_set" | "setting_standard" | "check_block"; unit: "in" | "mm"; nominal?: number; grade?: string; U: number; certified?: number; elements?: { label: string; nominal: number; deviation: number }[] }[] = [
-    { tag: "GBS-01", name: "Gauge block set, inch, grade 0 (demo)", kind: "gauge_block_set", unit: "in", grade: "0", U: 0.000004, elements: [{ label: "0.500", nominal: 0.5, deviation: 0.000002 }, { label: "1.000", nominal: 1, deviation: -0.000003 }, { label: "0.250", nominal: 0.25, deviation: 0.000001 }] },
-    { tag: "GBS-02", name: "Gauge block set, metric, grade 0 (demo)", kind: "gauge_block_set", unit: "mm", grade: "0", U: 0.0001, elements: [{ label: "10", nominal: 10, deviation: 0.00005 }, { label: "25", nominal: 25, deviation: -0.00008 }] },
+  const stdSpecs: { tag: string; name: string; kind: "gauge_block_set" | "setting_standard" | "check_block"; unit: "in" | "mm"; nominal?: number; grade?: string; U: number; certified?: number; elements?: { label: string; nominal: number; deviation: number | null }[] }[] = [
+    { tag: "GBS-01", name: "Gauge block set, inch, grade 0 (demo)", kind: "gauge_block_set", unit: "in", grade: "0", U: 0.000004, elements: INCH_BLOCKS },
+    { tag: "GBS-02", name: "Gauge block set, metric, grade 0 (demo)", kind: "gauge_block_set", unit: "mm", grade: "0", U: 0.0001, elements: MM_BLOCKS },
     { tag: "SET-01", name: "Setting standard 1 in (demo)", kind: "setting_standard", unit: "in", nominal: 1, U: 0.000006, certified: 1.000012 },
     { tag: "SET-02", name: "Setting standard 25 mm (demo)", kind: "setting_standard", unit: "mm", nominal: 25, U: 0.00015, certified: 25.0003 },
     { tag: "SET-03", name: "Setting standard 5 in (demo)", kind: "setting_standard", unit: "in", nominal: 5, U: 0.00001, certified: 5.000018 },
@@ -149,6 +175,26 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
       }
     }
   }
+
+  // The standards as the calibration computation takes them, to shape the demo readings against their certified values.
+  const computeStandards: Record<string, ComputeStandard> = Object.fromEntries(
+    stdSpecs.map((sp) => [
+      sp.tag,
+      {
+        assetTag: sp.tag,
+        kind: sp.kind,
+        unit: sp.unit,
+        grade: sp.grade ?? null,
+        certificateNumber: null,
+        expandedUncertainty: sp.U,
+        coverageFactor: 2,
+        degreesOfFreedom: null,
+        nominal: sp.nominal ?? null,
+        certifiedValue: sp.certified ?? null,
+        elements: (sp.elements ?? []).map((e) => ({ label: e.label, nominal: e.nominal, deviation: e.deviation })),
+      } satisfies ComputeStandard,
+    ]),
+  );
 
   // Families with their defaults (limits invented for the demo; micrometer MPE after ASME B89.1.13 and JIS B 7502, from memory).
   const famSpecs: Record<FamilyKey, CreateFamilyInput> = {
@@ -203,7 +249,7 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
     { tag: "MIC-0102", family: "mic12", description: "Outside micrometer 1-2 in", range: [1, 2], location: "Crib drawer A1", maker: CORVANE, model: "CV-50 (demo)", history: yearly(95), standards: ["SET-01", "GBS-01"] },
     { tag: "MIC-0103", family: "mic01", description: "Outside micrometer 0-1 in, ratchet stop", range: [0, 1], location: "Crib drawer A1", maker: OSTRAVA, history: yearly(210) },
     { tag: "MIC-0104", family: "mic01", description: "Outside micrometer 0-1 in, carbide faces", range: [0, 1], location: "Crib drawer A1", maker: CORVANE, model: "CV-25C (demo)", history: yearly(160) },
-    { tag: "MIC-0105", family: "mic56", description: "Outside micrometer 5-6 in (reads telescoping gauges on the barrel bore)", range: [5, 6], location: "Crib drawer A4", maker: OSTRAVA, model: "OG-150 (demo)", history: yearly(75), standards: ["SET-03"] },
+    { tag: "MIC-0105", family: "mic56", description: "Outside micrometer 5-6 in (reads telescoping gauges on the barrel bore)", range: [5, 6], location: "Crib drawer A4", maker: OSTRAVA, model: "OG-150 (demo)", history: yearly(75), standards: ["SET-03", "GBS-01"] },
     { tag: "MIC-0106", family: "mic01", description: "Outside micrometer 0-1 in, friction thimble", range: [0, 1], location: "Bench 1", maker: PELLAM, history: yearly(60) },
     { tag: "MIC-0107", family: "mic01", description: "Outside micrometer 0-1 in", range: [0, 1], location: "Bench 2", maker: CORVANE, history: yearly(352) },
     { tag: "MIC-0108", family: "mic01", description: "Outside micrometer 0-1 in, blade anvils", range: [0, 1], location: "Bench 3", maker: OSTRAVA, history: yearly(280) },
@@ -223,7 +269,7 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
     { tag: "MIC-0130", family: "mic23", description: "Outside micrometer 2-3 in", range: [2, 3], location: "Crib drawer A5", maker: OSTRAVA, history: yearly(90) },
     { tag: "MIC-0131", family: "mic23", description: "Outside micrometer 2-3 in", range: [2, 3], location: "Crib drawer A5", maker: CORVANE, history: yearly(200) },
     { tag: "MIC-0132", family: "mic23", description: "Outside micrometer 2-3 in", range: [2, 3], location: "Bench 4", maker: PELLAM, history: yearly(20) },
-    { tag: "MIC-0201", family: "mic025mm", description: "Outside micrometer 0-25 mm", range: [0, 25], location: "Crib drawer B1", maker: OSTRAVA, model: "OG-25M (demo)", history: yearly(345), standards: ["GBS-02", "SET-02"] },
+    { tag: "MIC-0201", family: "mic025mm", description: "Outside micrometer 0-25 mm", range: [0, 25], location: "Crib drawer B1", maker: OSTRAVA, model: "OG-25M (demo)", history: yearly(345), standards: ["GBS-02", "SET-02"], lastRule: "guarded" },
     { tag: "MIC-0202", family: "mic025mm", description: "Outside micrometer 0-25 mm", range: [0, 25], location: "Crib drawer B1", maker: CORVANE, history: yearly(110), standards: ["GBS-02", "SET-02"] },
     { tag: "MIC-0203", family: "mic025mm", description: "Outside micrometer 0-25 mm, digital", range: [0, 25], location: "Bench 2", maker: OSTRAVA, history: yearly(170), standards: ["GBS-02", "SET-02"] },
     { tag: "MIC-0204", family: "mic025mm", description: "Outside micrometer 0-25 mm", range: [0, 25], location: "Bench 4", maker: PELLAM, history: [760, 395], standards: ["GBS-02", "SET-02"] },
@@ -244,11 +290,39 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
     { tag: "DIA-0101", family: "dia", description: "Dial indicator 0-1 in, 0.0001 in", range: [0, 1], location: "Crib cabinet C2", maker: CORVANE, model: "CV-DI1 (demo)", history: [] },
     { tag: "DIA-0102", family: "dia", description: "Dial indicator 0-1 in, 0.0001 in", range: [0, 1], location: "Away at lab", maker: OSTRAVA, history: [] },
     { tag: "DIA-0103", family: "dia", description: "Dial indicator 0-1 in, 0.0001 in", range: [0, 1], location: "Crib receiving shelf", maker: PELLAM, history: [] },
-    { tag: "DIA-0104", family: "dia", description: "Dial indicator 0-1 in", range: [0, 1], location: "Bench 1", maker: CORVANE, history: yearly(55) },
+    {
+      tag: "DIA-0104",
+      family: "dia",
+      description: "Dial indicator 0-1 in",
+      range: [0, 1],
+      location: "Bench 1",
+      maker: CORVANE,
+      history: yearly(55),
+      // Three readings at 0.500 in average +0.00023 in on ± 0.0002 in: out of tolerance, but within U of the limit (conditional fail).
+      findings: { 420: { nominal: 0.5, readings: [0.5002, 0.5003, 0.5002], note: "Reads high near mid-travel; rack cleaned and re-set (demo)." } },
+    },
     { tag: "DIA-0105", family: "dia", description: "Dial indicator 0-1 in", range: [0, 1], location: "Bench 2", maker: OSTRAVA, history: yearly(348) },
-    { tag: "DIA-0106", family: "dia", description: "Dial indicator 0-1 in", range: [0, 1], location: "Bench 3", maker: PELLAM, history: yearly(190) },
+    {
+      tag: "DIA-0106",
+      family: "dia",
+      description: "Dial indicator 0-1 in",
+      range: [0, 1],
+      location: "Bench 3",
+      maker: PELLAM,
+      history: yearly(190),
+      findings: { 190: { nominal: 0.25, readings: [0.2504], note: "Sticky at a quarter travel; bezel and pinion cleaned, re-set (demo)." } },
+    },
     { tag: "DIA-0107", family: "dia", description: "Dial indicator 0-1 in", range: [0, 1], location: "Crib cabinet C2", maker: CORVANE, history: yearly(260) },
-    { tag: "DIA-0108", family: "dia", description: "Dial indicator 0-1 in", range: [0, 1], location: "Crib cabinet C2", maker: OSTRAVA, history: yearly(35) },
+    {
+      tag: "DIA-0108",
+      family: "dia",
+      description: "Dial indicator 0-1 in",
+      range: [0, 1],
+      location: "Crib cabinet C2",
+      maker: OSTRAVA,
+      history: yearly(35),
+      findings: { 400: { nominal: 0.75, readings: [0.7497], note: "Reads low at three-quarter travel after a drop at the bench; re-set (demo)." } },
+    },
     { tag: "CAL-0101", family: "cal", description: "Dial caliper 0-6 in (reference only)", range: [0, 6], location: "Crib drawer D1", maker: PELLAM, calibrationRequired: false },
     { tag: "CAL-0102", family: "cal", description: "Dial caliper 0-6 in (reference only)", range: [0, 6], location: "Bench 1", maker: CORVANE, calibrationRequired: false },
     { tag: "CAL-0103", family: "cal", description: "Dial caliper 0-6 in (reference only)", range: [0, 6], location: "Bench 4", maker: OSTRAVA, calibrationRequired: false },
@@ -300,36 +374,72 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
     const steps = Math.max(1, mpe.div(res).floor().toNumber());
     const drift = (rand() - 0.5) * 1.6; // steps per calibration
     const nominals = tool.elements.length ? tool.elements.map((e) => ({ nominal: e.nominal, elementId: e.id })) : (f.checkPoints as number[]).map((n) => ({ nominal: n, elementId: null }));
-    const stds = (s.standards ?? (f.unit === "mm" ? ["GBS-02"] : ["GBS-01"])).map((tag) => standardIds[tag]);
+    const stdTags = s.standards ?? (f.unit === "mm" ? ["GBS-02"] : ["GBS-01"]);
+    const stds = stdTags.map((tag) => standardIds[tag]);
+    const history = s.history ?? [];
     let offset = 0;
-    for (const [k, daysAgo] of (s.history ?? []).entries()) {
+    for (const [k, daysAgo] of history.entries()) {
       const performedAt = ago(daysAgo, 5 - (hash(s.tag + k) & 3));
-      const limited = s.limited && k === (s.history ?? []).length - 1 ? s.limited : null;
-      const points: CalibrationPointInput[] = nominals
+      const last = k === history.length - 1;
+      const limited = s.limited && last ? s.limited : null;
+      const finding = s.findings?.[daysAgo] ?? null;
+      const rule: DecisionRule = last && !limited ? (s.lastRule ?? (s.family === "mic01" ? "guarded" : "simple")) : "simple";
+      const temperatureC = 20 + Math.round((rand() - 0.3) * 10) / 10;
+      const context = { rule, unit: f.unit, resolution: Number(f.resolution), familyMpe: f.mpe, temperatureC, temperatureVariationC: 0.5, standards: stdTags.map((t) => computeStandards[t]) };
+      let points: CalibrationPointInput[] = nominals
         .filter((p) => !limited || (p.nominal >= limited.min && p.nominal <= limited.max))
         .map((p, i) => {
           const noise = Math.round((rand() - 0.5) * 1.2);
           const e = Math.max(-steps, Math.min(steps, Math.round(offset + drift * k * (0.6 + 0.4 * Math.sin(i)) + noise)));
-          const asFound = dec(p.nominal).plus(res.times(e));
-          // Re-set to zero when a point sits on its limit (adjusted, though found in tolerance).
-          const atLimit = Math.abs(e) === steps && steps > 0 && k > 0;
-          return { nominal: p.nominal, reference: p.nominal, asFound: asFound.toNumber(), asLeft: atLimit ? p.nominal : null, elementId: p.elementId };
+          return { nominal: p.nominal, asFound: dec(p.nominal).plus(res.times(e)).toNumber(), elementId: p.elementId };
         });
-      const adjusted = points.some((p) => p.asLeft != null);
+      // The indication is against the certified value of the blocks: a reading one step out on a block that is itself a few
+      // microinches off would be out of tolerance, which these routine records are not. Such points read one step nearer.
+      const preview = computeCalibration({ ...context, rule: "simple", adjusted: false, points });
+      points = points.map((p, i) => {
+        const q = preview.points[i];
+        if (q.asFoundInTolerance) return p;
+        return { ...p, asFound: dec(p.asFound).minus(res.times(Math.sign(q.errorAsFound))).toNumber() };
+      });
+      if (finding) {
+        const mean = finding.readings.reduce((a, b) => a.plus(dec(b)), dec(0)).div(finding.readings.length);
+        points = points.map((p) =>
+          p.nominal === finding.nominal ? { ...p, asFound: mean.toDecimalPlaces(6).toNumber(), repeatReadings: finding.readings.length > 1 ? finding.readings : undefined } : p,
+        );
+      } else if (last && points.length > 1) {
+        // The latest record reads one point several times, so the budget shows repeatability (Type A). Under the guarded
+        // rule the readings repeat exactly: one step of scatter on a 0.0001 in micrometer would, with so few readings, make U
+        // exceed the MPE (few degrees of freedom, large k) and nothing could be released.
+        const mid = Math.floor(points.length / 2);
+        const p = points[mid];
+        const step = dec(p.asFound).plus(res).toNumber();
+        points[mid] = { ...p, repeatReadings: rule === "simple" ? [p.asFound, p.asFound, step, p.asFound] : [p.asFound, p.asFound, p.asFound] };
+      }
+      // Re-set where a point sits on its limit, where the decision rule would not release it, or after a finding.
+      const judged = computeCalibration({ ...context, adjusted: false, points });
+      const reset = judged.points.map((q) => !!finding || (k > 0 && steps > 0 && dec(q.errorAsFound).abs().gte(mpe)) || q.verdict === "fail");
+      const adjusted = reset.some(Boolean);
+      if (adjusted) points = points.map((p, i) => ({ ...p, asLeft: reset[i] ? p.nominal : p.asFound }));
       const cal = await calibrationsService(deps(new Date(performedAt.getTime() + 2 * HOUR))).create(
         s.tag,
         CreateCalibrationSchema.parse({
           performedAt: performedAt.toISOString(),
-          temperatureC: 20 + Math.round((rand() - 0.3) * 10) / 10,
+          temperatureC,
+          temperatureVariationC: 0.5,
           humidityPct: 38 + Math.round(rand() * 12),
           standardIds: stds,
-          decisionRule: "simple",
+          decisionRule: rule,
+          adjusted,
           points,
           limitedRange: limited,
-          notes: [adjusted ? "Re-set to zero at the points found on the limit." : "Routine calibration.", limited ? limited.note : "", "(demo)"].filter(Boolean).join(" "),
+          notes: [finding ? finding.note : adjusted ? "Re-set to zero at the points found on or near the limit." : "Routine calibration.", limited ? limited.note : "", "(demo)"].filter(Boolean).join(" "),
         }),
         quality.id,
       );
+      if (cal.investigationId) {
+        // The finding was investigated at the time: no reading had been taken with the tool in its window.
+        await closeInvestigation(db, fixedClock(new Date(performedAt.getTime() + 3 * DAY)), cal.investigationId, `${finding?.note ?? "Found out of tolerance."} No reading in the window; closed (demo).`, quality.id);
+      }
       if (adjusted) offset = 0;
       lastCalibrationIds[s.tag] = cal.id;
     }

@@ -37,13 +37,21 @@ export type IntervalDecision = z.infer<typeof IntervalDecisionSchema>;
  * GET /api/families/:id/interval-analysis (api.md fields first). `calibrations` is the number of end-of-period
  * calibrations the rate rests on; `asFoundInToleranceRate` is null with none.
  */
+export const IntervalDecisionKindSchema = z.enum(["keep", "shorten", "lengthen", "none"]);
+
 export const IntervalAnalysisSchema = z.object({
   calibrations: z.number().int(),
   asFoundInToleranceRate: z.number().nullable(),
   currentIntervalDays: z.number().int(),
+  /** The current interval when the test keeps it; the model's interval when it changes; null with no basis. */
   recommendedIntervalDays: z.number().nullable(),
   method: z.literal("exponential_reliability"),
   reliabilityTarget: z.number(),
+  /** NCSL RP-1 method A3: keep unless the target lies outside the observed rate's Clopper-Pearson interval. */
+  decision: IntervalDecisionKindSchema,
+  /** Two-sided Clopper-Pearson interval of the observed rate at `confidence`; null with no observation. */
+  confidenceInterval: z.object({ lower: z.number(), upper: z.number() }).nullable(),
+  confidence: z.number(),
   familyId: z.string(),
   familyName: z.string(),
   /** The interval the end-of-period observations were made under (I_old of the model; their mean when tools differed). */
@@ -86,6 +94,12 @@ export const IntervalFamilySchema = z.object({
   recalibrations: z.number().int(),
   inTolerance: z.number().int(),
   rate: z.number().nullable(),
+  /** The rate's Clopper-Pearson interval at the shop's confidence. */
+  confidenceInterval: z.object({ lower: z.number(), upper: z.number() }).nullable(),
+  reliabilityTarget: z.number(),
+  decision: IntervalDecisionKindSchema,
+  recommendedIntervalDays: z.number().nullable(),
+  reason: z.string(),
   lastDecisionAt: z.string().nullable(),
 });
 export type IntervalFamily = z.infer<typeof IntervalFamilySchema>;
@@ -94,10 +108,15 @@ export const DriftPointSchema = z.object({
   calibrationId: z.string(),
   performedAt: z.string(),
   errorAsFound: z.number(),
+  /** Error as left after an adjustment; null when the tool was left as found. */
   errorAsLeft: z.number().nullable(),
+  adjusted: z.boolean(),
   mpe: z.number(),
   asFoundInTolerance: z.boolean(),
 });
+
+/** The drift over one interval: from a calibration's as-left error to the next as-found error. */
+export const DriftIntervalSchema = z.object({ from: z.string(), to: z.string(), days: z.number(), startError: z.number(), endError: z.number(), ratePerDay: z.number() });
 
 export const DriftSeriesSchema = z.object({
   key: z.string(),
@@ -105,10 +124,22 @@ export const DriftSeriesSchema = z.object({
   element: z.string().nullable(),
   mpe: z.number(),
   points: z.array(DriftPointSchema),
+  intervals: z.array(DriftIntervalSchema),
   trend: z
-    .object({ slopePerDay: z.number(), intercept: z.number(), origin: CalendarDateSchema, predictedExceedAt: CalendarDateSchema.nullable() })
+    .object({
+      ratePerDay: z.number(),
+      /** Standard uncertainty of the rate; the band on the chart is ± k of it. */
+      rateUncertaintyPerDay: z.number(),
+      k: z.number(),
+      startAt: z.string(),
+      startError: z.number(),
+      horizonAt: CalendarDateSchema,
+      predictedExceedAt: CalendarDateSchema.nullable(),
+      earliestExceedAt: CalendarDateSchema.nullable(),
+    })
     .nullable(),
-  /** True when the line reaches the MPE on or before the tool's next due date. */
+  outlook: z.enum(["insufficient", "already_out", "no_trend", "beyond_two_intervals", "may_have_left", "predicted"]),
+  /** True when the point may leave tolerance on or before the tool's next due date (or already may have). */
   flagged: z.boolean(),
   message: z.string(),
 });

@@ -16,6 +16,10 @@ export const SettingsSchema = z.object({
   recordRetentionYears: z.number().int().min(1).max(100),
   /** Gauge studies: the appraiser × part interaction is pooled into repeatability when its p-value exceeds this (Bancroft & Han 1983; 0.25 in several statistics packages). */
   studyPoolingAlpha: z.number().gt(0, "Use a probability above 0.").lt(1, "Use a probability below 1."),
+  /** r of the decision rule "guarded, shop multiplier": guard band w = r·U (ILAC-G8 §4.2.2). */
+  guardBandMultiplier: z.number().min(0).max(3),
+  /** Confidence of the interval test's Clopper-Pearson interval (NCSL RP-1 method A3). */
+  intervalConfidence: z.number().min(0.8).max(0.999),
 });
 export type Settings = z.infer<typeof SettingsSchema>;
 export const UpdateSettingsSchema = SettingsSchema.partial();
@@ -34,4 +38,6 @@ export const DEFAULT_SETTINGS: Omit<Settings, "shopTimeZone"> = {
   defaultLengthUnit: "in",
   recordRetentionYears: 10,
   studyPoolingAlpha: 0.25,
+  guardBandMultiplier: 1,
+  intervalConfidence: 0.95,
 };

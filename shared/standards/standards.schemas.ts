@@ -6,11 +6,11 @@ import { TOOL_KINDS } from "../families/families.schemas";
 export const STANDARD_KINDS = [...TOOL_KINDS, "check_block"] as const;
 export const StandardKindSchema = z.enum(STANDARD_KINDS);
 
-/** Certified value of one element of a set standard (e.g. a gauge block): nominal and its deviation. */
+/** One element of a set standard (e.g. a gauge block): nominal and its certified deviation, null when the certificate gives none (the block is then used at its nominal, within its grade). */
 export const ElementValueSchema = z.object({
   label: z.string().trim().min(1).max(40),
   nominal: LengthSchema,
-  deviation: LengthSchema,
+  deviation: LengthSchema.nullish(),
 });
 
 /** A calibration certificate of a reference standard (api.md: number, lab, issuedAt, dueAt, expandedUncertainty, coverageFactor). */
@@ -26,6 +26,8 @@ export const CertificateInputSchema = z
     /** Expanded uncertainty U in the standard's unit. */
     expandedUncertainty: LengthSchema.nonnegative(),
     coverageFactor: z.number().positive().default(2),
+    /** Degrees of freedom of U where the certificate states them; absent = infinite (k = 2 for about 95 %). */
+    degreesOfFreedom: z.number().min(1).nullish(),
     accreditationBody: optionalText(120),
     scope: optionalText(500),
     /** The national measurement institute the certificate traces to. */
@@ -73,8 +75,9 @@ export const CertificateSchema = z.object({
   dueAt: CalendarDateSchema,
   expandedUncertainty: z.number(),
   coverageFactor: z.number(),
+  degreesOfFreedom: z.number().nullable(),
   certifiedValue: z.number().nullable(),
-  elementValues: z.array(z.object({ label: z.string(), nominal: z.number(), deviation: z.number() })).nullable(),
+  elementValues: z.array(z.object({ label: z.string(), nominal: z.number(), deviation: z.number().nullable() })).nullable(),
   hasFile: z.boolean(),
   /** GET this path for the certificate file (PDF or image) when hasFile. */
   fileUrl: z.string().nullable(),

@@ -9,9 +9,19 @@ declare module "jstat" {
     cdf(x: number, df1: number, df2: number): number;
     inv(p: number, df1: number, df2: number): number;
   }
+  interface JStatStudentT {
+    cdf(x: number, dof: number): number;
+    inv(p: number, dof: number): number;
+  }
+  interface JStatBeta {
+    cdf(x: number, alpha: number, beta: number): number;
+    inv(p: number, alpha: number, beta: number): number;
+  }
   const jStat: {
     normal: JStatNormal;
     centralF: JStatCentralF;
+    studentt: JStatStudentT;
+    beta: JStatBeta;
     /** Regularized incomplete beta function I_x(a, b). */
     ibeta(x: number, a: number, b: number): number;
   };

@@ -4,6 +4,8 @@ import { createTestApp, type TestApp } from "../support/test-app";
 import { roleMatrix } from "../support/role-matrix";
 import { makeFamily, makeLab, makeStandard, makeTool, makeCalibration } from "../support/factories";
 import { calibrationBody, micrometerBench } from "../support/factories-register";
+import { standardCertificates } from "../../server/db/schema";
+import { roundUncertainty } from "../../shared/calibrations/uncertainty";
 
 let t: TestApp;
 beforeAll(async () => {
@@ -45,13 +47,13 @@ describe("signing a calibration", () => {
     expect(list.body.items[0].id).toBe(res.body.id);
   });
 
-  it("a reading exactly on the permissible error passes under simple acceptance (ILAC-G8:09/2019 §4.2.1) and fails under guarded acceptance when U > 0 (ILAC-G8:09/2019 §4.2.2)", async () => {
+  it("a reading exactly on the permissible error passes under simple acceptance (ILAC-G8:09/2019 §4.2.1); under guarded acceptance it is not released (ILAC-G8:09/2019 §4.2.2), yet it was found in tolerance", async () => {
     const { tool, standard } = await micrometerBench(t.db);
     const q = await t.agent("quality");
     const point = { nominal: 0.5, asFound: 0.5001, uncertainty: 0.00002 };
     const simple = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [point] }));
     expect(simple.status).toBe(201);
-    expect(simple.body.points[0]).toMatchObject({ errorAsFound: 0.0001, acceptanceLimit: 0.0001, verdict: "pass" });
+    expect(simple.body.points[0]).toMatchObject({ errorAsFound: 0.0001, acceptanceLimit: 0.0001, guardBand: 0, verdict: "pass", asFoundStatement: "conditional_pass" });
     expect(simple.body.result).toBe("pass");
 
     const guarded = await q.post(
@@ -59,10 +61,59 @@ describe("signing a calibration", () => {
       calibrationBody([standard.id], { decisionRule: "guarded", points: [point], supersedesId: simple.body.id, supersedeReason: "Procedure calls for guarded acceptance" }),
     );
     expect(guarded.status).toBe(201);
-    expect(guarded.body.points[0]).toMatchObject({ errorAsFound: 0.0001, acceptanceLimit: 0.00008, verdict: "fail" });
-    expect(guarded.body.result).toBe("fail");
-    expect(guarded.body.asFoundInTolerance).toBe(false);
+    expect(guarded.body.points[0]).toMatchObject({ errorAsFound: 0.0001, acceptanceLimit: 0.00008, guardBand: 0.00002, verdict: "fail", asFoundInTolerance: true });
+    expect(guarded.body).toMatchObject({ result: "fail", asFoundInTolerance: true, asFoundStatement: "conditional_pass" });
     expect((await statusOf(tool.assetTag)).status).toBe("out_of_tolerance");
+  });
+
+  it("a guarded calibration with |e| inside the MPE but beyond MPE − U is refused release and opens no investigation; the conditional statement is listed for the quality manager instead (ILAC-G8:09/2019 §4.2.2; §4.2.3 from memory)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    // 0.00009 in on ± 0.0001 in with U = 0.00002 in: inside the tolerance, outside MPE − U.
+    const res = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { decisionRule: "guarded", points: [{ nominal: 0.5, asFound: 0.50009, uncertainty: 0.00002 }] }));
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ result: "fail", asFoundInTolerance: true, asFoundStatement: "conditional_pass", investigationId: null });
+    expect(res.body.points[0]).toMatchObject({ asFoundInTolerance: true, asFoundStatement: "conditional_pass", verdict: "fail", releasedOn: "as_found" });
+    const investigations = await q.get(`/api/investigations?toolAssetTag=${tool.assetTag}`);
+    expect(investigations.body).toEqual([]);
+    const review = await q.get(`/api/calibrations/conditional-results?toolAssetTag=${tool.assetTag}`);
+    expect(review.status).toBe(200);
+    expect(review.body.total).toBe(1);
+    expect(review.body.items[0]).toMatchObject({ calibrationId: res.body.id, assetTag: tool.assetTag, nominal: 0.5, errorAsFound: 0.00009, mpe: 0.0001, uncertainty: 0.00002, asFoundStatement: "conditional_pass", result: "fail" });
+  });
+
+  it("an as-found error beyond the MPE but within U of it is a conditional fail: out of tolerance, so it opens an investigation, and it is listed for review too (ILAC-G8:09/2019 §4.2.1; §4.2.3 from memory)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const res = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { adjusted: true, points: [{ nominal: 0.5, asFound: 0.50011, asLeft: 0.5, uncertainty: 0.00002 }] }));
+    expect(res.body).toMatchObject({ result: "adjusted", asFoundInTolerance: false, asFoundStatement: "conditional_fail" });
+    expect(res.body.investigationId).toEqual(expect.any(String));
+    const review = await q.get(`/api/calibrations/conditional-results?toolAssetTag=${tool.assetTag}&statement=conditional_fail`);
+    expect(review.body.items.map((i: { calibrationId: string }) => i.calibrationId)).toEqual([res.body.id]);
+  });
+
+  it("guarded acceptance with the shop's multiplier uses w = r·U, with r as it stood when the record was signed (ILAC-G8:09/2019 §4.2.2; r: shop setting)", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const admin = await t.agent("admin");
+    expect((await admin.patch("/api/settings", { guardBandMultiplier: 0.5 })).status).toBe(200);
+    try {
+      const res = await (await t.agent("quality")).post(
+        `/api/tools/${tool.assetTag}/calibrations`,
+        calibrationBody([standard.id], { decisionRule: "guarded_scaled", points: [{ nominal: 0.5, asFound: 0.50009, uncertainty: 0.00002 }] }),
+      );
+      expect(res.body).toMatchObject({ decisionRule: "guarded_scaled", guardBandMultiplier: 0.5, result: "pass" });
+      expect(res.body.points[0]).toMatchObject({ guardBand: 0.00001, acceptanceLimit: 0.00009, verdict: "pass" });
+    } finally {
+      await admin.patch("/api/settings", { guardBandMultiplier: 1 });
+    }
+  });
+
+  it("the guarded limit MPE − U is computed in exact decimals: an error of 0.2 mm against ± 0.3 mm with U = 0.1 mm sits on the limit and is released (0.3 − 0.1 in binary floating point is 0.19999999999999998)", async () => {
+    const family = await makeFamily(t.db, { name: "Coarse mm gauge (test)", unit: "mm", mpe: "0.3", resolution: "0.1", checkPoints: [] });
+    const tool = await makeTool(t.db, { familyId: family.id, unit: "mm", rangeMin: "0", rangeMax: "100", resolution: "0.1" });
+    const { standard } = await makeStandard(t.db, { unit: "mm" }, { expandedUncertainty: "0.001" });
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { decisionRule: "guarded", points: [{ nominal: 10, asFound: 10.2, uncertainty: 0.1 }] }));
+    expect(res.body.points[0]).toMatchObject({ acceptanceLimit: 0.2, errorAsFound: 0.2, verdict: "pass" });
   });
 
   it("without a given U, the point's U comes from the budget (certificate U/k, resolution d/√12, temperature; root-sum-square, k = 2, GUM 5.1.2 and 6.2) and a TUR under 4:1 is flagged (ANSI/NCSL Z540.3-2006 §5.3 b)", async () => {
@@ -113,15 +164,33 @@ describe("signing a calibration", () => {
 
   it("an as-found reading out of tolerance that is adjusted back in gives the result adjusted, and the tool returns to calibration", async () => {
     const { tool, standard } = await micrometerBench(t.db);
-    const body = calibrationBody([standard.id]);
-    body.points = body.points.map((p) => (p.nominal === 0.5 ? { ...p, asFound: 0.5003, asLeft: 0.5 } : p));
+    const body = calibrationBody([standard.id], { adjusted: true });
+    body.points = body.points.map((p) => (p.nominal === 0.5 ? { ...p, asFound: 0.5003, asLeft: 0.5 } : { ...p, asLeft: p.asFound }));
     const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, body);
     expect(res.status).toBe(201);
     expect(res.body.result).toBe("adjusted");
     expect(res.body.asFoundInTolerance).toBe(false);
     const p = res.body.points.find((x: { nominal: number }) => x.nominal === 0.5);
-    expect(p).toMatchObject({ errorAsFound: 0.0003, errorAsLeft: 0, asFoundInTolerance: false, verdict: "pass" });
+    expect(p).toMatchObject({ errorAsFound: 0.0003, errorAsLeft: 0, asFoundInTolerance: false, asFoundStatement: "fail", releasedOn: "as_left", verdict: "pass" });
+    expect(res.body.adjusted).toBe(true);
     expect((await statusOf(tool.assetTag)).status).toBe("in_calibration");
+  });
+
+  it("'adjusted' only when the record says so: an as-left reading that differs with no word on an adjustment is refused naming the point, and with adjusted: false it is a repeat reading and release is decided as found", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const q = await t.agent("quality");
+    const points = [{ nominal: 0.5, asFound: 0.5001, asLeft: 0.5 }];
+    const unstated = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points }));
+    expect(unstated.status).toBe(400);
+    expect(unstated.body.error).toMatchObject({ code: "adjustment_unstated", message: expect.stringMatching(/Point 1 \(0.5 in\)/) });
+    const repeat = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { adjusted: false, points }));
+    expect(repeat.status).toBe(201);
+    expect(repeat.body).toMatchObject({ adjusted: false, result: "pass" });
+    expect(repeat.body.points[0].releasedOn).toBe("as_found");
+    const missing = await q.post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { adjusted: true, points: [{ nominal: 0.5, asFound: 0.5003, asLeft: 0.5 }, { nominal: 1, asFound: 1 }] }));
+    expect(missing.status).toBe(400);
+    expect(missing.body.error).toMatchObject({ code: "as_left_required", message: expect.stringMatching(/Point 2 \(1 in\)/) });
+    expect(await calibrationCount(tool.id)).toBe(1);
   });
 
   it("an as-found failure left unadjusted fails the calibration and takes the tool out of use", async () => {
@@ -144,6 +213,98 @@ describe("signing a calibration", () => {
     const s = await statusOf(tool.assetTag);
     expect(s.status).toBe("limited");
     expect(s.reasons[0]).toMatch(/0.*0\.5 in/);
+  });
+});
+
+describe("the uncertainty budget of each point", () => {
+  it("reproduces JCGM 100 H.1 through the API: a 50 mm end gauge against a standard certified at 50.000 623 mm (U = 0.075 µm, k = 3, ν = 18), comparator terms, 19.9 °C and ± 0.05 °C between gauge and standard → l = 50.000 838 mm, u_c = 32 nm (JCGM 100:2008 H.1)", async () => {
+    const family = await makeFamily(t.db, { name: "End gauges 50 mm (test)", kind: "gauge_block_set", unit: "mm", mpe: "0.0005", resolution: "0.000001", checkPoints: [] });
+    const tool = await makeTool(t.db, { familyId: family.id, unit: "mm", rangeMin: "50", rangeMax: "50", resolution: "0.000001" });
+    const { standard } = await makeStandard(t.db, { kind: "setting_standard", unit: "mm", nominal: "50" }, { expandedUncertainty: "0.000075", coverageFactor: "3", degreesOfFreedom: "18", certifiedValue: "50.000623" });
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, {
+      performedAt: "2026-06-15T14:00:00Z",
+      temperatureC: 19.9,
+      temperatureVariationC: 0.05,
+      standardIds: [standard.id],
+      decisionRule: "simple",
+      otherUncertainties: [
+        { source: "Repeated observations of the comparator", standardUncertainty: 0.0000058, degreesOfFreedom: 24 },
+        { source: "Random effects of the comparator", standardUncertainty: 0.0000039, degreesOfFreedom: 5 },
+        { source: "Systematic effects of the comparator", standardUncertainty: 0.0000067, degreesOfFreedom: 8 },
+      ],
+      points: [{ nominal: 50, asFound: 50.000838 }],
+    });
+    expect(res.status).toBe(201);
+    const p = res.body.points[0];
+    expect(p).toMatchObject({ reference: 50.000623, errorAsFound: 0.000215 });
+    expect(p.referenceParts).toEqual([{ standard: standard.assetTag, element: null, nominal: 50, value: 50.000623, certified: true }]);
+    expect(Math.round(p.budget.combined * 1e6)).toBe(32);
+    const row = (kind: string) => p.budget.components.find((c: { kind: string }) => c.kind === kind);
+    expect(row("standard")).toMatchObject({ dof: 18, divisorLabel: "k = 3" });
+    expect(row("standard").contribution * 1e6).toBeCloseTo(25, 6);
+    expect(row("temperature_variation").contribution * 1e6).toBeCloseTo(16.6, 1);
+    expect(row("temperature_offset").contribution * 1e6).toBeCloseTo(2.9, 1);
+    // The thermal terms count here with infinite ν, so ν_eff is larger than H.1's 16 and k is taken from it (GUM G.4.1).
+    expect(p.budget.effectiveDof).toBeGreaterThan(16);
+    // U = k·u_c stated with two significant digits, rounded up (GUM 7.2.6).
+    expect(p.uncertainty).toBe(roundUncertainty(p.budget.k * p.budget.combined));
+  });
+
+  it("a 7.7 mm point is built from the 5 mm and 2.7 mm blocks with their certified values, each block its own row; a block with no certified value counts its ISO 3650 grade tolerance as rectangular (GUM 4.3.7; ISO 3650:1998)", async () => {
+    const family = await makeFamily(t.db, { name: "Outside micrometer 0-25 mm (test)", unit: "mm", mpe: "0.002", resolution: "0.001", checkPoints: [] });
+    const tool = await makeTool(t.db, { familyId: family.id, unit: "mm", rangeMin: "0", rangeMax: "25", resolution: "0.001" });
+    const { standard } = await makeStandard(
+      t.db,
+      { unit: "mm", grade: "0" },
+      {
+        expandedUncertainty: "0.0001",
+        elementValues: [
+          { label: "5", nominal: "5", deviation: "0.00006" },
+          { label: "2.7", nominal: "2.7", deviation: "-0.00002" },
+          { label: "1.2", nominal: "1.2", deviation: null },
+          { label: "10", nominal: "10", deviation: "0.00005" },
+        ],
+      },
+    );
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, {
+      performedAt: "2026-06-15T14:00:00Z",
+      temperatureC: 20.5,
+      temperatureVariationC: 0.5,
+      standardIds: [standard.id],
+      decisionRule: "simple",
+      points: [
+        { nominal: 7.7, asFound: 7.701, repeatReadings: [7.701, 7.701, 7.702, 7.700] },
+        { nominal: 11.2, asFound: 11.2 },
+      ],
+    });
+    expect(res.status).toBe(201);
+    const [p77, p112] = res.body.points;
+    expect(p77).toMatchObject({ reference: 7.70004, errorAsFound: 0.00096, repeatReadings: [7.701, 7.701, 7.702, 7.7] });
+    expect(p77.budget.components.map((c: { kind: string }) => c.kind)).toEqual(["standard", "standard", "resolution", "repeatability", "temperature_offset", "temperature_variation"]);
+    expect(p77.budget.components.find((c: { kind: string }) => c.kind === "repeatability")).toMatchObject({ type: "A", dof: 3 });
+    expect(p77.budget.effectiveDof).toEqual(expect.any(Number));
+    expect(p112.referenceParts.map((r: { element: string; certified: boolean }) => [r.element, r.certified])).toEqual([["1.2", false], ["10", true]]);
+    const grade = p112.budget.components.find((c: { kind: string }) => c.kind === "standard_grade");
+    expect(grade.quantity).toBeCloseTo(0.00012, 12);
+    expect(grade.source).toMatch(/grade 0/);
+
+    // The same budget prints in the record's PDF.
+    const pdf = await (await t.agent("auditor")).get(`/api/calibrations/${res.body.id}/record.pdf`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on("data", (c: Buffer) => chunks.push(c));
+      r.on("end", () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers["content-type"]).toBe("application/pdf");
+    expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe("%PDF-");
+  });
+
+  it("a certificate's degrees of freedom are kept with it", async () => {
+    const { standard } = await makeStandard(t.db, {}, { degreesOfFreedom: "12" });
+    const [cert] = await t.db.select().from(standardCertificates).where(sql`${standardCertificates.standardId} = ${standard.id}`);
+    expect(cert.degreesOfFreedom).toBe("12");
+    const detail = await (await t.agent("auditor")).get(`/api/standards/${standard.id}`);
+    expect(detail.body.certificates[0].degreesOfFreedom).toBe(12);
   });
 });
 
@@ -412,13 +573,31 @@ describe("bad input", () => {
     expect(await calibrationCount(tool.id)).toBe(0);
   });
 
-  it("a family without a permissible error needs one per point (400 invalid_mpe)", async () => {
+  it("a family without a permissible error needs one per point: 400 invalid_mpe naming the point, never a server error", async () => {
     const family = await makeFamily(t.db, { name: "No MPE family (test)", mpe: null, checkPoints: [] });
     const tool = await makeTool(t.db, { familyId: family.id });
     const { standard } = await makeStandard(t.db);
-    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.5, asFound: 0.5 }] }));
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.25, asFound: 0.25, mpe: 0.0001 }, { nominal: 0.5, asFound: 0.5 }] }));
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe("invalid_mpe");
+    expect(res.body.error.message).toMatch(/Point 2 \(0.5 in\) has no permissible error/);
+    expect(await calibrationCount(tool.id)).toBe(0);
+  });
+
+  it("a permissible error of zero or less reverses the limits: 400 naming the point, and nothing is written", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.5, asFound: 0.5 }, { nominal: 0.71, asFound: 0.71, mpe: -0.0001 }] }));
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/Point 2 \(0.71\): the permissible error must be greater than zero/);
+    expect(res.body.error.details[0].path).toEqual(["points", 1, "mpe"]);
+    expect(await calibrationCount(tool.id)).toBe(0);
+  });
+
+  it("repeat readings whose mean is not the as-found reading are refused naming the point", async () => {
+    const { tool, standard } = await micrometerBench(t.db);
+    const res = await (await t.agent("quality")).post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { points: [{ nominal: 0.5, asFound: 0.5003, repeatReadings: [0.5, 0.5001] }] }));
+    expect(res.status).toBe(400);
+    expect(res.body.error).toMatchObject({ code: "readings_mismatch", message: expect.stringMatching(/Point 1 \(0.5 in\).*mean/) });
   });
 
   it("a malformed record id is a 400 and an unknown one a 404", async () => {
@@ -478,6 +657,8 @@ describe("who may record calibrations and checks", () => {
     { method: "post", path: "/api/calibrations/certificate-files", allowed: ["quality", "admin"] },
     { method: "get", label: "/api/calibrations/:id/certificate", path: () => `/api/calibrations/${calId}/certificate`, allowed: ALL },
     { method: "get", label: "/api/tools/:assetTag/chain", path: () => `/api/tools/${tag}/chain`, allowed: ALL },
+    { method: "get", path: "/api/calibrations/conditional-results", allowed: ["quality", "auditor", "admin"] },
+    { method: "get", label: "/api/calibrations/:id/record.pdf", path: () => `/api/calibrations/${calId}/record.pdf`, allowed: ALL },
     { method: "post", label: "/api/tools/:assetTag/checks", path: () => `/api/tools/${tag}/checks`, body: { nominal: 0.5, reading: 0.5 }, allowed: ["mechanic", "crib", "quality", "admin"] },
     { method: "get", label: "/api/tools/:assetTag/checks", path: () => `/api/tools/${tag}/checks`, allowed: ALL },
     { method: "patch", label: "/api/checks/:id", path: "/api/checks/00000000-0000-4000-8000-000000000000", body: { reading: 1 }, allowed: ["mechanic", "crib", "quality", "admin"] },

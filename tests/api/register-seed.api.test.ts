@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { sql } from "drizzle-orm";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { seedUsers } from "../../server/seed/users.seed";
 import { seedRegister } from "../../server/seed/register.seed";
@@ -100,5 +101,35 @@ describe("the demo register", () => {
     expect(flr.elements.filter((e: { usable: boolean }) => !e.usable).map((e: { nominal: number }) => e.nominal)).toEqual([0.004]);
     const labs = (await a.get("/api/labs")).body.items.map((l: { name: string; accreditation: string }) => [l.name, l.accreditation]);
     expect(labs).toEqual([["Kestrel Metrology", "expiring_soon"], ["Meridian Dimensional Lab", "valid"]]);
+  });
+
+  it("shows every ILAC-G8 statement at least once, a guarded release after adjustment, and budgets built from certified blocks", async () => {
+    const r = await t.db.execute(sql`select as_found_statement as s, count(*)::int as n from calibration_points where as_found_statement is not null group by 1`);
+    const seen = Object.fromEntries((r.rows as { s: string; n: number }[]).map((x) => [x.s, x.n]));
+    for (const s of ["pass", "conditional_pass", "conditional_fail", "fail"]) expect(seen[s], s).toBeGreaterThan(0);
+    const a = await t.agent("quality");
+    const [latest] = (await a.get("/api/tools/MIC-0201/calibrations")).body.items;
+    expect(latest.decisionRule).toBe("guarded");
+    const p77 = latest.points.find((p: { nominal: number }) => p.nominal === 7.7);
+    expect(p77.referenceParts.map((x: { element: string }) => x.element).sort()).toEqual(["2.7", "5"]);
+    expect(p77.budget.components.filter((c: { kind: string }) => c.kind === "standard")).toHaveLength(2);
+    const p176 = latest.points.find((p: { nominal: number }) => p.nominal === 17.6);
+    expect(p176.budget.components.filter((c: { kind: string }) => c.kind === "standard_grade")).toHaveLength(2);
+    const dia4 = (await a.get("/api/tools/DIA-0104/calibrations")).body.items.find((c: { asFoundStatement: string }) => c.asFoundStatement === "conditional_fail");
+    expect(dia4).toMatchObject({ asFoundInTolerance: false, adjusted: true, result: "adjusted" });
+    const review = await a.get("/api/calibrations/conditional-results?current=false&statement=conditional_fail");
+    expect(review.body.items.map((i: { assetTag: string }) => i.assetTag)).toContain("DIA-0104");
+  });
+
+  it("the interval review shows a family whose interval is kept and one whose interval should change (NCSL RP-1 method A3)", async () => {
+    const families = (await (await t.agent("quality")).get("/api/intervals/families")).body as { name: string; decision: string; inTolerance: number; recalibrations: number; recommendedIntervalDays: number | null }[];
+    const mic = families.find((f) => f.name === "Outside micrometer 0-1 in")!;
+    expect(mic.decision).toBe("keep");
+    const dia = families.find((f) => f.name === "Dial indicator 0-1 in")!;
+    expect(dia).toMatchObject({ decision: "shorten", inTolerance: 7, recalibrations: 10 });
+    // 365 · ln 0.95 / ln 0.7 = 52.5 d (arithmetic on the NCSL RP-1 exponential model, from memory)
+    expect(dia.recommendedIntervalDays).toBe(52.5);
+    const closed = await (await t.agent("auditor")).get("/api/investigations?toolAssetTag=DIA-0104");
+    expect(closed.body.map((i: { status: string }) => i.status)).toEqual(["closed"]);
   });
 });

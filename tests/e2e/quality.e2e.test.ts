@@ -95,8 +95,11 @@ describe("the quality overview in the browser", () => {
     await b.screenshot(page, "quality-intervals");
     await page.goto(`/analysis/intervals/${reviewedFamilyId}`);
     await page.getByText("Staircase suggestion (ILAC-G24 method 1)").waitFor();
-    // 15 of 20 in tolerance on a 365-day interval, R* 95 %: 65.1 days (NCSL RP-1 (from memory), reference-values.md).
+    // 15 of 20 in tolerance on a 365-day interval: [0.509, 0.913] lies below R* 95 %, so the interval changes, to 65.1 days
+    // (NCSL RP-1 method A3 and exponential model (from memory); binomial arithmetic, reference-values.md).
     await page.getByText("65.1 days (set as 65 days)").waitFor();
+    await page.getByText("50.9 % – 91.3 %").first().waitFor();
+    await page.getByRole("status").filter({ hasText: /Shorten to 65.1 days: 15 of 20 found in tolerance/ }).waitFor();
     await page.getByLabel("Rationale").fill("Five of twenty found out of tolerance; shorten per the reliability model.");
     await page.getByRole("button", { name: "Record decision" }).click();
     await page.getByRole("status").filter({ hasText: "Recorded; 20 tools now on the new interval." }).waitFor();
@@ -105,7 +108,7 @@ describe("the quality overview in the browser", () => {
 
     await page.goto(`/analysis/drift/${driftTag}`);
     await page.getByRole("heading", { name: `Drift: ${driftTag}` }).waitFor();
-    await page.getByText(/Predicted to leave tolerance around/).waitFor();
+    await page.getByText(/Expected to reach the permissible error around \d{4}-\d{2}-\d{2}/).first().waitFor();
     await b.screenshot(page, "quality-drift");
 
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Audit trail" }).click();
@@ -122,7 +125,7 @@ describe("the quality overview in the browser", () => {
     await nav.getByRole("link", { name: "Interval analysis" }).click();
     await page.getByRole("table").getByRole("link").first().click();
     await page.waitForURL(/\/analysis\/intervals\/.+/);
-    await page.getByRole("heading", { name: "Reliability model (exponential, NCSL RP-1)" }).waitFor();
+    await page.getByRole("heading", { name: "Interval test (NCSL RP-1 method A3) and reliability model" }).waitFor();
     await expect(page.getByRole("heading", { name: "Record an interval decision" }).count()).resolves.toBe(0);
     await expect(page.getByRole("button", { name: "Record decision" }).count()).resolves.toBe(0);
     await nav.getByRole("link", { name: "Import and export" }).click();

@@ -151,10 +151,11 @@ describe("the tool register in the browser", () => {
 
     await page.getByRole("list", { name: "Reference standards" }).getByRole("checkbox", { name: /GBS-01/ }).check();
 
-    // Point 1 reads a half-tenth large; the error and verdict appear as it is typed.
+    // Point 1 reads a half-tenth large; the error and verdict appear as it is typed. The error is against the demo block's
+    // certified size (0.105 in block, certified 0.104999 in), so it is +0.000051 in (arithmetic).
     const first = Number(nominals[0]);
     await page.getByLabel("Point 1 as found", { exact: true }).fill(String(+(first + 0.00005).toFixed(5)));
-    await expect(page.getByLabel("Point 1 error").textContent()).resolves.toBe("+0.00005");
+    await expect(page.getByLabel("Point 1 error").textContent()).resolves.toMatch(/^\+0\.000051/);
     await expect(page.getByLabel("Point 1 verdict").textContent()).resolves.toMatch(/Pass/);
     // A typed U of 0.60 µm (0.0000236 in) against ± 0.0001 in gives a TUR of 4.2:1 (arithmetic on Z540.3 §5.3 b).
     await page.getByLabel("Point 1 U", { exact: true }).fill("0.0000236");
@@ -162,13 +163,16 @@ describe("the tool register in the browser", () => {
     // Point 2 reads three tenths large: out of tolerance, shown at once.
     await page.getByLabel("Point 2 as found", { exact: true }).fill(String(+(Number(nominals[1]) + 0.0003).toFixed(4)));
     await expect(page.getByLabel("Point 2 verdict").textContent()).resolves.toMatch(/Fail/);
-    // Adjusted back in: as left on the nominal.
+    // Adjusted back in: as left on the nominal. Typing an as-left that differs ticks "adjusted", so release is on as left.
     await page.getByLabel("Point 2 as left", { exact: true }).fill(nominals[1]);
-    await expect(page.getByLabel("Point 2 verdict").textContent()).resolves.toMatch(/Pass/);
+    await expect(page.getByRole("checkbox", { name: /The tool was adjusted/ }).isChecked()).resolves.toBe(true);
+    await expect(page.getByLabel("Point 2 verdict").textContent()).resolves.toMatch(/Found: fail.*Pass.*release on as left/);
     for (let i = 3; i <= nominals.length; i++) await page.getByLabel(`Point ${i} as found`, { exact: true }).fill(nominals[i - 1]);
 
     const summary = page.getByRole("region", { name: "Result so far" });
-    await expect(summary.textContent()).resolves.toMatch(/Adjusted/);
+    // As found and the release are stated apart, so they never contradict each other.
+    await expect(summary.textContent()).resolves.toMatch(/As found: ✕Out of tolerance · Fail/);
+    await expect(summary.textContent()).resolves.toMatch(/Release: ✓Adjusted, then released/);
     await expect(summary.textContent()).resolves.toMatch(/Next due: \d{4}-\d{2}-\d{2}/);
     // With the budget U (resolution 0.0001 in) the ratio falls under 4:1 at the other points: the Z540.3 warning shows.
     await expect(summary.getByRole("note").textContent()).resolves.toMatch(/under 4:1/);
@@ -186,8 +190,12 @@ describe("the tool register in the browser", () => {
     await expect(history.getByRole("listitem").first().textContent()).resolves.toMatch(/Adjusted/);
     // The decision rule in plain words, without symbols the shop font lacks.
     const newest = (await history.getByRole("listitem").first().textContent()) ?? "";
-    expect(newest).toMatch(/Simple acceptance: pass when the error is within ± MPE/);
-    expect(newest).not.toMatch(/[≤≥]|\|error\|/);
+    expect(newest).toMatch(/Simple acceptance: released when the error is within ± MPE/);
+    expect(newest).not.toMatch(/[≤≥√∞]|\|error\|/);
+    // The record's uncertainty budget opens as a table, and the record prints with it.
+    await history.getByRole("listitem").first().getByText("Uncertainty budget of each point").click();
+    await history.getByRole("table", { name: "Uncertainty budget, point 2" }).waitFor();
+    await expect(history.getByRole("link", { name: /Calibration record with uncertainty budgets/ }).first().getAttribute("href")).resolves.toMatch(/\/record\.pdf$/);
     expect(errors).toEqual([]);
     await context.close();
   });

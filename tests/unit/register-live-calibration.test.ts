@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { liveCalibration, parseNumber, type LiveContext, type PointText } from "../../src/features/tools/lib/live-calibration";
-import { standardForCompute } from "../../shared/calibrations/calibration-compute";
+import { asFoundOf, asLeftOf, liveCalibration, parseNumber, parseReadings, type LiveContext, type PointText } from "../../src/features/tools/lib/live-calibration";
+import { standardForCompute, type ComputeStandard } from "../../shared/calibrations/calibration-compute";
 
 // The calibration form's live answer must be the server's answer: these checks
 // drive the form's wrapper with typed text and compare with the published values.
@@ -10,13 +10,28 @@ const ctx: LiveContext = {
   resolution: 0.0001,
   familyMpe: 0.0001,
   temperatureC: 20,
+  adjusted: false,
   standards: [],
   limitedRange: null,
   performedAt: "2026-06-15T15:00:00Z",
   intervalDays: 365,
   timeZone: "America/Chicago",
 };
-const point = (p: Partial<PointText>): PointText => ({ nominal: "0.5", reference: "", asFound: "0.5", asLeft: "", mpe: "", uncertainty: "", ...p });
+const point = (p: Partial<PointText>): PointText => ({ nominal: "0.5", reference: "", asFound: "0.5", asLeft: "", mpe: "", uncertainty: "", repeatReadings: "", ...p });
+const blocks = (over: Partial<ComputeStandard> = {}): ComputeStandard => ({
+  assetTag: "GBS-T",
+  kind: "gauge_block_set",
+  unit: "in",
+  grade: "0",
+  certificateNumber: "C-1",
+  expandedUncertainty: 0.000004,
+  coverageFactor: 2,
+  degreesOfFreedom: null,
+  nominal: null,
+  certifiedValue: null,
+  elements: [],
+  ...over,
+});
 
 describe("the calibration form's live verdicts", () => {
   it("an error exactly on the permissible error passes under simple acceptance (ILAC-G8:09/2019 §4.2.1)", () => {
@@ -39,19 +54,31 @@ describe("the calibration form's live verdicts", () => {
     expect(live.lowTurPoints).toBe(1);
   });
 
-  it("guarded acceptance refuses an error inside MPE but beyond MPE − U (ILAC-G8:09/2019 §4.2.2)", () => {
+  it("guarded acceptance refuses release of an error inside MPE but beyond MPE − U (ILAC-G8:09/2019 §4.2.2), while the tool was found in tolerance (§4.2.1) and stated a conditional pass", () => {
     const live = liveCalibration([point({ asFound: "0.50009", uncertainty: "0.00002" })], { ...ctx, rule: "guarded" });
     expect(live.points[0].computed?.verdict).toBe("fail");
-    expect(live.overall?.result).toBe("fail");
+    expect(live.overall).toEqual({ result: "fail", asFoundInTolerance: true, asFoundStatement: "conditional_pass" });
   });
 
-  it("found out and left in is 'adjusted' (api.md result vocabulary)", () => {
-    const live = liveCalibration([point({ asFound: "0.5003", asLeft: "0.5000" })], ctx);
-    expect(live.overall).toEqual({ result: "adjusted", asFoundInTolerance: false });
+  it("found out, adjusted and left in is 'adjusted' (api.md result vocabulary), but only when the form says it was adjusted", () => {
+    const live = liveCalibration([point({ asFound: "0.5003", asLeft: "0.5000" })], { ...ctx, adjusted: true });
+    expect(live.overall).toEqual({ result: "adjusted", asFoundInTolerance: false, asFoundStatement: "fail" });
+    expect(liveCalibration([point({ asFound: "0.5003", asLeft: "0.5000" })], ctx).overall?.result).toBe("fail");
+  });
+
+  it("on an adjusted record a blank as-left is the as-found reading (the point did not move); repeat readings give the as-found mean", () => {
+    expect(asLeftOf(point({ asFound: "0.5001" }), true, 0.0001)).toBe(0.5001);
+    expect(asLeftOf(point({ asFound: "0.5001" }), false, 0.0001)).toBeNull();
+    expect(parseReadings("0.5000 0.5001, 0.5001")).toEqual([0.5, 0.5001, 0.5001]);
+    expect(parseReadings("0.5000 0.50x")).toBeNull();
+    // mean 0.500066… written with one digit past the 0.0001 in resolution
+    expect(asFoundOf(point({ asFound: "", repeatReadings: "0.5000 0.5001 0.5001" }), 0.0001)).toBe(0.50007);
+    const live = liveCalibration([point({ asFound: "", repeatReadings: "0.5000 0.5001 0.5001" })], { ...ctx, standards: [blocks()] });
+    expect(live.points[0].computed?.budget?.components.some((c) => c.kind === "repeatability")).toBe(true);
   });
 
   it("without a typed U the budget from the standard's certificate, resolution and temperature gives U at k = 2 (GUM 5.1.2, F.2.2.1)", () => {
-    const live = liveCalibration([point({})], { ...ctx, standards: [{ expandedUncertainty: 0.000004, coverageFactor: 2, unit: "in" }] });
+    const live = liveCalibration([point({})], { ...ctx, standards: [blocks()] });
     const p = live.points[0].computed!;
     expect(p.uncertaintySource).toBe("budget");
     // u_std = 0.000002, u_res = 0.0001/(2√3); at 20 °C the temperature term is zero: U = 0.0000579…, stated rounded up to two digits (GUM 7.2.6).
@@ -62,12 +89,12 @@ describe("the calibration form's live verdicts", () => {
 
   it("a gauge block's certified size is its nominal plus the deviation on its certificate, the same from the server's decimal strings and the form's numbers (arithmetic, no source)", () => {
     const fromRows = standardForCompute({
-      standard: { unit: "in", nominal: null },
-      certificate: { expandedUncertainty: "0.000004", coverageFactor: "2", certifiedValue: null, elementValues: [{ nominal: "0.5", deviation: "0.000003" }] },
+      standard: { assetTag: "G", kind: "gauge_block_set", unit: "in", nominal: null },
+      certificate: { number: "C", expandedUncertainty: "0.000004", coverageFactor: "2", certifiedValue: null, elementValues: [{ label: "0.500", nominal: "0.5", deviation: "0.000003" }] },
     });
     const fromApi = standardForCompute({
-      standard: { unit: "in", nominal: null },
-      certificate: { expandedUncertainty: 0.000004, coverageFactor: 2, certifiedValue: null, elementValues: [{ nominal: 0.5, deviation: 0.000003 }] },
+      standard: { assetTag: "G", kind: "gauge_block_set", unit: "in", nominal: null },
+      certificate: { number: "C", expandedUncertainty: 0.000004, coverageFactor: 2, certifiedValue: null, elementValues: [{ label: "0.500", nominal: 0.5, deviation: 0.000003 }] },
     });
     for (const std of [fromRows, fromApi]) {
       expect(std.expandedUncertainty).toBe(0.000004);
@@ -77,8 +104,9 @@ describe("the calibration form's live verdicts", () => {
       expect(live.points[0].computed?.errorAsFound).toBe(0.000097);
     }
     // A setting standard's certified length stands for its nominal.
-    const setting = standardForCompute({ standard: { unit: "mm", nominal: 25 }, certificate: { expandedUncertainty: 0.0005, coverageFactor: 2, certifiedValue: 25.0004 } });
-    expect(setting.certifiedValues?.map((c) => [Number(c.nominal), Number(c.value)])).toEqual([[25, 25.0004]]);
+    const setting = standardForCompute({ standard: { assetTag: "S", kind: "setting_standard", unit: "mm", nominal: 25 }, certificate: { number: "C", expandedUncertainty: 0.0005, coverageFactor: 2, certifiedValue: 25.0004 } });
+    const live = liveCalibration([point({ nominal: "25", asFound: "25.001" })], { ...ctx, unit: "mm", resolution: 0.001, familyMpe: 0.002, standards: [setting] });
+    expect(live.points[0].computed?.reference).toBe(25.0004);
   });
 
   it("the next due date is the calendar date of the calibration in the shop's zone plus the interval (api.md, no grace period)", () => {

@@ -85,6 +85,52 @@ export const calibrationsRepository = {
   },
   insertReview: async (db: DbOrTx, values: typeof calibrationReviews.$inferInsert) => (await db.insert(calibrationReviews).values(values).returning())[0],
 
+  /**
+   * As-found points stated conditional (ILAC-G8 non-binary statement), newest first, from records that still count;
+   * `current` keeps only each tool's latest such record. The partial index on conditional statements carries it.
+   */
+  async conditionalResults(db: DbOrTx, q: { statement?: "conditional_pass" | "conditional_fail"; toolAssetTag?: string; current: boolean; page: number; pageSize: number }) {
+    const where = sql`p.as_found_statement in ('conditional_pass', 'conditional_fail')
+      ${q.statement ? sql`and p.as_found_statement = ${q.statement}` : sql``}
+      ${q.toolAssetTag ? sql`and lower(t.asset_tag) = lower(${q.toolAssetTag})` : sql``}
+      and not exists (select 1 from calibrations s where s.supersedes_id = c.id)
+      ${
+        q.current
+          ? sql`and not exists (select 1 from calibrations later where later.tool_id = c.tool_id
+              and (later.performed_at, later.created_at) > (c.performed_at, c.created_at)
+              and not exists (select 1 from calibrations s2 where s2.supersedes_id = later.id))`
+          : sql``
+      }`;
+    const from = sql`from calibration_points p join calibrations c on c.id = p.calibration_id join tools t on t.id = c.tool_id left join set_elements e on e.id = p.element_id`;
+    const [rows, counted] = await Promise.all([
+      db.execute(sql`select p.id as point_id, p.calibration_id, p.seq, p.nominal, p.error_as_found, p.mpe, p.uncertainty, p.as_found_statement,
+          e.label as element, c.performed_at, c.result, t.asset_tag, t.description, t.unit
+        ${from} where ${where}
+        order by c.performed_at desc, t.asset_tag, p.seq
+        limit ${q.pageSize} offset ${pageOffset(q.page, q.pageSize)}`),
+      db.execute(sql`select count(*)::int as total ${from} where ${where}`),
+    ]);
+    return {
+      items: rows.rows as {
+        point_id: string;
+        calibration_id: string;
+        seq: number;
+        nominal: string;
+        error_as_found: string;
+        mpe: string;
+        uncertainty: string | null;
+        as_found_statement: "conditional_pass" | "conditional_fail";
+        element: string | null;
+        performed_at: string | Date;
+        result: "pass" | "adjusted" | "fail" | "limited";
+        asset_tag: string;
+        description: string;
+        unit: "in" | "mm";
+      }[],
+      total: Number((counted.rows[0] as { total: number }).total),
+    };
+  },
+
   /** The latest record of a tool that is not superseded (for the chain when none counts yet). */
   latestForTool: async (db: DbOrTx, toolId: string) =>
     (await db.select().from(calibrations).where(and(eq(calibrations.toolId, toolId), notSuperseded)).orderBy(...NEWEST_FIRST).limit(1))[0],

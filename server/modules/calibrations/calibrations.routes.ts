@@ -8,6 +8,8 @@ import {
   CertificateReviewSchema,
   ChainQuerySchema,
   ChainSchema,
+  ConditionalResultSchema,
+  ConditionalResultsQuerySchema,
   CreateCalibrationSchema,
   UploadedFileSchema,
 } from "../../../shared/calibrations/calibrations.schemas";
@@ -48,6 +50,19 @@ export function calibrationsRoutes(deps: AppDeps) {
     ({ req, user }) => service.uploadCertificate(uploadedFile(req), user.id),
   );
 
+  // Also before /api/calibrations/:id.
+  route(
+    {
+      method: "get",
+      path: "/api/calibrations/conditional-results",
+      summary: "As-found points within U of a limit (ILAC-G8 conditional pass / conditional fail), newest first, for the quality manager's review",
+      access: "intervals.read",
+      query: ConditionalResultsQuerySchema,
+      response: pageOf(ConditionalResultSchema),
+    },
+    ({ query }) => service.conditionalResults(query),
+  );
+
   route({ method: "get", path: "/api/calibrations/:id", summary: "One calibration record", access: "signedIn", response: CalibrationSchema }, ({ params }) => service.one(uuidParam(params.id)));
   route(
     { method: "post", path: "/api/calibrations/:id/review", summary: "Record the review of an outside lab's certificate (who, when, findings, accepted)", access: "calibrations.review", body: CertificateReviewSchema, response: CalibrationSchema },
@@ -57,6 +72,15 @@ export function calibrationsRoutes(deps: AppDeps) {
     const f = await service.certificateFile(uuidParam(params.id));
     await sendStoredFile(res, deps.storage, f.key, f.fileName);
   });
+  route(
+    { method: "get", path: "/api/calibrations/:id/record.pdf", summary: "The signed calibration record as PDF, with each point's uncertainty budget", access: "signedIn", produces: "application/pdf" },
+    async ({ params, res }) => {
+      const { pdf, fileName } = await service.recordPdf(uuidParam(params.id));
+      res.setHeader("Content-Type", "application/pdf");
+      res.setHeader("Content-Disposition", `inline; filename="${fileName}"`);
+      res.status(200).end(pdf);
+    },
+  );
   route({ method: "patch", path: "/api/calibrations/:id", summary: "Refused (409 record_signed): signed calibrations are never changed; supersede instead", access: "calibrations.write" }, ({ params }) =>
     service.refuseChange(uuidParam(params.id)),
   );

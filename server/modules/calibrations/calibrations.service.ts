@@ -11,15 +11,18 @@ import { onOutOfToleranceFinding } from "../investigations/investigations.hooks"
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound, refused } from "../../http/errors";
 import { computeCalibration, standardForCompute } from "../../../shared/calibrations/calibration-compute";
-import { DecisionRuleError } from "../../../shared/calibrations/decision-rules";
+import { DecisionRuleError, MINIMUM_TUR, nonBinaryStatement, worstStatement } from "../../../shared/calibrations/decision-rules";
 import { nextDueAt } from "../../../shared/calibrations/due-dates";
 import { calendarDate } from "../../../shared/common/dates";
-import { MINIMUM_TUR } from "../../../shared/calibrations/decision-rules";
+import { getSettings } from "../settings/settings.service";
+import { writeCalibrationPdf } from "./calibrations.pdf";
 import type {
   Calibration,
   CalibrationListQuery,
   CertificateReview,
   Chain,
+  ConditionalResult,
+  ConditionalResultsQuery,
   CreateCalibration,
   UploadedFile,
 } from "../../../shared/calibrations/calibrations.schemas";
@@ -45,6 +48,8 @@ export async function toCalibrations(db: DbOrTx, rows: CalibrationRow[], tool: {
         const mpe = fromDb(p.mpe);
         const U = fromDbOrNull(p.uncertainty);
         const tur = fromDbOrNull(p.tur);
+        // Records signed before these were kept: the guard band of their rule, and the statement worked out from what they hold.
+        const guardBand = p.guardBand ?? (c.decisionRule !== "simple" && p.uncertainty != null ? p.uncertainty : "0");
         return {
           id: p.id,
           seq: p.seq,
@@ -54,15 +59,21 @@ export async function toCalibrations(db: DbOrTx, rows: CalibrationRow[], tool: {
           reference: fromDb(p.reference),
           asFound: fromDb(p.asFound),
           asLeft: fromDbOrNull(p.asLeft),
+          repeatReadings: p.repeatReadings ? p.repeatReadings.map(Number) : null,
           errorAsFound: fromDb(p.errorAsFound),
           errorAsLeft: fromDbOrNull(p.errorAsLeft),
           mpe,
           uncertainty: U,
-          acceptanceLimit: c.decisionRule === "guarded" && p.uncertainty != null ? num(dec(p.mpe).minus(dec(p.uncertainty))) : mpe,
+          guardBand: fromDb(guardBand),
+          acceptanceLimit: p.acceptanceLimit != null ? fromDb(p.acceptanceLimit) : num(dec(p.mpe).minus(dec(guardBand))),
           tur,
           turAdequate: tur == null ? null : tur >= MINIMUM_TUR,
           asFoundInTolerance: p.asFoundInTolerance,
+          asFoundStatement: p.asFoundStatement ?? nonBinaryStatement(p.errorAsFound, p.mpe, p.uncertainty),
+          releasedOn: p.releasedOn ?? (p.asLeft != null ? ("as_left" as const) : ("as_found" as const)),
           verdict: p.verdict,
+          referenceParts: p.referenceParts ?? [],
+          budget: p.budget ?? null,
         };
       });
     return {
@@ -79,10 +90,15 @@ export async function toCalibrations(db: DbOrTx, rows: CalibrationRow[], tool: {
       hasCertificateFile: !!c.certificateFileKey,
       certificateFileUrl: calibrationCertificateUrl(c),
       temperatureC: fromDbOrNull(c.temperatureC),
+      temperatureVariationC: fromDbOrNull(c.temperatureVariationC),
       humidityPct: fromDbOrNull(c.humidityPct),
       decisionRule: c.decisionRule,
+      guardBandMultiplier: c.guardBandMultiplier != null ? fromDb(c.guardBandMultiplier) : c.decisionRule === "simple" ? 0 : 1,
+      adjusted: c.adjusted ?? c.result === "adjusted",
       result: c.result,
       asFoundInTolerance: c.asFoundInTolerance,
+      asFoundStatement: c.asFoundStatement ?? worstStatement(points.map((p) => p.asFoundStatement)),
+      otherUncertainties: c.otherUncertainties ?? [],
       intervalDays: c.intervalDays,
       nextDueAt: c.nextDueAt,
       limitedRange: c.limitedMin != null && c.limitedMax != null ? { min: fromDb(c.limitedMin), max: fromDb(c.limitedMax), note: c.limitedNote } : null,
@@ -171,6 +187,7 @@ export function calibrationsService(deps: RegisterDeps) {
       if (performedAt.getTime() > now.getTime()) throw new AppError("performed_in_future", 400, "A calibration cannot be recorded before it is performed; check the date and time.");
       if (tool.lifecycle === "retired") throw refused("tool_retired", `${tool.assetTag} is retired; it is not calibrated any more.`);
       const { timeZone } = await statusContext(db, defaultTimeZone);
+      const settings = await getSettings(db, defaultTimeZone);
       const family = await getFamilyRow(db, tool.familyId);
       const day = calendarDate(performedAt, timeZone);
 
@@ -194,9 +211,13 @@ export function calibrationsService(deps: RegisterDeps) {
       try {
         computed = computeCalibration({
           rule: input.decisionRule,
+          guardBandMultiplier: settings.guardBandMultiplier,
+          adjusted: input.adjusted ?? null,
           unit: tool.unit,
           resolution: fromDb(tool.resolution),
           temperatureC: input.temperatureC ?? null,
+          temperatureVariationC: input.temperatureVariationC ?? null,
+          otherUncertainties: input.otherUncertainties,
           familyMpe: family.mpe,
           checkPlan: family.checkPoints,
           standards: used.map(standardForCompute),
@@ -222,10 +243,15 @@ export function calibrationsService(deps: RegisterDeps) {
             certificateNumber: input.certificateNumber ?? null,
             certificateFileKey: input.certificateFileKey ?? null,
             temperatureC: toDbOrNull(input.temperatureC),
+            temperatureVariationC: toDbOrNull(input.temperatureVariationC),
             humidityPct: toDbOrNull(input.humidityPct),
             decisionRule: input.decisionRule,
+            guardBandMultiplier: toDb(input.decisionRule === "simple" ? 0 : input.decisionRule === "guarded" ? 1 : settings.guardBandMultiplier),
+            adjusted: computed.adjusted,
             result: computed.result,
             asFoundInTolerance: computed.asFoundInTolerance,
+            asFoundStatement: computed.asFoundStatement,
+            otherUncertainties: input.otherUncertainties?.length ? input.otherUncertainties : null,
             intervalDays: tool.intervalDays,
             nextDueAt: due,
             limitedMin: toDbOrNull(input.limitedRange?.min),
@@ -246,9 +272,16 @@ export function calibrationsService(deps: RegisterDeps) {
             errorAsLeft: toDbOrNull(p.errorAsLeft),
             mpe: toDb(p.mpe),
             uncertainty: toDbOrNull(p.uncertainty),
+            guardBand: toDb(p.guardBand),
+            acceptanceLimit: toDb(p.acceptanceLimit),
             tur: p.tur == null ? null : toDb(Number(p.tur.toPrecision(6))),
             asFoundInTolerance: p.asFoundInTolerance,
+            asFoundStatement: p.asFoundStatement,
             verdict: p.verdict,
+            releasedOn: p.releasedOn,
+            repeatReadings: p.repeatReadings ? p.repeatReadings.map((r) => toDb(r)) : null,
+            referenceParts: p.referenceParts.length ? p.referenceParts : null,
+            budget: p.budget,
           })),
           used.map((u) => u.standard.id),
         );
@@ -258,16 +291,52 @@ export function calibrationsService(deps: RegisterDeps) {
           entityType: "calibration",
           entityId: row.id,
           before: input.supersedesId ? { supersedesId: input.supersedesId } : undefined,
-          after: { assetTag: tool.assetTag, ...input, result: computed.result, asFoundInTolerance: computed.asFoundInTolerance, nextDueAt: due },
+          after: { assetTag: tool.assetTag, ...input, result: computed.result, adjusted: computed.adjusted, asFoundInTolerance: computed.asFoundInTolerance, asFoundStatement: computed.asFoundStatement, nextDueAt: due },
           at: now,
         });
-        // Found out of tolerance as found: the work measured since the last good calibration is in question.
+        // Found out of tolerance as found (the error against ± MPE, ILAC-G8 simple acceptance): the work measured since the last
+        // good calibration is in question. A refusal to release inside the guard band, or a conditional pass, opens nothing:
+        // conditional statements are listed for the quality manager's review instead.
         const opened = computed.asFoundInTolerance
           ? null
           : await onOutOfToleranceFinding(tx, { clock, mailer: deps.mailer, timeZone }, { kind: "as_found_failure", toolId: tool.id, calibrationId: row.id, at: performedAt, actorId });
         return { id: row.id, investigationId: opened?.investigationId ?? null };
       });
       return one(id, { investigationId });
+    },
+
+    /** As-found points within U of a limit (ILAC-G8 conditional statements), for the quality manager's review. */
+    async conditionalResults(query: ConditionalResultsQuery): Promise<Page<ConditionalResult>> {
+      const { items, total } = await calibrationsRepository.conditionalResults(db, query);
+      return {
+        total,
+        items: items.map((r) => ({
+          calibrationId: r.calibration_id,
+          pointId: r.point_id,
+          assetTag: r.asset_tag,
+          toolDescription: r.description,
+          unit: r.unit,
+          performedAt: new Date(r.performed_at).toISOString(),
+          seq: Number(r.seq),
+          nominal: fromDb(r.nominal),
+          elementLabel: r.element,
+          errorAsFound: fromDb(r.error_as_found),
+          mpe: fromDb(r.mpe),
+          uncertainty: fromDbOrNull(r.uncertainty),
+          asFoundStatement: r.as_found_statement,
+          result: r.result,
+        })),
+      };
+    },
+
+    /** The signed record as a PDF: points, statements, release decision and each point's uncertainty budget. */
+    async recordPdf(id: string) {
+      const row = await getRow(id);
+      const tool = await toolsRepository.findById(db, row.toolId);
+      if (!tool) throw notFound("tool", row.toolId);
+      const [cal] = await toCalibrations(db, [row], tool);
+      const { timeZone } = await statusContext(db, defaultTimeZone);
+      return { pdf: await writeCalibrationPdf(cal, { description: tool.description, serialNumber: tool.serialNumber }, clock.now(), timeZone), fileName: `calibration-${tool.assetTag}-${cal.performedAt.slice(0, 10)}.pdf` };
     },
 
     async review(id: string, input: CertificateReview, actorId: string | null): Promise<Calibration> {

@@ -1,4 +1,8 @@
-import { pgTable, uuid, text, integer, numeric, boolean, date, timestamp, index, primaryKey } from "drizzle-orm/pg-core";
+import { sql } from "drizzle-orm";
+import { pgTable, uuid, text, integer, numeric, boolean, date, timestamp, index, primaryKey, jsonb } from "drizzle-orm/pg-core";
+import type { UncertaintyBudget } from "../../../shared/calibrations/uncertainty";
+import type { ReferencePart } from "../../../shared/calibrations/calibration-compute";
+import type { OtherUncertainty } from "../../../shared/calibrations/calibrations.schemas";
 import { tools, setElements } from "../tools/tools.table";
 import { users } from "../users/users.table";
 import { labs } from "../labs/labs.table";
@@ -20,10 +24,20 @@ export const calibrations = pgTable(
     certificateNumber: text("certificate_number"),
     certificateFileKey: text("certificate_file_key"),
     temperatureC: numeric("temperature_c"),
+    /** ± variation of temperature between tool and standard, °C. */
+    temperatureVariationC: numeric("temperature_variation_c"),
     humidityPct: numeric("humidity_pct"),
-    decisionRule: text("decision_rule", { enum: ["simple", "guarded"] }).notNull(),
+    decisionRule: text("decision_rule", { enum: ["simple", "guarded", "guarded_scaled"] }).notNull(),
+    /** r of the rule, as it was when signed (w = r·U); null on records signed before it was kept (then 0 simple, 1 guarded). */
+    guardBandMultiplier: numeric("guard_band_multiplier"),
+    /** The record says an adjustment was made; null on records signed before the field existed. */
+    adjusted: boolean("adjusted"),
     result: text("result", { enum: ["pass", "adjusted", "fail", "limited"] }).notNull(),
+    /** As-found condition: every point's error within ± MPE (ILAC-G8 simple acceptance). */
     asFoundInTolerance: boolean("as_found_in_tolerance").notNull(),
+    /** Worst ILAC-G8 non-binary statement of the as-found points; null on older records. */
+    asFoundStatement: text("as_found_statement", { enum: ["pass", "conditional_pass", "conditional_fail", "fail"] }),
+    otherUncertainties: jsonb("other_uncertainties").$type<OtherUncertainty[]>(),
     intervalDays: integer("interval_days").notNull(),
     nextDueAt: date("next_due_at").notNull(),
     limitedMin: numeric("limited_min"),
@@ -67,11 +81,28 @@ export const calibrationPoints = pgTable(
     errorAsLeft: numeric("error_as_left"),
     mpe: numeric("mpe").notNull(),
     uncertainty: numeric("uncertainty"),
+    /** Guard band w and the release limit MPE − w, exact; null on older records. */
+    guardBand: numeric("guard_band"),
+    acceptanceLimit: numeric("acceptance_limit"),
     tur: numeric("tur"),
     asFoundInTolerance: boolean("as_found_in_tolerance").notNull(),
+    /** ILAC-G8 non-binary statement of the as-found error; null on older records. */
+    asFoundStatement: text("as_found_statement", { enum: ["pass", "conditional_pass", "conditional_fail", "fail"] }),
+    /** Release verdict under the decision rule. */
     verdict: text("verdict", { enum: ["pass", "fail"] }).notNull(),
+    releasedOn: text("released_on", { enum: ["as_found", "as_left"] }),
+    /** Repeated as-found readings, exact decimal strings. */
+    repeatReadings: jsonb("repeat_readings").$type<string[]>(),
+    referenceParts: jsonb("reference_parts").$type<ReferencePart[]>(),
+    /** The uncertainty budget as signed. */
+    budget: jsonb("budget").$type<UncertaintyBudget>(),
   },
-  (t) => [index("calibration_points_calibration_idx").on(t.calibrationId, t.seq), index("calibration_points_element_idx").on(t.elementId)],
+  (t) => [
+    index("calibration_points_calibration_idx").on(t.calibrationId, t.seq),
+    index("calibration_points_element_idx").on(t.elementId),
+    // The quality manager's list of conditional statements reads only these rows.
+    index("calibration_points_conditional_idx").on(t.calibrationId).where(sql`${t.asFoundStatement} in ('conditional_pass', 'conditional_fail')`),
+  ],
 );
 
 /** Certificate review of an outside-lab record; required before the tool counts as in calibration. */

@@ -42,6 +42,8 @@ export interface FamilyRateRow {
   tools: number;
   recalibrations: number;
   inTolerance: number;
+  /** Mean interval the end-of-period observations were made under (I_old); null with none. */
+  observedIntervalDays: number | null;
   lastDecisionAt: Date | null;
 }
 
@@ -77,14 +79,14 @@ export const intervalsRepository = {
     const r = await db.execute(sql`
       with counted as (${countedCalibrations}),
       eop as (
-        select t.family_id, count(*)::int as n, count(*) filter (where k.as_found_in_tolerance)::int as ok
+        select t.family_id, count(*)::int as n, count(*) filter (where k.as_found_in_tolerance)::int as ok, avg(k.period_days)::float8 as period
         from counted k join tools t on t.id = k.tool_id
         where k.rn > 1 and not k.imported
         group by t.family_id
       )
       select f.id, f.name, f.kind, f.default_interval_days,
         (select count(*)::int from tools t where t.family_id = f.id) as tools,
-        coalesce(e.n, 0) as n, coalesce(e.ok, 0) as ok,
+        coalesce(e.n, 0) as n, coalesce(e.ok, 0) as ok, e.period,
         (select max(d.decided_at) from interval_decisions d where d.family_id = f.id) as last_decision_at
       from families f left join eop e on e.family_id = f.id
       order by f.name`);
@@ -96,6 +98,7 @@ export const intervalsRepository = {
       tools: Number(x.tools),
       recalibrations: Number(x.n),
       inTolerance: Number(x.ok),
+      observedIntervalDays: x.period == null ? null : Math.round(Number(x.period) * 10) / 10,
       lastDecisionAt: x.last_decision_at ? new Date(String(x.last_decision_at)) : null,
     }));
   },
@@ -132,7 +135,8 @@ export const intervalsRepository = {
   /** As-found (and as-left) errors of every point of a tool's counted calibrations, oldest first. */
   async driftPoints(db: DbOrTx, toolId: string) {
     const r = await db.execute(sql`
-      select c.id as calibration_id, c.performed_at, p.seq, p.nominal, p.error_as_found, p.error_as_left, p.mpe, p.as_found_in_tolerance, e.label as element
+      select c.id as calibration_id, c.performed_at, coalesce(c.adjusted, c.result = 'adjusted') as adjusted,
+        p.seq, p.nominal, p.error_as_found, p.error_as_left, p.mpe, p.as_found_in_tolerance, e.label as element
       from calibrations c
       join calibration_points p on p.calibration_id = c.id
       left join set_elements e on e.id = p.element_id
@@ -141,6 +145,7 @@ export const intervalsRepository = {
     return r.rows as {
       calibration_id: string;
       performed_at: string | Date;
+      adjusted: boolean;
       seq: number;
       nominal: string;
       error_as_found: string;

@@ -8,7 +8,7 @@ import { notFound, refused } from "../../http/errors";
 import { driftTrend, endOfPeriodReliability, recommendInterval, staircaseSuggestion } from "../../../shared/intervals/interval-analysis";
 import type { ApplyIntervalInput, Drift, DriftSeries, IntervalAnalysis, IntervalFamily } from "../../../shared/intervals/intervals.schemas";
 
-/** Fewer end-of-period calibrations than this and no interval is recommended (common practice, no source). */
+/** Fewer end-of-period calibrations than this and no interval is lengthened (common practice, no source); shortening is never held back. */
 export const MIN_OBSERVATIONS = 10;
 
 export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock; timeZone: string }) {
@@ -23,10 +23,12 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
     const periods = observations.filter((o) => o.endOfPeriod && o.periodDays).map((o) => o.periodDays!);
     const observedIntervalDays = periods.length ? Math.round((periods.reduce((a, b) => a + b, 0) / periods.length) * 10) / 10 : family.defaultIntervalDays;
     const rec = recommendInterval({
-      currentIntervalDays: observedIntervalDays,
-      observed: eopr.reliability ?? 0,
-      target: settings.reliabilityTarget,
+      observedIntervalDays,
+      currentIntervalDays: family.defaultIntervalDays,
+      inTolerance: eopr.inTolerance,
       observations: eopr.observations,
+      target: settings.reliabilityTarget,
+      confidence: settings.intervalConfidence,
       minObservations: MIN_OBSERVATIONS,
       maxStepFactor: settings.maxIntervalStepFactor,
     });
@@ -40,6 +42,9 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
       recommendedIntervalDays: rec.recommendedIntervalDays,
       method: rec.method,
       reliabilityTarget: settings.reliabilityTarget,
+      decision: rec.decision,
+      confidenceInterval: rec.confidenceInterval,
+      confidence: rec.confidence,
       familyId: family.id,
       familyName: family.name,
       inTolerance: eopr.inTolerance,
@@ -59,17 +64,35 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
 
     async families(): Promise<IntervalFamily[]> {
       const rows = await intervalsRepository.familyRates(db);
-      return rows.map((r) => ({
-        familyId: r.familyId,
-        name: r.name,
-        kind: r.kind,
-        currentIntervalDays: r.defaultIntervalDays,
-        tools: r.tools,
-        recalibrations: r.recalibrations,
-        inTolerance: r.inTolerance,
-        rate: r.recalibrations ? r.inTolerance / r.recalibrations : null,
-        lastDecisionAt: r.lastDecisionAt?.toISOString() ?? null,
-      }));
+      const settings = await getSettings(db, timeZone);
+      return rows.map((r) => {
+        const rec = recommendInterval({
+          observedIntervalDays: r.observedIntervalDays ?? r.defaultIntervalDays,
+          currentIntervalDays: r.defaultIntervalDays,
+          inTolerance: r.inTolerance,
+          observations: r.recalibrations,
+          target: settings.reliabilityTarget,
+          confidence: settings.intervalConfidence,
+          minObservations: MIN_OBSERVATIONS,
+          maxStepFactor: settings.maxIntervalStepFactor,
+        });
+        return {
+          familyId: r.familyId,
+          name: r.name,
+          kind: r.kind,
+          currentIntervalDays: r.defaultIntervalDays,
+          tools: r.tools,
+          recalibrations: r.recalibrations,
+          inTolerance: r.inTolerance,
+          rate: r.recalibrations ? r.inTolerance / r.recalibrations : null,
+          confidenceInterval: rec.confidenceInterval,
+          reliabilityTarget: settings.reliabilityTarget,
+          decision: rec.decision,
+          recommendedIntervalDays: rec.recommendedIntervalDays,
+          reason: rec.reason,
+          lastDecisionAt: r.lastDecisionAt?.toISOString() ?? null,
+        };
+      });
     },
 
     /**
@@ -129,12 +152,16 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
       });
     },
 
-    /** As-found error per check point over time, with a straight-line trend where there are three points or more. */
+    /**
+     * Drift per check point: over each interval, from the as-left error to the next as-found error (never across an
+     * adjustment), with the fitted rate, its uncertainty, and when the point would reach its permissible error.
+     */
     async drift(assetTag: string): Promise<Drift> {
       const tool = await intervalsRepository.findTool(db, assetTag);
       if (!tool) throw notFound("tool", assetTag);
       const ctx = await statusContext(db, timeZone);
-      const status = await statusOf(db, tool.id, clock.now(), ctx);
+      const now = clock.now();
+      const status = await statusOf(db, tool.id, now, ctx);
       const rows = await intervalsRepository.driftPoints(db, tool.id);
       const groups = new Map<string, typeof rows>();
       for (const r of rows) {
@@ -149,24 +176,54 @@ export function intervalsService({ db, clock, timeZone }: { db: Db; clock: Clock
             calibrationId: p.calibration_id,
             performedAt: new Date(p.performed_at).toISOString(),
             errorAsFound: Number(p.error_as_found),
-            errorAsLeft: p.error_as_left == null ? null : Number(p.error_as_left),
+            errorAsLeft: p.adjusted && p.error_as_left != null ? Number(p.error_as_left) : null,
+            adjusted: Boolean(p.adjusted),
             mpe: Number(p.mpe),
             asFoundInTolerance: Boolean(p.as_found_in_tolerance),
           }));
-          const trend = driftTrend(points.map((p) => ({ at: p.performedAt, error: p.errorAsFound })), mpe);
-          const exceed = trend?.predictedExceedAt ?? null;
-          const flagged = !!exceed && !!status.dueAt && exceed <= status.dueAt;
-          const message = !trend
-            ? `${points.length} calibration${points.length === 1 ? "" : "s"} at this point; a trend needs at least three.`
-            : !exceed
-              ? "The as-found error shows no trend toward the permissible error."
-              : flagged
-                ? `Predicted to leave tolerance around ${exceed}, before the next due date (${status.dueAt}): consider recalibrating sooner.`
-                : `Predicted to leave tolerance around ${exceed}.`;
-          return { key, nominal: Number(pts[0].nominal), element: pts[0].element, mpe, points, trend, flagged, message };
+          const t = driftTrend(points.map((p) => ({ at: p.performedAt, errorAsFound: p.errorAsFound, errorAsLeft: p.errorAsLeft })), mpe, tool.intervalDays, now);
+          const today = now.toISOString().slice(0, 10);
+          const flagged = t.outlook === "already_out" || t.outlook === "may_have_left" || (t.outlook === "predicted" && !!status.dueAt && t.predictedExceedAt! <= status.dueAt);
+          return {
+            key,
+            nominal: Number(pts[0].nominal),
+            element: pts[0].element,
+            mpe,
+            points,
+            intervals: t.intervals,
+            trend:
+              t.ratePerDay == null
+                ? null
+                : { ratePerDay: t.ratePerDay, rateUncertaintyPerDay: t.rateUncertaintyPerDay!, k: t.k!, startAt: t.startAt!, startError: t.startError!, horizonAt: t.horizonAt!, predictedExceedAt: t.predictedExceedAt, earliestExceedAt: t.earliestExceedAt },
+            outlook: t.outlook,
+            flagged,
+            message: driftMessage(t, points.length, status.dueAt, today),
+          };
         })
         .sort((a, b) => (a.element ?? "").localeCompare(b.element ?? "") || a.nominal - b.nominal);
       return { assetTag: tool.assetTag, description: tool.description, unit: tool.unit, dueAt: status.dueAt, series, flagged: series.some((s) => s.flagged) };
     },
   };
+}
+
+/** What a drift series says, in words a quality manager acts on. */
+function driftMessage(t: ReturnType<typeof driftTrend>, calibrations: number, dueAt: string | null, today: string): string {
+  const soon = (d: string) => (dueAt && d <= dueAt ? `, before the next due date (${dueAt}): consider recalibrating sooner` : "");
+  // The earliest date allowing for the fit's uncertainty, when it is still ahead and earlier than the fitted one.
+  const early = t.earliestExceedAt && t.earliestExceedAt > today && (!t.predictedExceedAt || t.earliestExceedAt < t.predictedExceedAt) ? t.earliestExceedAt : null;
+  const uncertain = `; allowing for the fit's uncertainty (k = ${t.k?.toFixed(2)}) it could be as early as ${early}`;
+  switch (t.outlook) {
+    case "insufficient":
+      return `${calibrations} calibration${calibrations === 1 ? "" : "s"} at this point: a drift rate needs at least two intervals (three calibrations).`;
+    case "already_out":
+      return "Left outside its permissible error at the last calibration: no prediction; it must not be used until repaired and recalibrated.";
+    case "no_trend":
+      return "No drift between calibrations: not expected to leave tolerance within two intervals.";
+    case "beyond_two_intervals":
+      return `Not expected to leave tolerance within two intervals (by ${t.horizonAt})${early ? uncertain : ""}.`;
+    case "may_have_left":
+      return `May already have left tolerance: the drift since the last calibration reaches the permissible error around ${t.predictedExceedAt}. Check it before use.`;
+    case "predicted":
+      return `Expected to reach the permissible error around ${t.predictedExceedAt}${early ? uncertain : ""}${soon(t.predictedExceedAt!)}.`;
+  }
 }

@@ -23,8 +23,9 @@ export function toCertificate(c: CertificateRow): Certificate {
     dueAt: c.dueAt,
     expandedUncertainty: fromDb(c.expandedUncertainty),
     coverageFactor: fromDb(c.coverageFactor),
+    degreesOfFreedom: fromDbOrNull(c.degreesOfFreedom),
     certifiedValue: fromDbOrNull(c.certifiedValue),
-    elementValues: c.elementValues ? c.elementValues.map((e) => ({ label: e.label, nominal: Number(e.nominal), deviation: Number(e.deviation) })) : null,
+    elementValues: c.elementValues ? c.elementValues.map((e) => ({ label: e.label, nominal: Number(e.nominal), deviation: e.deviation == null ? null : Number(e.deviation) })) : null,
     hasFile: !!c.fileKey,
     fileUrl: certificateFileUrl(c),
     createdAt: c.createdAt.toISOString(),
@@ -66,8 +67,9 @@ function certificateColumns(standardId: string, c: AddCertificate) {
     dueAt: c.dueAt,
     expandedUncertainty: toDb(c.expandedUncertainty),
     coverageFactor: toDb(c.coverageFactor),
+    degreesOfFreedom: toDbOrNull(c.degreesOfFreedom),
     certifiedValue: toDbOrNull(c.certifiedValue),
-    elementValues: c.elementValues?.length ? c.elementValues.map((e) => ({ label: e.label, nominal: toDb(e.nominal), deviation: toDb(e.deviation) })) : null,
+    elementValues: c.elementValues?.length ? c.elementValues.map((e) => ({ label: e.label, nominal: toDb(e.nominal), deviation: toDbOrNull(e.deviation) })) : null,
   };
 }
 

@@ -34,9 +34,12 @@ export const standardCertificates = pgTable(
     dueAt: date("due_at").notNull(),
     expandedUncertainty: numeric("expanded_uncertainty").notNull(),
     coverageFactor: numeric("coverage_factor").notNull(),
+    /** Degrees of freedom of U when the certificate states them; null = infinite. */
+    degreesOfFreedom: numeric("degrees_of_freedom"),
     /** Certified value of the standard (or per element of a set: label → value). */
     certifiedValue: numeric("certified_value"),
-    elementValues: jsonb("element_values").$type<{ label: string; nominal: string; deviation: string }[]>(),
+    /** Blocks of a set: nominal and certified deviation (null when the certificate gives no value for the block). */
+    elementValues: jsonb("element_values").$type<{ label: string; nominal: string; deviation: string | null }[]>(),
     fileKey: text("file_key"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },

@@ -10,6 +10,7 @@ export const feature: FeatureModule = {
     { path: "tools/:assetTag", lazy: async () => ({ Component: (await import("./components/tool-page")).ToolPage }) },
     { path: "tools/:assetTag/calibrate", lazy: async () => ({ Component: (await import("./calibrations/calibration-form-page")).CalibrationFormPage }) },
     { path: "tools/:assetTag/chain", lazy: async () => ({ Component: (await import("./calibrations/chain-page")).ChainPage }) },
+    { path: "calibrations/conditional", lazy: async () => ({ Component: (await import("./calibrations/conditional-results-page")).ConditionalResultsPage }) },
     { path: "families", lazy: async () => ({ Component: (await import("./families/families-page")).FamiliesPage }) },
     { path: "standards", lazy: async () => ({ Component: (await import("./standards/standards-page")).StandardsPage }) },
     { path: "standards/:id", lazy: async () => ({ Component: (await import("./standards/standard-page")).StandardPage }) },
@@ -20,5 +21,6 @@ export const feature: FeatureModule = {
     { to: "/families", label: "Families", group: "register", order: 20 },
     { to: "/standards", label: "Reference standards", group: "quality", order: 10 },
     { to: "/labs", label: "Outside labs", group: "quality", order: 20 },
+    { to: "/calibrations/conditional", label: "Conditional results", group: "quality", order: 35, permission: "intervals.read" },
   ],
 };

@@ -28,17 +28,26 @@ export function FamilyIntervalPage() {
         actions={<ButtonLink to="/analysis/intervals">All families</ButtonLink>}
       />
       <div className="grid gap-4 lg:grid-cols-2">
-        <Card title="Reliability model (exponential, NCSL RP-1)">
+        <Card title="Interval test (NCSL RP-1 method A3) and reliability model">
+          <p className={`mb-3 text-xl font-bold ${a.decision === "keep" ? "text-go" : a.decision === "none" ? "text-ink-soft" : "text-stop"}`}>
+            {a.decision === "keep"
+              ? `Keep ${a.currentIntervalDays} days`
+              : a.decision === "none"
+                ? "No basis for a decision yet"
+                : `${a.decision === "shorten" ? "Shorten" : "Lengthen"} to ${a.recommendedIntervalDays ?? "—"} days`}
+          </p>
+          <RateBar analysis={a} />
           <Facts
             items={[
               ["End-of-period calibrations", `${a.calibrations} (${a.inTolerance} in tolerance; ${a.totalCalibrations} record${a.totalCalibrations === 1 ? "" : "s"} in all)`],
-              ["In tolerance as found", pct(a.asFoundInToleranceRate)],
+              ["Observed rate (in tolerance as found)", pct(a.asFoundInToleranceRate)],
+              [`Its ${(a.confidence * 100).toFixed(0)} % Clopper-Pearson interval`, a.confidenceInterval ? `${pct(a.confidenceInterval.lower)} – ${pct(a.confidenceInterval.upper)}` : "—"],
               ["Reliability target R*", pct(a.reliabilityTarget)],
               ["Current interval", `${a.currentIntervalDays} days`],
               ["Interval observed under (I_old)", `${a.observedIntervalDays} days`],
               ["Recommended interval", a.recommendedIntervalDays == null ? "None yet" : `${a.recommendedIntervalDays} days (set as ${a.recommendedWholeDays} days)`],
-              ["Method", "I_new = I_old · ln(R*) / ln(R observed)"],
-              ["Step limit", `lengthen at most ×${a.maxStepFactor} per review`],
+              ["Sizing a change", "I_new = I_old · ln(R*) / ln(R observed) (exponential model)"],
+              ["Step limit", `lengthen at most ×${a.maxStepFactor} per review, after at least ${a.minObservations} recalibrations`],
             ]}
           />
           <p className="mt-3 text-sm" role="status">
@@ -134,6 +143,30 @@ export function FamilyIntervalPage() {
       </Card>
       <Cautions compact />
     </div>
+  );
+}
+
+/** The observed rate, its confidence interval and the target on one 0–100 % scale: the target outside the bar means a significant difference. */
+function RateBar({ analysis: a }: { analysis: IntervalAnalysis }) {
+  if (!a.confidenceInterval || a.asFoundInToleranceRate == null) return null;
+  const { lower, upper } = a.confidenceInterval;
+  const x = (r: number) => `${(r * 100).toFixed(2)}%`;
+  const outside = a.reliabilityTarget < lower || a.reliabilityTarget > upper;
+  return (
+    <figure className="mb-3" aria-label={`Observed rate ${pct(a.asFoundInToleranceRate)}, interval ${pct(lower)} to ${pct(upper)}, target ${pct(a.reliabilityTarget)}${outside ? " outside" : " inside"} the interval`}>
+      <div className="relative h-6 rounded bg-paper-sunk">
+        <div className={`absolute top-1 h-4 rounded ${outside ? "bg-stop/40" : "bg-go/40"}`} style={{ left: x(lower), width: `${((upper - lower) * 100).toFixed(2)}%` }} />
+        <div className="absolute top-0 h-6 w-0.5 bg-ink" style={{ left: x(a.asFoundInToleranceRate) }} title="observed rate" />
+        <div className="absolute -top-1 h-8 w-0.5 bg-caution" style={{ left: x(a.reliabilityTarget) }} title="target" />
+      </div>
+      <figcaption className="mt-1 flex justify-between text-xs text-ink-faint">
+        <span>0 %</span>
+        <span>
+          bar: the rate's interval · black: observed · amber: target R* {outside ? "(outside: significant)" : "(inside: not significant)"}
+        </span>
+        <span>100 %</span>
+      </figcaption>
+    </figure>
   );
 }
 

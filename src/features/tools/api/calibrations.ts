@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
-import type { Calibration, CertificateReview, Chain, Check, CheckResult, CreateCalibration, CreateCheck, UploadedFile } from "../../../../shared/calibrations/calibrations.schemas";
+import type { Calibration, CertificateReview, Chain, Check, CheckResult, ConditionalResult, CreateCalibration, CreateCheck, UploadedFile } from "../../../../shared/calibrations/calibrations.schemas";
 import type { Page } from "../../../../shared/common/lists.schemas";
 import { toolKeys } from "./tools";
 
@@ -57,3 +57,10 @@ export function useCreateCheck(tag: string) {
   const invalidate = useRecordInvalidation();
   return useMutation({ mutationFn: (input: CreateCheck) => api.post<CheckResult>(path(tag, "/checks"), input), onSuccess: invalidate });
 }
+
+/** As-found points within U of a limit, for the quality manager's review (server-paged, filtered). */
+export const useConditionalResults = (q: { statement?: string; current?: string; page: number; pageSize?: number }) =>
+  useQuery({
+    queryKey: [...calibrationKeys.all, "conditional", q] as const,
+    queryFn: () => api.get<Page<ConditionalResult>>(`/api/calibrations/conditional-results${qs({ statement: q.statement || undefined, current: q.current || undefined, page: q.page, pageSize: q.pageSize ?? 50 })}`),
+  });

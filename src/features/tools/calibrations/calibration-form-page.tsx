@@ -1,4 +1,4 @@
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router-dom";
 import { useFieldArray, useForm, type FieldErrors, type Resolver } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
@@ -20,12 +20,12 @@ import { cx } from "../../../components/ui/cx";
 import { ApiError, errorMessage } from "../../../lib/api-client";
 import { decimalInput, fromLocalInput, toLocalInput, fileInputClass } from "../lib/form";
 import { len, when } from "../lib/format";
-import { liveCalibration, parseNumber, type LiveContext, type PointText } from "../lib/live-calibration";
+import { asFoundOf, asLeftOf, liveCalibration, parseNumber, parseReadings, type LiveContext, type PointText } from "../lib/live-calibration";
 import { standardForCompute } from "../../../../shared/calibrations/calibration-compute";
-import { DECISION_RULES, DECISION_RULE_LABELS } from "../../../../shared/calibrations/decision-rules";
+import { DECISION_RULES, DECISION_RULE_LABELS, type DecisionRule } from "../../../../shared/calibrations/decision-rules";
 import { LivePointCells, LiveSummary } from "./live-result";
 import { PointsTable } from "./calibration-history";
-import { ResultBadge, TurWarning } from "./result-badge";
+import { AsFoundBadge, ResultBadge, TurWarning } from "./result-badge";
 import { ToolAnswer } from "../components/tool-answer";
 
 interface PointRow extends PointText {
@@ -36,12 +36,14 @@ interface PointRow extends PointText {
 interface FormValues {
   performedAt: string;
   temperatureC: string;
+  temperatureVariationC: string;
   humidityPct: string;
   source: "in_house" | "outside_lab";
   labId: string;
   certificateNumber: string;
   performedByName: string;
-  decisionRule: "simple" | "guarded";
+  decisionRule: DecisionRule;
+  adjusted: boolean;
   standardIds: string[];
   limited: boolean;
   limitedMin: string;
@@ -57,7 +59,7 @@ const text = (n: number | null | undefined) => (n == null ? "" : String(n));
 const n = (t: string) => (t.trim() === "" ? undefined : Number(t.trim()));
 
 /** The form's text values as the request body of POST …/calibrations. */
-function toRequest(v: FormValues, correcting: Calibration | null) {
+function toRequest(v: FormValues, correcting: Calibration | null, resolution: number) {
   const outside = v.source === "outside_lab";
   const supersedesId = correcting?.id ?? null;
   // The picker shows minutes; a correction that keeps the date keeps the exact original instant.
@@ -65,16 +67,20 @@ function toRequest(v: FormValues, correcting: Calibration | null) {
   return {
     performedAt: keepsDate ? correcting.performedAt : (fromLocalInput(v.performedAt) ?? v.performedAt),
     temperatureC: n(v.temperatureC),
+    temperatureVariationC: n(v.temperatureVariationC),
     humidityPct: n(v.humidityPct),
     standardIds: v.standardIds,
     decisionRule: v.decisionRule,
+    adjusted: v.adjusted,
     points: v.points.map((p) => ({
       nominal: n(p.nominal),
       reference: n(p.reference),
-      asFound: n(p.asFound),
-      asLeft: n(p.asLeft),
+      // Blank as-found with repeat readings: their mean. Blank as-left on an adjusted record: the point read the same after it.
+      asFound: asFoundOf(p, resolution) ?? n(p.asFound),
+      asLeft: asLeftOf(p, v.adjusted, resolution) ?? undefined,
       mpe: n(p.mpe),
       uncertainty: n(p.uncertainty),
+      repeatReadings: p.repeatReadings.trim() ? (parseReadings(p.repeatReadings) ?? [NaN]) : undefined,
       elementId: p.elementId || undefined,
     })),
     notes: v.notes,
@@ -89,10 +95,10 @@ function toRequest(v: FormValues, correcting: Calibration | null) {
 }
 
 /** Validates with the shared schema (the one the route uses) and puts its messages on the form's own fields. */
-function resolverFor(correcting: Calibration | null): Resolver<FormValues, unknown, CreateCalibration> {
+function resolverFor(correcting: Calibration | null, resolution: number): Resolver<FormValues, unknown, CreateCalibration> {
   const zod = zodResolver(CreateCalibrationSchema);
   return async (values, ctx, opts) => {
-    const out = await zod(toRequest(values, correcting) as never, ctx, opts as never);
+    const out = await zod(toRequest(values, correcting, resolution) as never, ctx, opts as never);
     const errors = out.errors as FieldErrors & { limitedRange?: { min?: unknown; max?: unknown } };
     if (errors.limitedRange) {
       Object.assign(errors, { limitedMin: errors.limitedRange.min, limitedMax: errors.limitedRange.max });
@@ -118,7 +124,7 @@ function refusal(e: unknown): string {
 
 /** The points a new record starts with: the family's check plan, or one per usable element of a set. */
 function planPoints(tool: ToolDetail): PointRow[] {
-  const blank = { reference: "", asFound: "", asLeft: "", uncertainty: "" };
+  const blank = { reference: "", asFound: "", asLeft: "", uncertainty: "", repeatReadings: "" };
   const usable = tool.elements.filter((e) => e.usable);
   if (usable.length > 0) return usable.map((e) => ({ ...blank, nominal: text(e.nominal), mpe: "", elementId: e.id, label: e.label }));
   if (tool.family.checkPlan.length > 0) return tool.family.checkPlan.map((p) => ({ ...blank, nominal: text(p.nominal), mpe: text(p.mpe), elementId: "", label: "" }));
@@ -129,12 +135,14 @@ function fromRecord(c: Calibration): Partial<FormValues> {
   return {
     performedAt: toLocalInput(new Date(c.performedAt)),
     temperatureC: text(c.temperatureC),
+    temperatureVariationC: text(c.temperatureVariationC),
     humidityPct: text(c.humidityPct),
     source: c.source,
     labId: c.lab?.id ?? "",
     certificateNumber: c.certificateNumber ?? "",
     performedByName: c.performedByName ?? "",
     decisionRule: c.decisionRule,
+    adjusted: c.adjusted,
     standardIds: c.standards.map((s) => s.id),
     limited: !!c.limitedRange,
     limitedMin: text(c.limitedRange?.min),
@@ -147,7 +155,8 @@ function fromRecord(c: Calibration): Partial<FormValues> {
       asFound: text(p.asFound),
       asLeft: text(p.asLeft),
       mpe: text(p.mpe),
-      uncertainty: text(p.uncertainty),
+      uncertainty: p.budget ? "" : text(p.uncertainty),
+      repeatReadings: p.repeatReadings ? p.repeatReadings.join(" ") : "",
       elementId: p.elementId ?? "",
       label: p.elementLabel ?? "",
     })),
@@ -169,10 +178,22 @@ export function CalibrationFormPage() {
   if (err) return <ErrorNote>{errorMessage(err)}</ErrorNote>;
   const old = supersedesId ? (cals.data?.items.find((c) => c.id === supersedesId) ?? null) : null;
   if (supersedesId && !old) return <ErrorNote>The record to correct is not among {assetTag}'s calibrations.</ErrorNote>;
-  return <CalibrationForm tool={tool.data!} standards={standards.data} timeZone={settings.data!.shopTimeZone} correcting={old} />;
+  return <CalibrationForm tool={tool.data!} standards={standards.data} timeZone={settings.data!.shopTimeZone} guardBandMultiplier={settings.data!.guardBandMultiplier} correcting={old} />;
 }
 
-function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: ToolDetail; standards: StandardDetail[]; timeZone: string; correcting: Calibration | null }) {
+function CalibrationForm({
+  tool,
+  standards,
+  timeZone,
+  guardBandMultiplier,
+  correcting,
+}: {
+  tool: ToolDetail;
+  standards: StandardDetail[];
+  timeZone: string;
+  guardBandMultiplier: number;
+  correcting: Calibration | null;
+}) {
   const create = useCreateCalibration(tool.assetTag);
   const upload = useUploadCalibrationCertificate();
   const labs = useAllLabs();
@@ -181,12 +202,14 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
   const defaults: FormValues = {
     performedAt: toLocalInput(new Date()),
     temperatureC: "20",
+    temperatureVariationC: "",
     humidityPct: "",
     source: "in_house",
     labId: "",
     certificateNumber: "",
     performedByName: "",
     decisionRule: "simple",
+    adjusted: false,
     standardIds: [],
     limited: false,
     limitedMin: "",
@@ -197,11 +220,25 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
     supersedeReason: "",
     ...(correcting ? fromRecord(correcting) : {}),
   };
-  const form = useForm<FormValues, unknown, CreateCalibration>({ resolver: resolverFor(correcting), defaultValues: defaults });
+  const form = useForm<FormValues, unknown, CreateCalibration>({ resolver: resolverFor(correcting, tool.resolution), defaultValues: defaults });
   const points = useFieldArray({ control: form.control, name: "points" });
   const v = form.watch();
   const e = form.formState.errors;
   const unit = tool.unit;
+
+  // Typing an as-left reading that differs from the as-found ticks "adjusted" once, visibly; the person may untick it (a repeat reading).
+  const adjustedTouched = useRef(!!correcting);
+  const movedPoint = v.points.some((p) => {
+    const left = parseNumber(p.asLeft);
+    const found = parseNumber(p.asFound);
+    return left != null && found != null && left !== found;
+  });
+  useEffect(() => {
+    if (movedPoint && !v.adjusted && !adjustedTouched.current) {
+      adjustedTouched.current = true;
+      form.setValue("adjusted", true);
+    }
+  }, [movedPoint, v.adjusted, form]);
 
   const performedIso = fromLocalInput(v.performedAt);
   const onDate = performedIso ? calendarDate(performedIso, timeZone) : null;
@@ -215,12 +252,15 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
 
   const ctx: LiveContext = {
     rule: v.decisionRule,
+    guardBandMultiplier,
+    adjusted: v.adjusted,
     unit,
     resolution: tool.resolution,
     familyMpe: tool.family.mpe,
     checkPlan: tool.family.checkPlan,
     temperatureC: parseNumber(v.temperatureC),
-    // In the order they were ticked: the first one's certificate feeds the budget, as on the server.
+    temperatureVariationC: parseNumber(v.temperatureVariationC),
+    // Every standard ticked: each point's reference and budget come from the ones that make its size, as on the server.
     standards: v.standardIds.flatMap((id) => {
       const c = standardChoices.find((x) => x.s.id === id);
       return c?.cert ? [standardForCompute({ standard: c.s, certificate: c.cert })] : [];
@@ -274,11 +314,24 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
           <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4">
             <TextField label="Performed at" type="datetime-local" error={e.performedAt?.message} {...form.register("performedAt")} />
             <TextField label="Temperature (°C)" {...decimalInput} error={e.temperatureC?.message} {...form.register("temperatureC")} />
+            <TextField
+              label="Temperature variation (± °C)"
+              hint="How far tool and standard may differ in temperature during the calibration; it adds its own term to the budget."
+              {...decimalInput}
+              error={e.temperatureVariationC?.message}
+              {...form.register("temperatureVariationC")}
+            />
             <TextField label="Humidity (% RH)" {...decimalInput} error={e.humidityPct?.message} {...form.register("humidityPct")} />
-            <SelectField label="Decision rule" hint="ILAC-G8: guarded acceptance keeps U inside the limit." error={e.decisionRule?.message} {...form.register("decisionRule")}>
+            <SelectField
+              label="Decision rule for release"
+              hint="ILAC-G8: decides whether the tool may go back into service. Whether it was in tolerance as found is always the error against ± MPE."
+              error={e.decisionRule?.message}
+              {...form.register("decisionRule")}
+            >
               {DECISION_RULES.map((r) => (
                 <option key={r} value={r}>
                   {DECISION_RULE_LABELS[r]}
+                  {r === "guarded_scaled" ? ` — r = ${guardBandMultiplier}` : ""}
                 </option>
               ))}
             </SelectField>
@@ -347,8 +400,11 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
 
         <Card title="Check points">
           <p className="mb-2 text-sm text-ink-soft">
-            Type the as-found readings (and as-left where adjusted); error, TUR and verdict follow at once. Reference blank = nominal (or the standard's certified value). MPE blank = the check plan's or the family's{tool.family.mpe != null ? ` (± ${len(tool.family.mpe, unit)})` : ""}. U blank = computed from the budget (standard's certificate U/k, resolution,
-            temperature; k = 2). Values in {unit === "in" ? "inches" : "millimetres"}. Error = indication − reference.
+            Type the as-found readings; the error, the as-found statement (ILAC-G8), TUR and the release verdict follow at once. Repeat readings (two or more, separated by
+            spaces) add the repeatability to the budget; as found blank is then their mean. Reference blank = the standard's certified value (or the sum of a stack of
+            blocks), else the nominal. MPE blank = the check plan's or the family's{tool.family.mpe != null ? ` (± ${len(tool.family.mpe, unit)})` : ""}. U blank = computed from
+            the budget (every standard used, resolution, repeatability, temperature; k from the effective degrees of freedom). Values in {unit === "in" ? "inches" : "millimetres"}.
+            Error = indication − reference.
           </p>
           <div className="overflow-x-auto">
             <table className="w-full min-w-[58rem] text-left text-sm" aria-label="Check points entry">
@@ -357,13 +413,14 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                   <th className="py-1 pr-2">#</th>
                   <th className="pr-2">Nominal</th>
                   <th className="pr-2">As found</th>
+                  <th className="pr-2">Repeat readings</th>
                   <th className="pr-2">As left</th>
                   <th className="pr-2">Error</th>
                   <th className="pr-2">TUR</th>
-                  <th className="pr-2">Verdict</th>
+                  <th className="pr-2">Found · Release</th>
                   <th className="pr-2">Reference</th>
                   <th className="pr-2">MPE ±</th>
-                  <th className="pr-2">U (k=2)</th>
+                  <th className="pr-2">U</th>
                   <th />
                 </tr>
               </thead>
@@ -374,15 +431,15 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                   // Placeholders show the defaults the shared computation applied (certified value, budget U).
                   const budgetU = computed?.uncertaintySource === "budget" ? computed.uncertainty : null;
                   const defaultRef = computed && computed.referenceSource !== "given" ? String(computed.reference) : v.points[i]?.nominal || "= nominal";
-                  const cell = (name: keyof PointText, label: string, placeholder?: string) => (
+                  const cell = (name: keyof PointText, label: string, placeholder?: string, wide = false) => (
                     <td className="pr-2 py-1 align-top">
                       <input
-                        {...decimalInput}
+                        {...(name === "repeatReadings" ? { inputMode: "decimal" as const, autoComplete: "off" } : decimalInput)}
                         aria-label={`Point ${i + 1} ${label}`}
                         aria-invalid={!!pe?.[name]}
                         placeholder={placeholder}
                         title={pe?.[name]?.message}
-                        className={cx("w-[6.5rem] rounded-md border bg-paper-raised px-2 py-1.5", pe?.[name] ? "border-stop" : "border-paper-line")}
+                        className={cx(wide ? "w-[10rem]" : "w-[6.5rem]", "rounded-md border bg-paper-raised px-2 py-1.5", pe?.[name] ? "border-stop" : "border-paper-line")}
                         {...form.register(`points.${i}.${name}` as const)}
                       />
                     </td>
@@ -394,8 +451,9 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
                         {f.label && <span className="block text-xs">el. {f.label}</span>}
                       </td>
                       {cell("nominal", "nominal")}
-                      {cell("asFound", "as found")}
-                      {cell("asLeft", "as left", "not adjusted")}
+                      {cell("asFound", "as found", parseReadings(v.points[i]?.repeatReadings) ? "= mean" : undefined)}
+                      {cell("repeatReadings", "repeat readings", "optional", true)}
+                      {cell("asLeft", "as left", v.adjusted ? "= as found" : "not adjusted")}
                       <LivePointCells point={live.points[i]} unit={unit} index={i} />
                       {cell("reference", "reference", defaultRef)}
                       {cell("mpe", "MPE", computed ? String(computed.mpe) : tool.family.mpe != null ? String(tool.family.mpe) : "")}
@@ -414,10 +472,30 @@ function CalibrationForm({ tool, standards, timeZone, correcting }: { tool: Tool
           {e.points?.message && <p role="alert" className="text-sm text-stop">{e.points.message}</p>}
           {e.points && !e.points.message && <p role="alert" className="mt-2 text-sm text-stop">Some points are incomplete or not numbers: every point needs a nominal and an as-found reading.</p>}
           <div className="mt-2 flex flex-wrap gap-2">
-            <Button variant="secondary" onClick={() => points.append({ nominal: "", reference: "", asFound: "", asLeft: "", mpe: "", uncertainty: "", elementId: "", label: "" })}>
+            <Button variant="secondary" onClick={() => points.append({ nominal: "", reference: "", asFound: "", asLeft: "", mpe: "", uncertainty: "", repeatReadings: "", elementId: "", label: "" })}>
               Add point
             </Button>
           </div>
+          <fieldset className="mt-4 rounded-md border border-paper-line p-3">
+            <legend className="px-1 text-sm font-semibold text-ink-soft">Adjustment</legend>
+            <label className="flex items-center gap-2 text-sm">
+              <input
+                type="checkbox"
+                className="size-4"
+                {...form.register("adjusted", {
+                  onChange: () => {
+                    adjustedTouched.current = true;
+                  },
+                })}
+              />{" "}
+              The tool was adjusted: release is decided on the as-left readings
+            </label>
+            <p className="mt-1 text-xs text-ink-faint">
+              {v.adjusted
+                ? "Blank as-left cells are signed as reading the same as found after the adjustment; type the as-left reading wherever a point moved."
+                : "Not adjusted: release is decided on the as-found readings; an as-left reading typed here is kept as a repeat reading only."}
+            </p>
+          </fieldset>
           <fieldset className="mt-4 rounded-md border border-paper-line p-3">
             <legend className="px-1 text-sm font-semibold text-ink-soft">Limited range</legend>
             <label className="flex items-center gap-2 text-sm">
@@ -459,13 +537,21 @@ function SavedCalibration({ tool, saved }: { tool: ToolDetail; saved: Calibratio
     <div className="flex flex-col gap-5">
       <PageHeader title={`Calibration of ${tool.assetTag} saved`} subtitle="The server judged the record with the same rules the form showed." />
       <section role="status" aria-label="Saved calibration" className="rounded-card border border-paper-line bg-paper-raised p-4 shadow-card">
-        <p className="flex flex-wrap items-center gap-3 text-xl font-bold">
-          Result: <ResultBadge result={saved.result} className="text-base" />
+        <p className="flex flex-wrap items-center gap-3 text-lg font-semibold">
+          As found: <AsFoundBadge inTolerance={saved.asFoundInTolerance} statement={saved.asFoundStatement} className="text-sm" />
+        </p>
+        <p className="mt-1 flex flex-wrap items-center gap-3 text-xl font-bold">
+          Release: <ResultBadge result={saved.result} className="text-base" />
         </p>
         <p className="mt-1">
-          As found {saved.asFoundInTolerance ? "in tolerance" : <strong className="text-stop">out of tolerance</strong>}; next due <strong>{saved.nextDueAt}</strong>.
-          {saved.awaitingReview && " Awaiting certificate review before the tool counts as in calibration."}
+          As found {saved.asFoundInTolerance ? "in tolerance" : <strong className="text-stop">out of tolerance</strong>}; {saved.adjusted ? "adjusted, released on the as-left readings" : "not adjusted"}; next due{" "}
+          <strong>{saved.nextDueAt}</strong>.{saved.awaitingReview && " Awaiting certificate review before the tool counts as in calibration."}
         </p>
+        {(saved.asFoundStatement === "conditional_pass" || saved.asFoundStatement === "conditional_fail") && (
+          <p className="mt-1 text-sm">
+            Some points lie within U of a limit: they are listed under <Link className="underline" to="/calibrations/conditional">Conditional results</Link> for review.
+          </p>
+        )}
         {saved.investigationId && (
           <p className="mt-1 font-semibold text-stop">
             An out-of-tolerance investigation was opened: <Link className="underline" to={`/investigations/${saved.investigationId}`}>open it</Link>.
