@@ -53,6 +53,11 @@ export function stacksOf(leaves: LeafUse[], maxLeaves = MAX_STACK): { leaves: Le
 const asStack = (s: { leaves: LeafUse[]; total: Decimal }): LeafStack => ({ leaves: s.leaves, thickness: num(s.total) });
 const stackLabel = (s: LeafStack) => s.leaves.map((l) => l.label).join(" + ");
 
+/** A go, no-go or measured gap as the API carries it: a single leaf's id and label, or the leaves' joined with "+". */
+export function stackAsLeaf(s: LeafStack): { id: string; label: string; thickness: number; leaves: LeafUse[] } {
+  return { id: s.leaves.map((l) => l.id).join("+"), label: s.leaves.map((l) => l.label).join(" + "), thickness: s.thickness, leaves: s.leaves };
+}
+
 /** "0.005" for one leaf, "0.002 + 0.003 (stack)" for several. */
 export function describeStack(s: LeafStack): string {
   return s.leaves.length > 1 ? `${stackLabel(s)} (stack)` : stackLabel(s);

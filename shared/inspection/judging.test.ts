@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
-import { judgeFit, judgeReading, judgeRow, judgeSize, judgeTaper, type ItemRules, type Judged, type ReadingEvidence, type SizePlace } from "./judging";
+import { judgeFit, judgeReading, judgeRow, judgeSize, judgeTaper, type ItemRules, type Judged, type JudgingContext, type ReadingEvidence, type SizePlace } from "./judging";
 
 // Hand-worked examples with exact decimals. Limits are demo values (invented) unless a source is named.
-const IN = { tableUnit: "in" as const, tableExpansionPerK: null };
-const MM = { tableUnit: "mm" as const, tableExpansionPerK: null };
+const IN: JudgingContext = { tableUnit: "in", tableExpansionPerK: null };
+const MM: JudgingContext = { tableUnit: "mm", tableExpansionPerK: null };
 const item = (over: Partial<ItemRules> & Pick<ItemRules, "key" | "kind">): ItemRules => ({
   label: over.key,
   min: null,

@@ -10,7 +10,7 @@ import { JUDGING_RULES_VERSION, judgeReading, judgeRow, slotKey, type Judged, ty
 import type { CheckSheet, JobSummary, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
 import type { LeafView, ReadingView } from "../../../shared/readings/readings.schemas";
 import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
-import type { LeafStack } from "../../../shared/inspection/feeler";
+import { stackAsLeaf, type LeafStack } from "../../../shared/inspection/feeler";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 import type { MaterialKey } from "../../../shared/common/units";
 
@@ -36,8 +36,7 @@ export function toJobSummary(r: JobSummaryRow): JobSummary {
 
 type ReadingRows = Awaited<ReturnType<typeof readingsRepository.ofJob>>;
 
-const stackView = (st: LeafStack | null): LeafView | null =>
-  st ? { id: st.leaves.map((l) => l.id).join("+"), label: st.leaves.map((l) => l.label).join(" + "), thickness: st.thickness, leaves: st.leaves } : null;
+const stackView = (st: LeafStack | null): LeafView | null => (st ? stackAsLeaf(st) : null);
 
 /** Readings of a job as the sheet shows them: as recorded, and judged under the current rules. */
 async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, LimitItemView>, ctx: JudgingContext): Promise<{ views: ReadingView[]; evidence: Map<string, ReadingEvidence> }> {

@@ -12,7 +12,7 @@ import { readingsRepository, type ReadingInsert } from "./readings.repository";
 import { can } from "../../../shared/auth/roles";
 import { num } from "../../../shared/common/decimal";
 import { convertLength, type LengthUnit } from "../../../shared/common/units";
-import { chooseFeelerLeaves, stackFrom, usableLeaves, type FeelerChoice, type FeelerEvidence, type FeelerLeaf, type LeafStack } from "../../../shared/inspection/feeler";
+import { chooseFeelerLeaves, stackAsLeaf, stackFrom, usableLeaves, type FeelerChoice, type FeelerEvidence, type FeelerLeaf, type LeafStack } from "../../../shared/inspection/feeler";
 import { resolutionFlag, toTableUnit, withinToolRange } from "../../../shared/inspection/check-sheet";
 import { dependentItems, judgeReading, judgeRow, JUDGING_RULES_VERSION, lengthText, type JudgingContext, type ReadingEvidence } from "../../../shared/inspection/judging";
 import type { CreateReading, LeafView, ReadingFlag, ReadingResult } from "../../../shared/readings/readings.schemas";
@@ -344,9 +344,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
 }
 
 /** A go, no-go or measured gap as the API shows it: one leaf, or a stack with its total thickness. */
-export function leafView(s: LeafStack): LeafView {
-  return { id: s.leaves.map((l) => l.id).join("+"), label: s.leaves.map((l) => l.label).join(" + "), thickness: s.thickness, leaves: s.leaves };
-}
+const leafView = (s: LeafStack): LeafView => stackAsLeaf(s);
 
 /**
  * The feeler check a reading records, after the rules of the trade: with leaves inside the limits, the go and no-go
