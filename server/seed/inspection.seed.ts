@@ -77,8 +77,11 @@ function readingFor(key: string, n: number, job: "signed" | "open"): CreateReadi
       const warm = !signed && n === 2 ? { temperatureC: 24 } : {};
       return { itemKey: key, index: n, values: [r4(0.8754 + w), r4(0.8755 + w)], toolAssetTags: ["TEL-0101", "MIC-0101"], ...warm };
     }
-    case "stem_dia":
-      return { itemKey: key, index: n, values: [r4(0.4338 - w / 2), r4(0.4337 - w / 2)], toolAssetTags: [n % 3 === 0 ? "MIC-0104" : "MIC-0101"] };
+    case "stem_dia": {
+      // Exhaust stem no. 6 is worn into its serviceable band, well clear of every limit.
+      const values = signed && n === 6 ? [0.4334, 0.4333] : [r4(0.4338 - w / 2), r4(0.4337 - w / 2)];
+      return { itemKey: key, index: n, values, toolAssetTags: [n % 3 === 0 ? "MIC-0104" : "MIC-0101"] };
+    }
     case "guide_bore":
       // Exhaust guide no. 8 is worn past the serviceable limit: the sheet shows it outside limits.
       return { itemKey: key, index: n, values: n === 8 ? [0.4391, 0.4388] : [r4(0.4364 + w), r4(0.4366 + w)], toolAssetTags: ["SHG-0101", "MIC-0101"] };

@@ -11,7 +11,7 @@ import { CreateDispositionSchema } from "../../shared/investigations/investigati
 // (permissible ± 0.0001 in): it is adjusted, and the investigation opens by itself over the demo jobs' readings.
 // All values are invented demo data.
 const NOMINALS = [0.105, 0.21, 0.315, 0.42, 0.5, 0.605, 0.71, 0.815, 0.92, 1];
-const AS_FOUND: Record<number, number> = { 0.42: 0.4201, 0.5: 0.5003, 0.605: 0.6002 };
+const AS_FOUND: Record<number, number> = { 0.42: 0.4201, 0.5: 0.5003, 0.605: 0.6052 };
 
 export async function seedInvestigations(ctx: SeedContext): Promise<void> {
   const { db, config } = ctx;
