@@ -51,7 +51,7 @@ export async function seedInvestigations(ctx: SeedContext): Promise<void> {
         itemIds: [first.id],
         kind: "no_impact",
         rationale:
-          `Re-judged over the error band found (±0.0003 in, the largest error at any check point, both signs): every reading of ${first.itemLabel} no. ${first.index} and each place it feeds stay inside their limits; the verdict stands (demo).`,
+          `Re-judged over the error band found (the largest error at any check point, +0.0003 in at 0.500 in, with its uncertainty, applied with both signs): every reading of ${first.itemLabel} no. ${first.index} and each place it feeds stay inside their limits; the verdict stands (demo).`,
       }),
       { id: quality.id, name: quality.name },
     );

@@ -62,6 +62,11 @@ describe("out-of-round and taper (common practice, handbook examples)", () => {
     expect(j.text).toContain("out-of-round 0.0015 is 0.0003 over the maximum 0.0012");
   });
 
+  it("a worn part failing a limit it has no serviceable figure for is \"outside limits\", naming the limit", () => {
+    const worn = item({ key: "j", kind: "journal", min: 0.8745, max: 0.875, serviceableMin: 0.874 });
+    expect(size(worn, [0.8751, 0.8746]).view.text).toBe("Outside limits: direction 1 0.8751 is 0.0001 over the maximum 0.8750");
+  });
+
   it("an out-of-round on its limit is within it", () => {
     expect(size(top, [5.2516, 5.2504]).view.outOfRoundVerdict).toBe("within_limits");
   });

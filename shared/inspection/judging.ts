@@ -150,8 +150,13 @@ export function verdictWords(checks: Check[], unit: LengthUnit, hasServiceable: 
   const j = judgeChecks(checks);
   if (j.band === "new") return "Within new limits";
   if (j.band === "serviceable") return "Within serviceable limits (worn beyond new)";
-  const why = checks.map((c) => failureText(c, unit)).filter(Boolean);
-  return `${hasServiceable ? "Outside serviceable limits" : "Outside new limits"}: ${why.join("; ")}`;
+  const failing = checks.filter((c) => !checkWithin(c));
+  return `${outsideWords(failing.some((c) => beyondOf(c)?.serviceable), hasServiceable)}: ${failing.map((c) => failureText(c, unit)).join("; ")}`;
+}
+
+/** "Outside serviceable limits" when a serviceable limit failed; "Outside new limits" on a table with new limits only. */
+function outsideWords(serviceableFailed: boolean | undefined, hasServiceable: boolean): string {
+  return serviceableFailed ? "Outside serviceable limits" : hasServiceable ? "Outside limits" : "Outside new limits";
 }
 
 const hasServiceable = (i: Pick<ItemRules, "serviceableMin" | "serviceableMax">) => i.serviceableMin != null || i.serviceableMax != null;
@@ -490,8 +495,9 @@ export function judgeTaper(item: ItemRules, a: Judged<SizePlace>, b: Judged<Size
     const limit = c.max!;
     return `${c.label} ${lengthText(c.value.abs(), unit)} is ${lengthText(c.value.abs().minus(limit), unit)} over the ${c.newMax && !limit.eq(c.newMax) ? "serviceable " : ""}maximum ${lengthText(limit, unit)}`;
   });
+  const serviceableFailed = checks.some((c) => !checkWithin(c) && c.newMax != null && c.max != null && !c.max.eq(c.newMax));
   const text =
-    j.band === "new" ? "Within new limits" : j.band === "serviceable" ? "Within serviceable limits (worn beyond new)" : `${hasServiceable(item) ? "Outside serviceable limits" : "Outside new limits"}: ${failing.join("; ")}`;
+    j.band === "new" ? "Within new limits" : j.band === "serviceable" ? "Within serviceable limits (worn beyond new)" : `${outsideWords(serviceableFailed, hasServiceable(item))}: ${failing.join("; ")}`;
   return {
     view: {
       kind: "taper",
@@ -552,9 +558,9 @@ export function judgeFeelerCheck(item: ItemRules, ev: ReadingEvidence, ctx: Judg
     } else {
       const parts: string[] = [];
       if (!low) parts.push(`the go ${f.go ? describeStack(f.go) : ""} did not enter: the gap is too tight`.replace("  ", " "));
-      else if (!checkWithin(lowCheck)) parts.push(`the thickest leaf that entered (${describeStack(low)}, ${lengthText(low.thickness, unit)}) is under the minimum ${lengthText(lowCheck.min!, unit)}, so the gap is not shown to reach it`);
+      else if (!checkWithin(lowCheck)) parts.push(`the thickest leaf that entered (${describeStack(low)}: ${lengthText(low.thickness, unit)} thick) is under the minimum ${lengthText(lowCheck.min!, unit)}, so the gap is not shown to reach it`);
       if (!high) parts.push(`the no-go ${f.noGo ? describeStack(f.noGo) : ""} entered: the gap is too loose`.replace("  ", " "));
-      else if (!checkWithin(highCheck)) parts.push(`the thinnest leaf that refused (${describeStack(high)}, ${lengthText(high.thickness, unit)}) is over the maximum ${lengthText(highCheck.max!, unit)}, so the gap is not shown to stay under it`);
+      else if (!checkWithin(highCheck)) parts.push(`the thinnest leaf that refused (${describeStack(high)}: ${lengthText(high.thickness, unit)} thick) is over the maximum ${lengthText(highCheck.max!, unit)}, so the gap is not shown to stay under it`);
       text = `Outside limits: ${parts.join("; ")}`;
     }
     if (contradiction) {

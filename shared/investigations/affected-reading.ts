@@ -203,8 +203,19 @@ export function rejudgeAffectedReading(args: {
   const notes: string[] = [];
   if (recordedDiffers) notes.push(`Under the current rules this reading is judged ${WORDS[own.view.verdict]}; it was recorded ${WORDS[r.recordedVerdict]}. ${own.view.text}.`);
   const couldChange = recordedDiffers || judged.some((x) => x.couldChange);
+  // Each place is shown by the quantity that comes nearest a limit over the band (the one that decides it).
+  const worstOf = (spans: NonNullable<(typeof judged)[number]["over"]>["spans"]) => {
+    let best: (typeof spans)[number] | null = null;
+    let bestMargin: Decimal | null = null;
+    for (const sp of spans.filter((x) => x.low.isFinite() && x.high.isFinite())) {
+      const m = [sp.check.min == null ? null : sp.low.minus(sp.check.min), sp.check.max == null ? null : sp.check.max.minus(sp.high)].filter((v): v is Decimal => v != null);
+      const least = m.length ? Decimal.min(...m) : null;
+      if (best == null || (least != null && (bestMargin == null || least.lt(bestMargin)))) [best, bestMargin] = [sp, least];
+    }
+    return best;
+  };
   const placeViews: PlaceRejudgement[] = judged.map((x) => {
-    const first = x.over?.spans.find((s) => s.moves) ?? x.over?.spans[0] ?? null;
+    const first = x.over ? (worstOf(x.over.spans.filter((s) => s.moves)) ?? worstOf(x.over.spans)) : null;
     return {
       itemKey: x.it.key,
       label: x.name,

@@ -240,7 +240,7 @@ describe("existing readings judged again under the current rules, evidence untou
     expect(jr).toMatchObject({ verdict: "outside_limits", judgedDifferently: true, reading: { recordedVerdict: "within_limits" } });
     expect(jr.reading.judgedAt).toBe("2026-06-15T15:00:00.000Z");
     const fr = row(sheet, "ring");
-    expect(fr.verdictText).toContain("the thickest leaf that entered (0.004, 0.0040) is under the minimum 0.0045");
+    expect(fr.verdictText).toContain("the thickest leaf that entered (0.004: 0.0040 thick) is under the minimum 0.0045");
     expect(fr.reading.feeler.why).toContain("Recorded before the leaves were kept with the reading");
 
     // The evidence is as it was, and the verdict rows cannot be rewritten.

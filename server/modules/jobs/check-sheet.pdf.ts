@@ -1,5 +1,6 @@
 import type { LengthUnit } from "../../../shared/common/units";
 import { clearanceText, JUDGING_RULES_VERSION as RULES, lengthText, type PlaceView } from "../../../shared/inspection/judging";
+import { formatExactLength } from "../../../shared/investigations/format";
 import { FLAG_LABELS, type ReadingFlag } from "../../../shared/readings/readings.schemas";
 import { STATUS_LABELS, type ToolStatus } from "../../../shared/tools/tool-status";
 import type { CheckSheet, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
@@ -26,7 +27,7 @@ export function placeCells(place: PlaceView, unit: LengthUnit): { values: string
   switch (place.kind) {
     case "size": {
       const values = place.directions
-        .map((d) => `${d.direction}: ${d.raw} ${d.rawUnit}${d.beyond ? ` — ${lengthText(d.beyond.by, unit)} ${d.beyond.side === "max" ? "over" : "under"} ${d.beyond.side}` : ""}`)
+        .map((d) => `${d.direction}: ${formatExactLength(d.raw, d.rawUnit)} ${d.rawUnit}${d.beyond ? ` — ${lengthText(d.beyond.by, unit)} ${d.beyond.side === "max" ? "over" : "under"} ${d.beyond.side}` : ""}`)
         .join("\n");
       const lines = [`size ${lengthText(place.rawSize, unit)} ${unit}`];
       if (place.thermal) lines.push(`at 20 °C ${lengthText(place.size, unit)} (${place.thermal.partTemperatureC} °C, corr. ${lengthText(place.thermal.correction, unit)})`);
@@ -53,11 +54,18 @@ export function placeCells(place: PlaceView, unit: LengthUnit): { values: string
       if (place.mode === "measured_gap") return { values: `thickest to enter: ${leaves(place.gap, unit)}`, result: `measured gap ${place.gapLow == null ? "—" : lengthText(place.gapLow, unit)}` };
       return {
         values: `go ${leaves(place.go, unit)} ${place.goEntered ? "entered" : "did not enter"}\nno-go ${leaves(place.noGo, unit)} ${place.noGoEntered ? "entered" : "did not enter"}`,
-        result: `gap ${place.gapLow == null ? "—" : `≥ ${lengthText(place.gapLow, unit)}`}${place.gapHigh == null ? "" : `, < ${lengthText(place.gapHigh, unit)}`}`.replace("≥", "at least").replace(", <", ", under"),
+        result: `gap ${place.gapLow == null ? "not shown to reach any leaf" : `at least ${lengthText(place.gapLow, unit)}`}${place.gapHigh == null ? "" : `, under ${lengthText(place.gapHigh, unit)}`}`,
       };
     default:
       return { values: "", result: "" };
   }
+}
+
+/** Why these leaves, short enough for a cell: the measured gap's reason in full, otherwise how the leaves were chosen. */
+function feelerWhy(place: Extract<PlaceView, { kind: "feeler" }>): string {
+  if (place.mode === "measured_gap") return place.why ?? "";
+  if (place.why?.startsWith("Recorded before")) return "Leaves as recorded under rules 1 (go under the minimum, no-go over the maximum).";
+  return "Go: thinnest at or above the minimum; no-go: thickest at or below the maximum (calibrated thicknesses).";
 }
 
 function rowCells(item: SheetItem, row: SheetRow, unit: LengthUnit, tz: string): Record<(typeof COLS)[number]["key"], string> {
@@ -65,7 +73,7 @@ function rowCells(item: SheetItem, row: SheetRow, unit: LengthUnit, tz: string):
   let { values, result } = placeCells(row.place, unit);
   if (row.place.kind === "pending") result = item.kind === "clearance" || item.kind === "taper" ? "pending" : "";
   if (r?.visualResult) values = r.finding ?? "";
-  if (row.place.kind === "feeler" && row.place.why) values += `\n${row.place.why}`;
+  if (row.place.kind === "feeler" && row.place.why) values += `\n${feelerWhy(row.place)}`;
   const flags = row.flags.map((f) => FLAG_LABELS[f as ReadingFlag] ?? f).join("; ");
   const verdict = [
     row.verdictText,
@@ -101,6 +109,13 @@ export function writeCheckSheetPdf(sheet: CheckSheet, printedAt: Date, tz: strin
   doc.text(`Work order: ${sheet.workOrder ?? "—"}    Opened ${when(sheet.openedAt, tz)} by ${sheet.openedBy?.name ?? "—"}`);
   doc.text(`Limits: ${sheet.limitTable.name}, version ${sheet.limitTable.version} — ${sheet.limitTable.sourceDocument}, rev. ${sheet.limitTable.sourceRevision} (${unit}). Verify against the manufacturer's current data.`);
   doc.text(`Printed ${when(printedAt.toISOString(), tz)} (${tz}). Status: ${sheet.locked ? "signed" : sheet.changedSinceSignoff ? "corrected since sign-off — needs signing again" : "open"}.`);
+  doc.text(
+    `Verdicts under the current judging rules (v${RULES}): every reading against the size limits; clearances at their loosest (against the maximum) and tightest (against the minimum), radial where the table says so; ` +
+      "out-of-round and taper where limited; lengths at 20 °C where a part temperature and an expansion coefficient are known; feeler leaves inside the limits.",
+  );
+  if (sheet.summary.judgedDifferently > 0) {
+    doc.fillColor("#a11").text(`${sheet.summary.judgedDifferently} reading(s) were recorded with another verdict than the current rules give; each is marked. The readings are kept as recorded.`).fillColor("black");
+  }
   doc.moveDown(0.6);
 
   const header = () => {
@@ -133,6 +148,8 @@ export function writeCheckSheetPdf(sheet: CheckSheet, printedAt: Date, tz: strin
       if (doc.y + h > bottom()) {
         doc.addPage();
         header();
+        // The header prints at its own size; the row is drawn at the size it was measured at.
+        doc.fontSize(7.5);
       }
       const y = doc.y;
       let x = left;

@@ -239,7 +239,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     const flagList = [...flags];
     const row = await readingsRepository.insert(
       tx,
-      { ...values, verdict, flags: flagList, finding: values.finding ?? (item.kind === "feeler" && verdict === "outside_limits" ? judged.view.text : null) },
+      { ...values, verdict, flags: flagList },
       hits.map((h, i) => {
         const s = statuses.get(h.tool.id)!;
         return { toolId: h.tool.id, position: i + 1, statusAtReading: s.status, dueAtReading: s.dueAt, takenAt: at };

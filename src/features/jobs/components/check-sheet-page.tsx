@@ -176,7 +176,7 @@ function DerivedRow({ item, row, unit, live }: { item: SheetItem; row: SheetRow;
   const place = showLive ? live : row.place;
   const headline =
     place.kind === "fit"
-      ? `${clearanceText(place.loosest.value, unit)}${place.basis === "radial" ? " radial" : ""} loosest · ${clearanceText(place.tightest.value, unit)} tightest`
+      ? `${clearanceText(place.loosest.value, unit)}${place.basis === "radial" ? " radial" : ""} loosest · ${clearanceText(place.tightest.value, unit)}${place.basis === "radial" ? " radial" : ""} tightest`
       : place.kind === "taper"
         ? `taper ${lengthText(place.taper, unit)}`
         : item.kind === "taper"

@@ -1,5 +1,5 @@
 import { clearanceText, lengthText, type PlaceView } from "../../../../shared/inspection/judging";
-import { describeStack, type LeafStack } from "../../../../shared/inspection/feeler";
+import type { LeafStack } from "../../../../shared/inspection/feeler";
 import { DEFAULT_DECIMALS, type LengthUnit } from "../../../../shared/common/units";
 import { cx } from "../../../components/ui/cx";
 
@@ -26,7 +26,7 @@ const by = (b: { side: "min" | "max"; by: number; serviceable: boolean } | null,
 
 /** A leaf or stack with its calibrated thickness: "0.0015 + 0.003 stack (0.0046)". */
 export function stackText(s: LeafStack | null, unit: LengthUnit): string {
-  return s ? `${describeStack(s)}, ${lengthText(s.thickness, unit)}` : "—";
+  return s ? `${s.leaves.map((l) => l.label).join(" + ")}${s.leaves.length > 1 ? " stack" : ""}, ${lengthText(s.thickness, unit)} thick` : "—";
 }
 
 /** The working of a judged place, in the table's unit. */
@@ -48,14 +48,12 @@ export function PlaceDetail({ place, unit }: { place: PlaceView; unit: LengthUni
             ))}
           </ul>
           <p className="tabular-nums">
-            size {lengthText(place.rawSize, unit)} {unit}
             {place.thermal && (
               <>
-                {" "}
-                as read, <strong>{lengthText(place.size, unit)} {unit} at 20 °C</strong>
+                at 20 °C: size <strong>{lengthText(place.size, unit)} {unit}</strong> (as read {lengthText(place.rawSize, unit)}) ·{" "}
               </>
-            )}{" "}
-            · out-of-round {lengthText(place.outOfRound, unit)}
+            )}
+            out-of-round {lengthText(place.outOfRound, unit)}
             {place.outOfRoundLimit != null && (
               <>
                 {" "}
