@@ -1,3 +1,4 @@
+import { useState } from "react";
 import { useNavigate, useParams } from "react-router-dom";
 import { useFieldArray, useForm, type UseFormRegisterReturn } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
@@ -36,7 +37,8 @@ function fromTable(t: LimitTable): CreateLimitTableInput {
       journalKey: it.journalKey ?? "",
       directions: it.directions,
       repeat: it.repeat,
-      toolKinds: it.toolKinds as CreateLimitTableInput["items"][number]["toolKinds"],
+      // An item without tool kinds carries null; the form (and the schema) take "absent".
+      toolKinds: (it.toolKinds ?? undefined) as CreateLimitTableInput["items"][number]["toolKinds"],
       radial: it.radial,
       outOfRoundMax: u(it.outOfRoundMax),
       stationKeys: it.stationKeys ?? undefined,
@@ -67,6 +69,7 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
   const save = useSaveLimitTable();
   const form = useForm<CreateLimitTableInput>({ resolver: zodResolver(CreateLimitTableSchema) as never, defaultValues: initial });
   const items = useFieldArray({ control: form.control, name: "items" });
+  const [invalid, setInvalid] = useState(false);
   const e = form.formState.errors;
   const server = save.error instanceof ApiError ? save.error.fieldErrors() : {};
   const err = (path: string) => (path.split(".").reduce<any>((o, k) => o?.[k], e)?.message as string | undefined) ?? server[path];
@@ -77,7 +80,13 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
       <form
         noValidate
         className="flex flex-col gap-4"
-        onSubmit={form.handleSubmit((input) => save.mutate({ input, reviseId }, { onSuccess: (t) => navigate(`/limit-tables/${t.id}`) }))}
+        onSubmit={form.handleSubmit(
+          (input) => {
+            setInvalid(false);
+            save.mutate({ input, reviseId }, { onSuccess: (t) => navigate(`/limit-tables/${t.id}`) });
+          },
+          () => setInvalid(true),
+        )}
       >
         <Card title="Source">
           <div className="grid gap-3 md:grid-cols-3">
@@ -149,6 +158,7 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
             (against the maximum) and its tightest (against the minimum). Taper = the difference between two stations read in the same direction.
           </p>
         </Card>
+        {invalid && <ErrorNote>Some entries need attention; each is marked above.</ErrorNote>}
         {save.isError && <ErrorNote>{errorMessage(save.error)}</ErrorNote>}
         <div className="flex gap-2">
           <Button type="submit" disabled={save.isPending}>{reviseId ? "Save new version" : "Save limits table"}</Button>
