@@ -271,4 +271,33 @@ describe("the check-sheet PDF shows what the rules judged", () => {
     expect(text).toContain("under the minimum");
     expect(text).toContain("appropriately certificated persons");
   });
+
+  it("prints out-of-round against its limit, the taper by direction, and the feeler's go and no-go stacks with their thicknesses", async () => {
+    const items: LimitItemInput[] = [
+      bore({ key: "top", label: "Bore, top", min: 1.125, max: 1.13, outOfRoundMax: 0.0008 }),
+      bore({ key: "bottom", label: "Bore, bottom", min: 1.125, max: 1.13 }),
+      { key: "taper", label: "Bore taper", kind: "taper", stationKeys: ["top", "bottom"], max: 0.001 },
+      { key: "ring", label: "Ring side clearance", kind: "feeler", min: 0.0045, max: 0.006 },
+    ];
+    const { job, mic, tel } = await sheetWith(items);
+    const { tool: set } = await makeFeelerSetInCalibration(t.db, ["0.0015", "0.002", "0.003", "0.005", "0.006", "0.007"]);
+    await makeCheckout(t.db, set.id, t.people.mechanic.id);
+    const m = await t.agent("mechanic");
+    await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "top", values: [1.1279, 1.127], toolAssetTags: [tel.assetTag, mic.assetTag] });
+    await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "bottom", values: [1.1265, 1.1264], toolAssetTags: [tel.assetTag, mic.assetTag] });
+    expect((await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "ring", toolAssetTags: [set.assetTag], goEntered: true, noGoEntered: false })).status).toBe(201);
+    const res = await (await t.agent("auditor")).raw.get(`/api/jobs/${job.id}/check-sheet.pdf`).buffer(true).parse((r, cb) => {
+      const parts: Buffer[] = [];
+      r.on("data", (c: Buffer) => parts.push(c));
+      r.on("end", () => cb(null, Buffer.concat(parts)));
+    });
+    const pdfParse = (await import("pdf-parse/lib/pdf-parse.js" as string)).default as (b: Buffer) => Promise<{ text: string }>;
+    const text = (await pdfParse(res.body as Buffer)).text.replace(/\s+/g, " ");
+    expect(text).toContain("OOR 0.0009 (max 0.0008, over)");
+    expect(text).toContain("taper 0.0014 (max 0.0010)");
+    expect(text).toContain("1: 1.1279 − 1.1265");
+    expect(text).toContain("go 0.0015 + 0.003 stack (0.0045) entered");
+    expect(text).toContain("no-go 0.006 (0.0060) did not enter");
+    expect(text).toContain("gap at least 0.0045, under 0.0060");
+  });
 });
