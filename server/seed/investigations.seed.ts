@@ -11,7 +11,7 @@ import { CreateDispositionSchema } from "../../shared/investigations/investigati
 // (permissible ± 0.0001 in): it is adjusted, and the investigation opens by itself over the demo jobs' readings.
 // All values are invented demo data.
 const NOMINALS = [0.105, 0.21, 0.315, 0.42, 0.5, 0.605, 0.71, 0.815, 0.92, 1];
-const AS_FOUND: Record<number, number> = { 0.42: 0.4201, 0.5: 0.5003, 0.605: 0.6002 };
+const AS_FOUND: Record<number, number> = { 0.42: 0.4201, 0.5: 0.5003, 0.605: 0.6052 };
 
 export async function seedInvestigations(ctx: SeedContext): Promise<void> {
   const { db, config } = ctx;
@@ -38,10 +38,12 @@ export async function seedInvestigations(ctx: SeedContext): Promise<void> {
   if (!investigationId) throw new Error("Investigations seed: the as-found failure of MIC-0104 did not open an investigation");
   await deliverPendingNotices(db, ctx.mailer, ctx.clock);
 
-  // One reading already answered by the quality manager; the rest wait for the demo user.
+  // One reading whose verdict holds over the whole error band is already answered by the quality manager; the rest
+  // wait for the demo user.
   const inv = await getInvestigation(db, investigationId);
-  const first = inv.items.find((i) => !i.verdictCouldChange) ?? inv.items[0];
-  if (first) {
+  const first = inv.items.find((i) => !i.verdictCouldChange);
+  if (!first) throw new Error("Investigations seed: expected one reading of MIC-0104 whose verdict holds over its error band");
+  {
     await addDispositions(
       db,
       ctx.clock,
@@ -49,7 +51,8 @@ export async function seedInvestigations(ctx: SeedContext): Promise<void> {
       CreateDispositionSchema.parse({
         itemIds: [first.id],
         kind: "no_impact",
-        rationale: "Corrected with the error found (+0.0003 in at 0.500 in), the size stays inside its limits; the verdict stands (demo).",
+        rationale:
+          `Re-judged over the error band found (the largest error at any check point, +0.0003 in at 0.500 in, with its uncertainty, applied with both signs): every reading of ${first.itemLabel} no. ${first.index} and each place it feeds stay inside their limits; the verdict stands (demo).`,
       }),
       { id: quality.id, name: quality.name },
     );

@@ -1,65 +1,113 @@
 import { describe, expect, it } from "vitest";
-import { rejudgeAffectedReading, type ReadingUnderReview, type ToolErrors } from "./affected-reading";
+import { rejudgeAffectedReading, type ReviewedReading, type ToolErrors } from "./affected-reading";
 import { rejudgeCalibration } from "./cascade";
 import { formatExactLength, formatSignedLength } from "./format";
+import type { ItemRules } from "../inspection/judging";
 
-// Demo limits (invented): pin bore 0.9995–1.0005 in; journal 0.9984–0.9992 in; clearance RC4 at 1.000 in,
-// 0.0008 to 0.0028 in (ANSI B4.1-1967 (R2009) as printed in Machinery's Handbook). Clearance = bore − journal
-// (common practice). Micrometer MPE ± 0.0001 in (ASME B89.1.13, secondary source).
-const open = { min: null, max: null, serviceableMin: null, serviceableMax: null };
-const RC4 = { ...open, min: 0.0008, max: 0.0028 };
-const micrometer: ToolErrors = { unit: "in", points: [{ nominal: 0.5, error: 0.0003, uncertainty: null }, { nominal: 1, error: -0.0001, uncertainty: null }] };
+// Demo limits (invented): valve stem 0.4335–0.4340 in, guide 0.4360–0.4370 in, clearance 0.0020–0.0035 in.
+// Clearance = bore − journal; loosest against the maximum, tightest against the minimum (common practice).
+// Micrometer MPE ± 0.0001 in (ASME B89.1.13, secondary source); the finding is +0.0003 in at 0.500 in.
+const base = { min: null, max: null, serviceableMin: null, serviceableMax: null, boreKey: null, journalKey: null, stationKeys: null, radial: false, outOfRoundMax: null, expansionPerK: null, directions: 2, repeat: 12 };
+const ITEMS: ItemRules[] = [
+  { ...base, key: "stem", label: "Valve stem dia.", kind: "journal", min: 0.4335, max: 0.434 },
+  { ...base, key: "guide", label: "Valve guide bore", kind: "bore", min: 0.436, max: 0.437 },
+  { ...base, key: "clearance", label: "Stem to guide clearance", kind: "clearance", boreKey: "guide", journalKey: "stem", min: 0.002, max: 0.0035 },
+];
+const IN = { tableUnit: "in" as const, tableExpansionPerK: null };
+const MIC = "mic-0104";
+const OTHER = "mic-0101";
+const errors: ToolErrors = { unit: "in", points: [{ nominal: 0.105, error: 0, uncertainty: null }, { nominal: 0.5, error: 0.0003, uncertainty: null }, { nominal: 1, error: -0.0001, uncertainty: null }] };
+const reading = (itemKey: string, values: number[], toolIds: string[], over: Partial<ReviewedReading> = {}): ReviewedReading => ({
+  id: `${itemKey}-r`,
+  itemKey,
+  index: 8,
+  unit: "in",
+  values,
+  toolIds,
+  recordedVerdict: "within_limits",
+  ...over,
+});
+const label = (i: ItemRules, n: number) => `${i.label} no. ${n}`;
 
-function journal(size: number, boreSize: number | null): ReadingUnderReview {
-  return { unit: "in", size, kind: "journal", itemLabel: "Journal", sizeLimits: { ...open, min: 0.9984, max: 0.9992 }, clearances: [{ label: "RC4 clearance", side: "journal", otherSize: boreSize, limits: RC4 }], verdict: "within_limits" };
-}
-
-describe("re-judging one affected reading with every judgement it fed", () => {
-  it("the journal side: a micrometer reading 0.0001 small at 1.000 in made the journal read small and the clearance read large", () => {
-    // Journal 0.9984 (on the minimum), bore 1.0012: clearance 0.0028 (on the maximum, ANSI B4.1 RC4).
-    const r = rejudgeAffectedReading(journal(0.9984, 1.0012), micrometer);
-    // Size 0.9984 − (−0.0001) = 0.9985; clearance 0.0028 + (−0.0001) = 0.0027: both stay within, exactly.
-    expect(r.basis).toContain("0.9985");
-    expect(r.basis).toContain("0.0027");
-    // But the largest error (+0.0003 at 0.500) as a bound takes the journal to 0.9981 — below its minimum.
+describe("re-judging an affected reading under the sheet's rules, over the tool's error band", () => {
+  it("a stem diameter shows a diameter, never its clearance: 0.4338/0.4336 with ±0.0003 could be 0.4333 to 0.4339", () => {
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4338, 0.4336], [MIC]), toolId: MIC, errors, siblings: [reading("guide", [0.4368, 0.4369], [OTHER])], items: ITEMS, ctx: IN, label });
+    expect(r.quantity).toBe("diameter");
+    expect(r.measuredValue).toBe(0.4336);
+    // Most likely: the error at the point nearest the size (+0.0003 at 0.5): 0.4336 − 0.0003.
+    expect(r.correctedValue).toBe(0.4333);
+    expect([r.bandLow, r.bandHigh]).toEqual([0.4333, 0.4339]);
+    expect(r.marginBefore).toBe(0.0001);
+    expect(r.marginAfter).toBe(-0.0002);
     expect(r.verdictCouldChange).toBe(true);
-    expect(r.basis).toContain("Conservative bound with the largest error found (+0.0003 in at 0.5 in)");
+    // The clearance it feeds: loosest 0.4369 − 0.4336 = 0.0033 could be 0.0030 to 0.0036 — over 0.0035.
+    const fit = r.places.find((p) => p.itemKey === "clearance")!;
+    expect(fit).toMatchObject({ label: "Stem to guide clearance no. 8", quantity: "loosest fit", value: 0.0033, low: 0.003, high: 0.0036, couldChange: true });
+    expect(r.basis).toContain("Error band ±0.0003 in");
+    expect(r.basis).toContain("applied with both signs");
   });
 
-  it("without the other side of its clearance read, only the size is judged", () => {
-    const r = rejudgeAffectedReading({ ...journal(0.9988, null), sizeLimits: { ...open, min: 0.9984, max: 0.9992 } }, { unit: "in", points: [{ nominal: 1, error: -0.0001, uncertainty: null }] });
-    expect(r.measuredValue).toBe(0.9988);
-    expect(r.correctedValue).toBe(0.9989);
-    expect(r.marginBefore).toBe(0.0004);
-    expect(r.marginAfter).toBe(0.0003);
+  it("where one micrometer read both the stem and the guide, its error moves both sides: the clearance does not move", () => {
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4338, 0.4337], [MIC]), toolId: MIC, errors, siblings: [reading("guide", [0.4368, 0.4369], [MIC])], items: ITEMS, ctx: IN, label });
+    const fit = r.places.find((p) => p.itemKey === "clearance")!;
+    expect(fit).toMatchObject({ couldChange: false });
+    expect(fit.text).toContain("the same tool read both sides");
+  });
+
+  it("a guide read with the failed tool moves the clearance the other way (bore side)", () => {
+    const r = rejudgeAffectedReading({ reading: reading("guide", [0.4364, 0.4365], [MIC]), toolId: MIC, errors, siblings: [reading("stem", [0.4338, 0.4338], [OTHER])], items: ITEMS, ctx: IN, label });
+    expect(r.quantity).toBe("bore diameter");
+    expect([r.bandLow, r.bandHigh]).toEqual([0.4362, 0.4368]);
+    // Tightest 0.4364 − 0.4338 = 0.0026 could be 0.0023 to 0.0029: inside 0.0020; loosest 0.0027 → 0.0024 to 0.0030: inside.
     expect(r.verdictCouldChange).toBe(false);
   });
 
-  it("a metric tool's error is converted exactly into the inch reading (1 in = 25.4 mm, NIST SP 811 App. B)", () => {
-    // +0.00254 mm at 25.4 mm is +0.0001 in at 1 in.
-    const r = rejudgeAffectedReading(
-      { ...journal(0.9988, null), clearances: [] },
-      { unit: "mm", points: [{ nominal: 25.4, error: 0.00254, uncertainty: null }] },
-    );
-    expect(r.correctedValue).toBe(0.9987);
+  it("a reading judged outside that the band could bring inside could change", () => {
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4333, 0.4334], [MIC], { recordedVerdict: "outside_limits" }), toolId: MIC, errors, siblings: [], items: ITEMS, ctx: IN, label });
+    expect(r.verdictNow).toBe("outside_limits");
+    expect(r.verdictCouldChange).toBe(true);
   });
 
-  it("a feeler go leaf found thinner than marked proves less than the check assumed; a thicker one only strengthens it (common practice)", () => {
-    const base: ReadingUnderReview = {
-      unit: "in",
-      size: null,
-      kind: "feeler",
-      itemLabel: "Ring side clearance",
-      sizeLimits: null,
-      clearances: [],
-      verdict: "within_limits",
-      feeler: { goLeaf: { id: "leaf-3", nominal: 0.003 }, noGoLeaf: { id: "leaf-7", nominal: 0.007 }, goEntered: true, noGoEntered: false, limits: { ...open, min: 0.004, max: 0.006 } },
-    };
-    const thin = rejudgeAffectedReading(base, { unit: "in", points: [{ nominal: 0.003, error: -0.0002, uncertainty: null, elementId: "leaf-3" }] });
-    expect(thin.verdictCouldChange).toBe(true);
-    const thick = rejudgeAffectedReading(base, { unit: "in", points: [{ nominal: 0.003, error: 0.0002, uncertainty: null, elementId: "leaf-3" }, { nominal: 0.007, error: -0.0001, uncertainty: null, elementId: "leaf-7" }] });
-    expect(thick.verdictCouldChange).toBe(false);
-    expect(rejudgeAffectedReading(base, { unit: "in", points: null }).verdictCouldChange).toBe(true);
+  it("a reading the current rules judge otherwise than recorded could change whatever the band", () => {
+    // Recorded within under the earlier rule (smallest reading only); 0.4342 is over the maximum.
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4342, 0.4337], [MIC]), toolId: MIC, errors: { unit: "in", points: [{ nominal: 0.5, error: 0, uncertainty: null }] }, siblings: [], items: ITEMS, ctx: IN, label });
+    expect(r.verdictNow).toBe("outside_limits");
+    expect(r.verdictCouldChange).toBe(true);
+    expect(r.basis).toContain("it was recorded within limits");
+  });
+
+  it("a metric tool's error is converted exactly into the inch reading (1 in = 25.4 mm, NIST SP 811 App. B)", () => {
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4338, 0.4338], [MIC]), toolId: MIC, errors: { unit: "mm", points: [{ nominal: 12.7, error: 0.00254, uncertainty: null }] }, siblings: [], items: ITEMS, ctx: IN, label });
+    expect([r.bandLow, r.bandHigh]).toEqual([0.4337, 0.4339]);
+  });
+
+  it("a lost tool's error is unknown: every verdict resting on it could change", () => {
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4338, 0.4338], [MIC]), toolId: MIC, errors: { unit: "in", points: null }, siblings: [], items: ITEMS, ctx: IN, label });
+    expect(r.verdictCouldChange).toBe(true);
+    expect(r.correctedValue).toBeNull();
+    expect(r.basis).toContain("unknown");
+  });
+
+  it("a radial clearance moves by half the error (common practice: radial = diametral / 2)", () => {
+    const items = ITEMS.map((i) => (i.key === "clearance" ? { ...i, radial: true, min: 0.001, max: 0.00175 } : i));
+    const r = rejudgeAffectedReading({ reading: reading("stem", [0.4338, 0.4338], [MIC]), toolId: MIC, errors, siblings: [reading("guide", [0.4368, 0.4368], [OTHER])], items, ctx: IN, label });
+    const fit = r.places.find((p) => p.itemKey === "clearance")!;
+    // 0.0030 diametral = 0.0015 radial, moving ±0.00015.
+    expect([fit.value, fit.low, fit.high]).toEqual([0.0015, 0.00135, 0.00165]);
+  });
+
+  it("a feeler leaf found thinner than the thickness used proves less: the go/no-go verdict could change", () => {
+    const ring: ItemRules = { ...base, key: "ring", label: "Ring side clearance", kind: "feeler", min: 0.0045, max: 0.006, repeat: 1 };
+    const go = { leaves: [{ id: "g", label: "0.005", thickness: 0.0046 }], thickness: 0.0046 };
+    const noGo = { leaves: [{ id: "n", label: "0.006", thickness: 0.006 }], thickness: 0.006 };
+    const r = reading("ring", [], ["set"], { index: 1, feeler: { mode: "go_no_go", go, noGo, goEntered: true, noGoEntered: false, gap: null, why: null } });
+    // The go leaf was 0.0046 at its last calibration and is found 0.0044 now (−0.0006 on 0.005): it may have been under 0.0045.
+    const worn = rejudgeAffectedReading({ reading: r, toolId: "set", errors: { unit: "in", points: [{ nominal: 0.005, error: -0.0006, uncertainty: null, elementId: "g" }, { nominal: 0.006, error: 0, uncertainty: null, elementId: "n" }] }, siblings: [], items: [ring], ctx: IN, label });
+    expect(worn.quantity).toBe("gap");
+    expect(worn.verdictCouldChange).toBe(true);
+    // Found as used (no drift, no error): the check stands.
+    const sound = rejudgeAffectedReading({ reading: r, toolId: "set", errors: { unit: "in", points: [{ nominal: 0.0046, error: 0, uncertainty: null, elementId: "g" }, { nominal: 0.006, error: 0, uncertainty: null, elementId: "n" }] }, siblings: [], items: [ring], ctx: IN, label });
+    expect(sound.verdictCouldChange).toBe(false);
   });
 });
 
@@ -76,7 +124,6 @@ describe("re-judging a calibration with its standard's error (the cascade)", () 
 
   it("the finding's uncertainty can carry a point across the limit; expanded uncertainties combine root-sum-square (GUM 5.1.2)", () => {
     const r = rejudgeCalibration([{ nominal: 0.5, reference: 0.5, asFound: 0.50006, asLeft: null, mpe: 0.0001, uncertainty: 0.00003 }], [{ nominal: 0.5, error: -0.00002, uncertainty: 0.00004 }], "simple", "in");
-    // Central: +0.00008 (inside); with U of the finding: up to +0.00012 (outside).
     expect(r.correctedValue).toBe(0.00008);
     expect(r.verdictCouldChange).toBe(true);
     expect(r.toolErrorsAsLeft[0].uncertainty).toBe(0.00005);

@@ -94,8 +94,28 @@ export const InvestigationItemSchema = z.object({
   index: z.number().int().nullable(),
   unit: UnitSchema.nullable(),
   values: z.array(z.number()),
-  /** The size (or, for a calibration, the as-found error) as it was judged. */
+  /** What the reading measured ("diameter", "bore diameter", "gap"): a stem shows its diameter, never a clearance. */
+  quantity: z.string().nullable(),
+  /** That quantity as judged (at 20 °C when corrected); for a calibration, the as-found error. */
   measuredValue: z.number().nullable(),
+  /** The span the measured quantity may have had over the tool's error band (both signs, up to the largest |error|). */
+  bandLow: z.number().nullable(),
+  bandHigh: z.number().nullable(),
+  /** Every place the reading decides, re-judged: its own, and the clearances and tapers it feeds. */
+  places: z.array(
+    z.object({
+      itemKey: z.string(),
+      label: z.string(),
+      kind: z.string(),
+      quantity: z.string(),
+      value: z.number().nullable(),
+      low: z.number().nullable(),
+      high: z.number().nullable(),
+      verdictNow: z.enum(["within_limits", "outside_limits", "pending"]),
+      couldChange: z.boolean(),
+      text: z.string(),
+    }),
+  ),
   originalVerdict: z.string().nullable(),
   correctedValue: z.number().nullable(),
   marginBefore: z.number().nullable(),

@@ -1,107 +1,86 @@
 import { describe, expect, it } from "vitest";
-import { errorAtNearestPoint, largestError, rejudgeReading } from "./rejudge";
+import { Decimal } from "../common/decimal";
+import { errorBand, judgeOverBand, nearestPoint, type ErrorVariable, type SourceMap } from "./rejudge";
+import type { Check } from "../inspection/judging";
 
-// Demo clearance limits 0.0010–0.0045 in (common practice; demo limits).
-const CLEARANCE = { min: 0.001, max: 0.0045 };
+// The error of a tool found out of tolerance is known only at its check points; between them it is not. The band
+// applied to every reading it took is the largest |error| (plus that point's U) at any check point in its range, with
+// both signs (conservative; common practice). Check values are hand-worked with exact decimals.
+const d = (x: number | string) => new Decimal(String(x));
+const check = (value: string, min: string | null, max: string | null, coef = -1): Check => ({
+  label: "direction 1",
+  value: d(value),
+  newMin: min == null ? null : d(min),
+  newMax: max == null ? null : d(max),
+  min: min == null ? null : d(min),
+  max: max == null ? null : d(max),
+  shown: "length",
+  sensitivity: [{ key: "reading:j#1", coef: d(coef) }],
+});
+const tool = (E: string): { vars: Map<string, ErrorVariable>; sources: SourceMap } => ({
+  vars: new Map([["tool", { id: "tool", halfWidth: d(E), likely: null }]]),
+  sources: new Map([["reading:j#1", { variable: "tool", factor: d(1) }]]),
+});
 
-describe("re-judging a reading with the error found on its tool", () => {
-  it("a micrometer that read 0.0003 large on a journal made the clearance read 0.0003 tight: the true clearance is larger", () => {
-    const r = rejudgeReading({ measured: 0.0026, limits: CLEARANCE, errorFound: 0.0003, effect: -1 });
-    expect(r.correctedValue).toBe(0.0029);
-    expect(r.correctedVerdict).toBe("within_limits");
-    expect(r.verdictCouldChange).toBe(false);
-    expect(r.marginBefore).toBe(0.0016);
-    expect(r.marginAfter).toBe(0.0016);
+describe("the error band of a tool", () => {
+  const points = [
+    { nominal: 0.105, error: 0, uncertainty: null },
+    { nominal: 0.5, error: 0.0003, uncertainty: 0.00002 },
+    { nominal: 1.0, error: -0.0001, uncertainty: null },
+  ];
+
+  it("is the largest |error| plus its U at any check point: +0.0003 with U 0.00002 gives ±0.00032 in", () => {
+    expect(errorBand({ unit: "in", points })!.halfWidth.toString()).toBe("0.00032");
   });
 
-  it("a bore gauge that read 0.0003 large made the clearance read large: the true clearance is smaller", () => {
-    const r = rejudgeReading({ measured: 0.0026, limits: CLEARANCE, errorFound: 0.0003, effect: 1 });
-    expect(r.correctedValue).toBe(0.0023);
+  it("counts only the check points in the tool's range", () => {
+    expect(errorBand({ unit: "in", points, range: { min: 0.75, max: 1 } })!.halfWidth.toString()).toBe("0.0001");
   });
 
-  it("a clearance near the maximum that the corrected value pushes over it could have been rejected", () => {
-    const r = rejudgeReading({ measured: 0.0044, limits: CLEARANCE, errorFound: -0.0002, effect: 1 });
-    expect(r.originalVerdict).toBe("within_limits");
-    expect(r.correctedValue).toBe(0.0046);
-    expect(r.correctedVerdict).toBe("outside_limits");
-    expect(r.marginAfter).toBe(-0.0001);
-    expect(r.verdictCouldChange).toBe(true);
-    expect(r.basis).toContain("could have been different");
+  it("is unknown without points (a lost tool)", () => {
+    expect(errorBand({ unit: "in", points: null })).toBeNull();
   });
 
-  it("a corrected value exactly on the limit keeps the verdict; the uncertainty of the finding then decides", () => {
-    const onLimit = rejudgeReading({ measured: 0.0043, limits: CLEARANCE, errorFound: -0.0002, effect: 1 });
-    expect(onLimit.correctedValue).toBe(0.0045);
-    expect(onLimit.verdictCouldChange).toBe(false);
-    const withU = rejudgeReading({ measured: 0.0043, limits: CLEARANCE, errorFound: -0.0002, uncertainty: 0.00005, effect: 1 });
-    expect(withU.correctedRange).toEqual({ low: 0.00445, high: 0.00455 });
-    expect(withU.verdictCouldChange).toBe(true);
-  });
-
-  it("a rejected reading could have been acceptable when the corrected span reaches back inside the limits", () => {
-    const r = rejudgeReading({ measured: 0.0047, limits: CLEARANCE, errorFound: 0.0001, uncertainty: 0.0001, effect: 1 });
-    expect(r.originalVerdict).toBe("outside_limits");
-    expect(r.correctedVerdict).toBe("outside_limits");
-    expect(r.verdictCouldChange).toBe(true);
-  });
-
-  it("a rejected reading stays rejected when the corrected span stays outside", () => {
-    const r = rejudgeReading({ measured: 0.006, limits: CLEARANCE, errorFound: 0.0001, uncertainty: 0.0001, effect: 1 });
-    expect(r.verdictCouldChange).toBe(false);
-    expect(r.basis).toContain("holds");
-  });
-
-  it("a span wider than the whole tolerance could change an outside verdict even though both its ends are outside", () => {
-    const r = rejudgeReading({ measured: 0.0005, limits: { min: 0.001, max: 0.0012 }, errorFound: -0.0006, uncertainty: 0.001, effect: 1 });
-    expect(r.correctedRange).toEqual({ low: 0.0001, high: 0.0021 });
-    expect(r.verdictCouldChange).toBe(true);
-  });
-
-  it("serviceable limits count when re-judging a worn size", () => {
-    const r = rejudgeReading({ measured: 1.1238, limits: { min: 1.1245, max: 1.125, serviceableMin: 1.1235 }, errorFound: 0.0004, effect: 1 });
-    expect(r.originalBand).toBe("serviceable");
-    expect(r.correctedValue).toBe(1.1234);
-    expect(r.correctedBand).toBe("reject");
-    expect(r.verdictCouldChange).toBe(true);
-  });
-
-  it("a lost tool's error is unknown: every reading it took could have been judged differently", () => {
-    const r = rejudgeReading({ measured: 0.0026, limits: CLEARANCE, errorFound: null, effect: 1 });
-    expect(r).toMatchObject({ correctedValue: null, correctedVerdict: null, marginAfter: null, verdictCouldChange: true });
-    expect(r.basis).toContain("unknown");
-  });
-
-  it("metric windows are exact: 0.041 corrected by −0.002 is exactly on 0.039", () => {
-    const r = rejudgeReading({ measured: 0.041, limits: { min: 0.007, max: 0.039 }, errorFound: 0.002, effect: 1 });
-    expect(r.correctedValue).toBe(0.039);
-    expect(r.marginAfter).toBe(0);
-    expect(r.correctedVerdict).toBe("within_limits");
+  it("the most likely error is the one at the check point nearest the size; halfway, the larger", () => {
+    expect(nearestPoint(points, 0.45)?.error).toBe(0.0003);
+    expect(nearestPoint([{ nominal: 0.5, error: 0.0001 }, { nominal: 1, error: -0.0004 }], 0.75)?.error).toBe(-0.0004);
   });
 });
 
-describe("which error applies to a reading", () => {
-  const points = [
-    { nominal: 0.1, errorAsFound: 0.0001 },
-    { nominal: 0.5, errorAsFound: -0.0002 },
-    { nominal: 1.0, errorAsFound: 0.0004 },
-  ];
-
-  it("the error at the check point nearest to the size read", () => {
-    expect(errorAtNearestPoint(points, 0.45)).toEqual({ error: -0.0002, nominal: 0.5 });
-    expect(errorAtNearestPoint(points, 0.9)).toEqual({ error: 0.0004, nominal: 1.0 });
+describe("could the verdict have changed over the band?", () => {
+  it("a diameter read 0.4336 against a 0.4335 minimum, with a ±0.0003 band, could have been 0.4333: it could change", () => {
+    const { vars, sources } = tool("0.0003");
+    const j = judgeOverBand([check("0.4336", "0.4335", "0.434")], vars, sources);
+    expect(j.verdictNow).toBe("within_limits");
+    expect(j.couldChange).toBe(true);
+    expect([j.spans[0].low.toString(), j.spans[0].high.toString()]).toEqual(["0.4333", "0.4339"]);
+    expect(j.worstMargin!.toString()).toBe("-0.0002");
   });
 
-  it("halfway between two points the larger error is taken, to be safe", () => {
-    expect(errorAtNearestPoint(points, 0.75)).toEqual({ error: 0.0004, nominal: 1.0 });
+  it("both signs count: an error found −0.0002 would move 0.4337 up, but +0.0002 takes it to 0.4335, on the limit — it holds; 0.4336 does not", () => {
+    const { vars, sources } = tool("0.0002");
+    expect(judgeOverBand([check("0.4337", "0.4335", "0.434")], vars, sources).couldChange).toBe(false);
+    expect(judgeOverBand([check("0.4336", "0.4335", "0.434")], vars, sources).couldChange).toBe(true);
   });
 
-  it("the largest error by size keeps its sign, as a conservative bound", () => {
-    expect(largestError(points)).toBe(0.0004);
-    expect(largestError([{ errorAsFound: 0.0001 }, { errorAsFound: -0.0003 }])).toBe(-0.0003);
+  it("outside to inside counts too: 0.4332, 0.0003 under the minimum, could have been 0.4335 on it", () => {
+    const { vars, sources } = tool("0.0003");
+    const j = judgeOverBand([check("0.4332", "0.4335", "0.434")], vars, sources);
+    expect(j.verdictNow).toBe("outside_limits");
+    expect(j.couldChange).toBe(true);
+    expect(judgeOverBand([check("0.4331", "0.4335", "0.434")], vars, sources).couldChange).toBe(false);
   });
 
-  it("without check points there is no error to apply", () => {
-    expect(errorAtNearestPoint([], 1)).toBeNull();
-    expect(largestError([])).toBeNull();
+  it("an outside verdict with two readings changes only if one error brings both inside at once", () => {
+    const { vars, sources } = tool("0.0003");
+    // 0.4331 needs e ≤ −0.0004 to come up to 0.4335; 0.4341 needs e ≥ +0.0001 to come down: no single error does both.
+    const two = [check("0.4331", "0.4335", "0.434"), { ...check("0.4341", "0.4335", "0.434"), label: "direction 2" }];
+    expect(judgeOverBand(two, vars, sources).couldChange).toBe(false);
+  });
+
+  it("a quantity the tool does not move cannot change (out-of-round read with one tool)", () => {
+    const { vars, sources } = tool("0.0003");
+    const oor: Check = { ...check("0.0015", null, "0.0012"), label: "out-of-round", sensitivity: [] };
+    expect(judgeOverBand([oor], vars, sources)).toMatchObject({ verdictNow: "outside_limits", couldChange: false });
   });
 });

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { InstantSchema, optionalText, PageQuerySchema } from "../common/lists.schemas";
 import { LimitItemSchema, LimitTableSummarySchema } from "../limit-tables/limit-tables.schemas";
-import { ReadingViewSchema } from "../readings/readings.schemas";
+import { PlaceSchema, ReadingViewSchema } from "../readings/readings.schemas";
 
 /** Open a job: an engine on a limits table revision (kept for the life of the job). */
 export const CreateJobSchema = z.object({
@@ -76,10 +76,16 @@ export const SheetRowSchema = z.object({
   reading: ReadingViewSchema.nullable(),
   /** Readings this place held before, each superseded with a reason. */
   history: z.array(ReadingViewSchema),
+  /** Clearance rows: the loosest fit (radial where the table says radial); `place` carries both fits. */
   clearance: z.number().nullable(),
   judgement: LimitJudgementSchema.nullable(),
+  /** The verdict under the current rules. */
   verdict: z.enum(["within_limits", "outside_limits", "pending"]),
   verdictText: z.string(),
+  /** The place as judged: every reading, both fits, radial, out-of-round, taper, 20 °C, feeler leaves. */
+  place: PlaceSchema,
+  /** A reading recorded under earlier rules that the current rules judge otherwise. */
+  judgedDifferently: z.boolean(),
   flags: z.array(z.string()),
 });
 export type SheetRow = z.infer<typeof SheetRowSchema>;
@@ -89,7 +95,7 @@ export type SheetItem = z.infer<typeof SheetItemSchema>;
 
 /** GET /api/jobs/:id — the check sheet. */
 export const CheckSheetSchema = JobSummarySchema.extend({
-  limitTable: LimitTableSummarySchema.pick({ id: true, name: true, engineModel: true, unit: true, sourceDocument: true, sourceRevision: true, version: true, isDemo: true, supersededById: true }),
+  limitTable: LimitTableSummarySchema.pick({ id: true, name: true, engineModel: true, unit: true, sourceDocument: true, sourceRevision: true, version: true, isDemo: true, supersededById: true, expansionPerK: true }),
   items: z.array(SheetItemSchema),
   signoffs: z.array(SignoffSchema),
   /** The sheet is locked: signed, and nothing corrected since. */
@@ -102,6 +108,9 @@ export const CheckSheetSchema = JobSummarySchema.extend({
     missing: z.array(z.object({ itemKey: z.string(), index: z.number().int(), label: z.string() })),
     outside: z.number().int(),
     flagged: z.number().int(),
+    /** Places whose reading was recorded with another verdict than the current rules give. */
+    judgedDifferently: z.number().int(),
+    rulesVersion: z.number().int(),
   }),
   tools: z.array(z.object({ assetTag: z.string(), description: z.string(), statusAtReading: z.string(), dueAtReading: z.string().nullable(), readings: z.number().int() })),
 });

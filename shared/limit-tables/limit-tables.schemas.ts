@@ -3,7 +3,7 @@ import { dec } from "../common/decimal";
 import { LengthSchema, UnitSchema, InstantSchema, optionalText } from "../common/lists.schemas";
 import { TOOL_KINDS } from "../families/families.schemas";
 
-export const LIMIT_ITEM_KINDS = ["visual", "journal", "bore", "clearance", "feeler"] as const;
+export const LIMIT_ITEM_KINDS = ["visual", "journal", "bore", "clearance", "feeler", "taper"] as const;
 export type LimitItemKind = (typeof LIMIT_ITEM_KINDS)[number];
 export const LimitItemKindSchema = z.enum(LIMIT_ITEM_KINDS);
 
@@ -13,9 +13,22 @@ export const LIMIT_ITEM_KIND_LABELS: Record<LimitItemKind, string> = {
   bore: "Bore (inside size)",
   clearance: "Clearance (bore − journal)",
   feeler: "Feeler gap (go / no-go)",
+  taper: "Taper between two stations",
 };
 
 const optionalLength = LengthSchema.nullish().transform((v) => (v == null ? undefined : v));
+
+/**
+ * A part's linear expansion coefficient per kelvin (steel 11.5 × 10⁻⁶, aluminium alloys 21.5–23.4 × 10⁻⁶: NIST J. Res.;
+ * Callister App. B). With a part temperature on a reading, sizes are judged at 20 °C (ISO 1).
+ */
+export const ExpansionSchema = z
+  .number()
+  .finite()
+  .positive("An expansion coefficient is above zero.")
+  .max(0.0001, "Give the coefficient per kelvin, e.g. 0.0000115 for steel.")
+  .nullish()
+  .transform((v) => (v == null ? undefined : v));
 
 /** One line of a limits table. For journal and bore items min/max bound the size; for clearance and feeler items the clearance. */
 export const LimitItemInputSchema = z.object({
@@ -39,8 +52,14 @@ export const LimitItemInputSchema = z.object({
   /** How many of the item the engine has (per cylinder, per valve…). */
   repeat: z.number().int().min(1, "An engine has at least one of each item.").max(64).default(1),
   toolKinds: z.array(z.enum(TOOL_KINDS)).max(10).optional(),
-  /** Limits are diametral unless the table says radial (common practice). */
+  /** Clearance limits are diametral unless the table says radial; radial = diametral / 2 (common practice). */
   radial: z.boolean().default(false),
+  /** Journal or bore: the largest out-of-round (largest − smallest reading at one station) allowed. */
+  outOfRoundMax: LengthSchema.min(0, "An out-of-round limit is zero or more.").nullish().transform((v) => (v == null ? undefined : v)),
+  /** Taper item: the two size items (stations) whose difference it limits, e.g. top and bottom of ring travel. */
+  stationKeys: z.array(z.string().trim().min(1).max(60)).length(2, "A taper is between two stations.").optional(),
+  /** Journal or bore: the part's expansion coefficient per kelvin (overrides the table's). */
+  expansionPerK: ExpansionSchema,
   note: optionalText(500),
 });
 export type LimitItemInput = z.input<typeof LimitItemInputSchema>;
@@ -65,8 +84,24 @@ function checkItems(items: LimitItem[], ctx: z.RefinementCtx) {
     }
     if (it.kind === "journal" || it.kind === "bore" || it.kind === "feeler") {
       if (it.min == null || it.max == null) at(it.min == null ? "min" : "max", "Give both the new minimum and maximum.");
-    } else if (it.min == null && it.max == null) at("max", "Give at least a minimum or a maximum clearance.");
-    if (it.kind === "feeler" && it.min != null && it.min <= 0) at("min", "A feeler gap's minimum must be above zero (a go leaf must be thinner than it).");
+    } else if (it.kind === "clearance" && it.min == null && it.max == null) at("max", "Give at least a minimum or a maximum clearance.");
+    if (it.kind === "feeler" && it.min != null && it.min <= 0) at("min", "A feeler gap's minimum must be above zero (the go leaf is at or above it).");
+    if (it.radial && it.kind !== "clearance") at("radial", "Only a clearance item's limits can be radial.");
+    if (it.outOfRoundMax != null && it.kind !== "journal" && it.kind !== "bore") at("outOfRoundMax", "Only a journal or bore item has an out-of-round limit.");
+    if (it.expansionPerK != null && it.kind !== "journal" && it.kind !== "bore") at("expansionPerK", "Only a journal or bore item is corrected to 20 °C.");
+    if (it.kind === "taper") {
+      if (it.min != null || it.serviceableMin != null) at("min", "A taper has a maximum only.");
+      if (it.max == null) at("max", "Give the largest taper allowed.");
+      else if (it.max < 0) at("max", "A taper limit is zero or more.");
+      const keys = it.stationKeys ?? [];
+      const stations = keys.map((k) => byKey.get(k));
+      if (keys.length !== 2 || keys[0] === keys[1]) at("stationKeys", "Name two different stations (journal or bore items) of this table.");
+      else if (stations.some((s) => !s || (s.kind !== "journal" && s.kind !== "bore"))) at("stationKeys", "Both stations must be journal or bore items of this table.");
+      else if (stations[0]!.kind !== stations[1]!.kind) at("stationKeys", "Both stations must be the same kind (two bores, or two journals).");
+      else if (stations.some((s) => it.repeat > s!.repeat)) at("repeat", "A taper cannot repeat more often than its stations.");
+      if (it.boreKey || it.journalKey) at("boreKey", "Only a clearance item names a bore and a journal.");
+      return;
+    } else if (it.stationKeys?.length) at("stationKeys", "Only a taper item names stations.");
     if (it.kind === "clearance") {
       const bore = it.boreKey ? byKey.get(it.boreKey) : undefined;
       const journal = it.journalKey ? byKey.get(it.journalKey) : undefined;
@@ -89,6 +124,8 @@ export const CreateLimitTableSchema = z
     sourceRevision: z.string().trim().min(1, "Give the document's revision.").max(60),
     /** Invented values for the demonstration; shown as demo everywhere. */
     isDemo: z.boolean().default(false),
+    /** The expansion coefficient of the table's parts, per kelvin, where an item does not give its own. */
+    expansionPerK: ExpansionSchema,
     items: z.array(LimitItemInputSchema).min(1, "A table needs at least one item.").max(500),
   })
   .superRefine((t, ctx) => checkItems(t.items, ctx));
@@ -110,6 +147,9 @@ export const LimitItemSchema = z.object({
   repeat: z.number().int(),
   toolKinds: z.array(z.string()).nullable(),
   radial: z.boolean(),
+  outOfRoundMax: z.number().nullable(),
+  stationKeys: z.array(z.string()).nullable(),
+  expansionPerK: z.number().nullable(),
   note: z.string().nullable(),
 });
 export type LimitItemView = z.infer<typeof LimitItemSchema>;
@@ -126,6 +166,7 @@ export const LimitTableSummarySchema = z.object({
   /** The newer revision, when this one has been revised (jobs started on it keep it). */
   supersededById: z.string().uuid().nullable(),
   isDemo: z.boolean(),
+  expansionPerK: z.number().nullable(),
   createdAt: InstantSchema,
   createdBy: z.object({ id: z.string(), name: z.string() }).nullable(),
   itemCount: z.number().int(),

@@ -63,5 +63,29 @@ describe("the demo inspection", () => {
     expect(open.summary.missing.length).toBeGreaterThan(0);
     expect(open.summary.flagged).toBeGreaterThan(0);
     expect(open.tools.map((x: { assetTag: string }) => x.assetTag)).toContain("MIC-0104");
+
+    // The signed sheet shows a place caught by each judging rule (demo values).
+    const place = (sheet: any, key: string, index: number) => sheet.items.find((i: { key: string }) => i.key === key).rows.find((r: { index: number }) => r.index === index);
+    // Every two-point reading: pin no. 2 read 0.8751 in one direction, over the 0.8750 maximum, though its size 0.8746 is inside.
+    expect(place(signed, "pin_dia", 2).place).toMatchObject({ verdict: "outside_limits", size: 0.8746, directions: [{ beyond: { side: "max", by: 0.0001 } }, { beyond: null }] });
+    // Both fits: pin no. 4's loosest fit passes, its tightest (0.8752 − 0.8750 = 0.0002) is under the 0.0003 minimum.
+    expect(place(signed, "pin_clearance", 4).place).toMatchObject({ verdict: "outside_limits", loosest: { verdict: "within_limits" }, tightest: { value: 0.0002, verdict: "outside_limits" } });
+    // Out-of-round: cylinder no. 3 top, 5.2519 − 5.2504 = 0.0015 over 0.0012; taper: cylinder no. 5, 0.0016 over 0.0012.
+    expect(place(signed, "barrel_bore_top", 3).place).toMatchObject({ outOfRound: 0.0015, outOfRoundVerdict: "outside_limits", verdict: "outside_limits" });
+    expect(place(signed, "barrel_taper", 5).place).toMatchObject({ kind: "taper", taper: 0.0016, verdict: "outside_limits" });
+    // 20 °C: piston no. 6 read 0.8753 at 30 °C is under the 0.8752 minimum at 20 °C (aluminium, 21.5 µm/(m·K)).
+    const warm = place(signed, "pin_bore", 6).place;
+    expect(warm).toMatchObject({ verdict: "outside_limits", rawSize: 0.8754, thermal: { partTemperatureC: 30, toolTemperatureC: 20, source: "item" } });
+    expect(warm.directions[0]).toMatchObject({ raw: 0.8753, verdict: "outside_limits" });
+    // Radial: rocker no. 9's tightest 0.0005 diametral is 0.00025 radial, under 0.0003; no. 7's 0.0021 diametral is 0.00105 radial, serviceable.
+    expect(place(signed, "rocker_clearance", 9).place).toMatchObject({ basis: "radial", verdict: "outside_limits", tightest: { value: 0.00025, diametral: 0.0005 } });
+    expect(place(signed, "rocker_clearance", 7).place).toMatchObject({ basis: "radial", verdict: "within_limits", band: "serviceable", loosest: { value: 0.00105 } });
+    // Feeler leaves: recorded under the earlier rules (go under the minimum), judged again and no longer within.
+    const ring = place(signed, "ring_side_top", 1);
+    expect(ring).toMatchObject({ verdict: "outside_limits", judgedDifferently: true, reading: { recordedVerdict: "within_limits", feeler: { go: { leaves: [{ label: "0.003" }] } } } });
+    expect(signed.summary.judgedDifferently).toBe(3 * 6);
+    // Today's second ring is a measured gap: FLR-0101 cannot make a go and a no-go inside 0.0030–0.0034.
+    expect(place(open, "ring_side_second", 1).place).toMatchObject({ kind: "feeler", mode: "measured_gap", verdict: "within_limits" });
+    expect(place(open, "ring_side_top", 1).place).toMatchObject({ mode: "go_no_go", verdict: "within_limits" });
   });
 });

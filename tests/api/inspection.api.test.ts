@@ -88,7 +88,7 @@ describe("sizes and clearances on the check sheet", () => {
     const c = row((await a.get(`/api/jobs/${job.id}`)).body, "pin_clearance");
     expect(c.clearance).toBe(0.0052);
     expect(c.verdict).toBe("outside_limits");
-    expect(c.verdictText).toBe("Outside serviceable limits");
+    expect(c.verdictText).toBe("Outside serviceable limits: loosest fit 0.0052 loose is 0.0002 over the serviceable maximum 0.0050 loose");
   });
 
   it("a metric micrometer on an inch table converts exactly: 28.575 mm is 1.125 in (1 in = 25.4 mm exactly, NIST SP 811)", async () => {
@@ -171,17 +171,20 @@ describe("feeler gaps checked go/no-go", () => {
     return { job, set: tool };
   }
 
-  it("the go leaf is the thickest sound leaf under the minimum and the no-go the thinnest over the maximum; a leaf rejected at calibration is skipped (common practice)", async () => {
+  it("go and no-go sit inside the limits, chosen by calibrated thickness; a leaf rejected at calibration is skipped (ISO 1938-1 principle, from memory; common practice)", async () => {
     const { job, set } = await feelerSheet();
     const a = await t.agent("mechanic");
     const leaves = await a.get(`/api/jobs/${job.id}/feeler-leaves?itemKey=ring_side&setTag=${set.assetTag}`);
     expect(leaves.status).toBe(200);
-    // 0.004 is thinner than 0.0045 but was rejected, so 0.003 must enter; 0.007 must not.
-    expect(leaves.body.goLeaf).toMatchObject({ label: "0.003", thickness: 0.003 });
-    expect(leaves.body.noGoLeaf).toMatchObject({ label: "0.007", thickness: 0.007 });
+    // Limits 0.0045–0.0060: the thinnest at or above 0.0045 is the stack 0.0015 + 0.003 (0.004 is rejected); the
+    // thickest at or below 0.0060 is the 0.006 leaf. The earlier choice (0.003 under, 0.007 over) proved nothing.
+    expect(leaves.body).toMatchObject({ mode: "go_no_go", goLeaf: { label: "0.0015 + 0.003", thickness: 0.0045 }, noGoLeaf: { label: "0.006", thickness: 0.006 } });
+    expect(leaves.body.goLeaf.leaves.map((l: { label: string }) => l.label)).toEqual(["0.0015", "0.003"]);
+    expect(leaves.body.leaves.map((l: { label: string }) => l.label)).not.toContain("0.004");
+    expect(leaves.body.why).toContain("at or above the minimum");
     const ok = await a.post(`/api/jobs/${job.id}/readings`, { itemKey: "ring_side", index: 1, toolAssetTags: [set.assetTag], goEntered: true, noGoEntered: false });
     expect(ok.status).toBe(201);
-    expect(ok.body).toMatchObject({ verdict: "within_limits", goLeaf: { label: "0.003" }, noGoLeaf: { label: "0.007" } });
+    expect(ok.body).toMatchObject({ verdict: "within_limits", goLeaf: { label: "0.0015 + 0.003", thickness: 0.0045 }, noGoLeaf: { label: "0.006", thickness: 0.006 } });
   });
 
   it("a no-go leaf that enters means the gap is too wide: outside limits", async () => {
@@ -193,13 +196,12 @@ describe("feeler gaps checked go/no-go", () => {
     expect(go.body.verdict).toBe("outside_limits");
   });
 
-  it("leaves are chosen by their calibrated thickness where it is known", async () => {
-    // The 0.007 leaf measured 0.0059 at calibration: no longer thicker than the 0.006 maximum, so 0.008 is the no-go leaf.
-    const { job, set } = await feelerSheet({ calibrated: { "0.007": "0.0059" } });
+  it("leaves are chosen by their calibrated thickness: a 0.006 leaf measured 0.0061 is over the 0.0060 maximum and cannot be the no-go", async () => {
+    const { job, set } = await feelerSheet({ calibrated: { "0.006": "0.0061" }, rejected: ["0.004"] });
     const a = await t.agent("mechanic");
     const leaves = await a.get(`/api/jobs/${job.id}/feeler-leaves?itemKey=ring_side&setTag=${set.assetTag}`);
-    expect(leaves.body.noGoLeaf).toMatchObject({ label: "0.008" });
-    expect(leaves.body.goLeaf).toMatchObject({ label: "0.004" });
+    // The thickest at or under 0.0060 is then 0.005 (0.002 + 0.003 is as thick; one leaf is preferred to a stack).
+    expect(leaves.body).toMatchObject({ mode: "go_no_go", noGoLeaf: { label: "0.005", thickness: 0.005 }, goLeaf: { thickness: 0.0045 } });
   });
 });
 
@@ -323,7 +325,8 @@ describe("refusals and flags", () => {
     const r = row((await a.get(`/api/jobs/${job.id}`)).body, "journal").reading;
     // 7075 journal 50 mm read with a steel micrometer at 25 °C reads 2.975 µm large (reference-values.md, JCGM 100:2008 H.1).
     expect(r.size).toBe(50);
-    expect(r.correction).toMatchObject({ correction: -0.002975, correctedSize: 49.997025 });
+    expect(r.place.thermal).toMatchObject({ correction: -0.002975, source: "reading", material: "aluminium_7075" });
+    expect(r.place).toMatchObject({ rawSize: 50, size: 49.997025 });
   });
 });
 

@@ -129,62 +129,58 @@ describe("opening an investigation when a tool is found out of tolerance", () =>
 });
 
 describe("re-judging the affected readings", () => {
-  it("a stem read 0.0003 in large by the failed micrometer could have been undersize, and its clearance could have been too loose (journal side moves the clearance up)", async () => {
+  it("a stem read with the failed micrometer shows its diameter over the error band (±0.00032 in: +0.0003 and its U, both signs); it and its clearance could change", async () => {
     const { tool, bad } = await failingMicrometer();
     const other = await makeTool(t.db);
     const { table } = await makeLimitTable(t.db);
     const job = await makeJob(t.db, table.id);
-    // Stem 0.4338/0.4336 → size 0.4336 (smallest); guide 0.4368/0.4369 → size 0.4369 (largest); clearance 0.0033.
+    // Stem 0.4338/0.4336 → size 0.4336 (smallest); guide 0.4368/0.4369 → size 0.4369 (largest); loosest fit 0.0033.
     const stem = await makeReading(t.db, { jobId: job.id, itemKey: "stem", kind: "journal", values: ["0.4338", "0.4336"], takenAt: "2026-03-01T15:00:00Z", toolIds: [tool.id] });
     await makeReading(t.db, { jobId: job.id, itemKey: "guide", kind: "bore", values: ["0.4368", "0.4369"], takenAt: "2026-03-01T15:10:00Z", toolIds: [other.id] });
     const id = await find({ kind: "as_found_failure", toolId: tool.id, calibrationId: bad.id, at: new Date(FINDING_AT), actorId: null });
     const item = (await detail(id)).items.find((i: { readingId: string }) => i.readingId === stem.id);
     expect(item.verdictCouldChange).toBe(true);
-    // The stem size itself: 0.4336 − 0.0003 = 0.4333, below the 0.4335 minimum (exact decimals).
-    expect(item.measuredValue).toBe(0.4336);
-    expect(item.marginBefore).toBe(0.0001);
+    // The stem shows a diameter, never the clearance: 0.4336 could be 0.43328 to 0.43392 (exact decimals).
+    expect(item).toMatchObject({ quantity: "diameter", measuredValue: 0.4336, bandLow: 0.43328, bandHigh: 0.43392, marginBefore: 0.0001, marginAfter: -0.00022 });
+    // Most likely: the error at the point nearest the size (+0.0003 at 0.5 in) taken off: 0.4333.
     expect(item.correctedValue).toBe(0.4333);
-    expect(item.marginAfter).toBe(-0.0002);
-    // The clearance from the journal side: 0.0033 + 0.0003 = 0.0036, over the 0.0035 maximum.
-    expect(item.basis).toContain("journal side");
-    expect(item.basis).toContain("0.0036");
-    expect(item.basis).toContain("error used +0.0003 in");
-    expect(item.basis).toContain("nearest the size (0.5 in)");
+    // The clearance it feeds, from the journal side: loosest 0.0033 could be 0.00298 to 0.00362, over the 0.0035 maximum.
+    const fit = item.places.find((p: { itemKey: string }) => p.itemKey === "stem_clearance");
+    expect(fit).toMatchObject({ quantity: "loosest fit", value: 0.0033, low: 0.00298, high: 0.00362, couldChange: true });
+    expect(item.basis).toContain("Error band ±0.00032 in");
+    expect(item.basis).toContain("at the check point nearest the size: +0.0003 in at 0.5 in");
   });
 
-  it("a guide read with the failed tool moves the clearance the other way: 0.0033 read on the bore side is really 0.0030 (bore side)", async () => {
+  it("a guide read with the failed tool shows a bore diameter; mid-tolerance, it and its clearance hold over the whole band", async () => {
     const { tool, bad } = await failingMicrometer();
     const other = await makeTool(t.db);
     const { table } = await makeLimitTable(t.db, [
       { key: "stem", kind: "journal" },
-      { key: "guide", label: "Guide", kind: "bore" },
+      { key: "guide", label: "Guide", kind: "bore", min: "0.4355", max: "0.4370" },
       { key: "stem_clearance", label: "Stem to guide clearance", kind: "clearance", min: "0.0015", max: "0.0035", boreKey: "guide", journalKey: "stem" },
     ]);
     const job = await makeJob(t.db, table.id);
     await makeReading(t.db, { jobId: job.id, itemKey: "stem", kind: "journal", values: ["0.4336", "0.4336"], takenAt: "2026-03-01T15:00:00Z", toolIds: [other.id], verdict: "pending" });
-    const guide = await makeReading(t.db, { jobId: job.id, itemKey: "guide", kind: "bore", values: ["0.4369", "0.4369"], takenAt: "2026-03-01T15:10:00Z", toolIds: [tool.id], verdict: "pending" });
+    const guide = await makeReading(t.db, { jobId: job.id, itemKey: "guide", kind: "bore", values: ["0.4365", "0.4365"], takenAt: "2026-03-01T15:10:00Z", toolIds: [tool.id], verdict: "within_limits" });
     const id = await find({ kind: "as_found_failure", toolId: tool.id, calibrationId: bad.id, at: new Date(FINDING_AT), actorId: null });
     const item = (await detail(id)).items.find((i: { readingId: string }) => i.readingId === guide.id);
-    expect(item.measuredValue).toBe(0.4369);
-    expect(item.correctedValue).toBe(0.003);
-    expect(item.marginBefore).toBe(0.0002);
-    expect(item.marginAfter).toBe(0.0005);
-    expect(item.verdictCouldChange).toBe(false);
-    expect(item.basis).toContain("bore side");
+    expect(item).toMatchObject({ quantity: "bore diameter", measuredValue: 0.4365, correctedValue: 0.4362, bandLow: 0.43618, bandHigh: 0.43682, verdictCouldChange: false });
+    // From the bore side the clearance moves with the bore: 0.0029 could be 0.00258 to 0.00322, inside 0.0015–0.0035.
+    expect(item.places.find((p: { itemKey: string }) => p.itemKey === "stem_clearance")).toMatchObject({ value: 0.0029, low: 0.00258, high: 0.00322, couldChange: false });
   });
 
-  it("the largest error found is applied as a conservative bound even where the nearest check point shows none", async () => {
+  it("the largest error found bounds every reading, even one nearest a check point that showed none", async () => {
     const { tool, bad } = await failingMicrometer();
     const { table } = await makeLimitTable(t.db);
     const job = await makeJob(t.db, table.id);
-    // Pin 0.1002 is nearest the 0.105 point (error 0): it holds there, but +0.0003 (the largest, at 0.500) takes it to 0.0999.
+    // Pin 0.1002 is nearest the 0.105 point (error 0), but the band of ±0.00032 takes it down to 0.09988, under 0.1000.
     const pin = await makeReading(t.db, { jobId: job.id, itemKey: "pin", kind: "journal", values: ["0.1002", "0.1002"], takenAt: "2026-03-01T15:00:00Z", toolIds: [tool.id] });
     const id = await find({ kind: "as_found_failure", toolId: tool.id, calibrationId: bad.id, at: new Date(FINDING_AT), actorId: null });
     const item = (await detail(id)).items.find((i: { readingId: string }) => i.readingId === pin.id);
     expect(item.correctedValue).toBe(0.1002);
-    expect(item.marginAfter).toBe(0.0002);
+    expect(item.marginAfter).toBe(-0.00012);
     expect(item.verdictCouldChange).toBe(true);
-    expect(item.basis).toContain("Conservative bound with the largest error found (+0.0003 in at 0.5 in): the verdict could have been different.");
+    expect(item.basis).toContain("the largest |error| found at any check point in the tool's range (+0.0003 in at 0.5 in, U 0.00002), applied with both signs");
   });
 
   it("a lost tool's error is unknown: every reading since it was last known good could have been judged differently", async () => {
@@ -432,7 +428,8 @@ describe("dispositions and close-out", () => {
     expect(text).toContain("2026-01-10 09:00:00");
     expect(text).toContain(o.job1.engineSerial);
     expect(text).toContain("Exhaust valve stem");
-    expect(text).toContain("before +0.0001 in, after -0.0002 in");
+    expect(text).toContain("as read +0.0001 in, at the worst of the error band -0.00022 in");
+    expect(text).toContain("diameter 0.4336 in (over the error band 0.43328 in to 0.43392 in)");
     expect(text).toContain("Pin was replaced with a new part anyway.");
     expect(text).toContain("Disposition: none yet");
     expect(text).toContain("prompt a qualified evaluation of each affected reading; they are not determinations");

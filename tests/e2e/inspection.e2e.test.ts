@@ -69,7 +69,7 @@ describe("filling a check sheet on a tablet", () => {
     await page.getByLabel("Piston pin bore no. 1, gauge tag").fill(tags.tel);
     await page.getByLabel("Piston pin bore no. 1, micrometer tag").fill(tags.mic);
     const live = page.getByLabel("Live result for Piston pin bore no. 1");
-    await live.getByText("Pin to piston clearance: 0.0026 loose — Within new limits").waitFor();
+    await live.getByText("Pin to piston clearance: 0.0026 loose loosest, 0.0021 loose tightest — Within new limits").waitFor();
     await expect(page.getByLabel("Pin to piston clearance no. 1").innerText()).resolves.toContain("0.0026 loose");
     await app.screenshot(page, "inspection-live-clearance");
     await page.getByRole("button", { name: "Save reading" }).click();

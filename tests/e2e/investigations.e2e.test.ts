@@ -58,10 +58,13 @@ describe("an out-of-tolerance calibration, from the bench to the investigation",
     await page.getByRole("heading", { name: `Engine ${engineSerial} · WO-E2E-1` }).waitFor();
     const stem = page.getByRole("article", { name: "Exhaust valve stem" });
     await expect(stem.textContent()).resolves.toContain("Verdict could change");
-    // 0.4336 in is nearest the 0.420 in point (no error there); the +0.0003 in found at 0.500 in, applied as the
-    // conservative bound, takes it to 0.4333 in, under the 0.4335 in minimum.
+    // The stem shows its diameter: the +0.0003 in found at 0.500 in, applied with both signs, takes 0.4336 in
+    // under the 0.4335 in minimum. The same micrometer read the guide, so the clearance does not move with it.
+    await expect(stem.textContent()).resolves.toContain("Diameter as judged");
+    await expect(stem.getByRole("list", { name: "Places re-judged" }).textContent()).resolves.toContain("could change — Exhaust valve stem");
     await stem.getByText("How it was re-judged").click();
-    await expect(stem.textContent()).resolves.toContain("Conservative bound with the largest error found (+0.0003 in at 0.5 in): the verdict could have been different.");
+    await expect(stem.textContent()).resolves.toContain("applied with both signs");
+    await expect(stem.textContent()).resolves.toContain("the same tool read both sides");
     await expect(page.getByRole("article", { name: "Exhaust valve guide" }).count()).resolves.toBe(1);
     await expect(page.getByRole("article", { name: "Rocker pin" }).count()).resolves.toBe(1);
     await expect(page.getByRole("complementary", { name: "Cautions" }).count()).resolves.toBe(1);

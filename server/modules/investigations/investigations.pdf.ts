@@ -60,7 +60,7 @@ export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date,
     const facts: string[] = [];
     if (i.kind === "reading") {
       if (i.values.length) facts.push(`Values ${i.values.map((v) => len(v, u)).join(" / ")}`);
-      if (i.measuredValue != null) facts.push(`size ${len(i.measuredValue, u)}`);
+      if (i.measuredValue != null) facts.push(`${i.quantity ?? "size"} ${len(i.measuredValue, u)}${i.bandLow != null && i.bandHigh != null ? ` (over the error band ${len(i.bandLow, u)} to ${len(i.bandHigh, u)})` : ""}`);
       facts.push(`verdict ${i.originalVerdict?.replace("_", " ") ?? "—"}`);
       facts.push(`measured ${when(i.takenAt, tz)}${i.takenBy ? ` by ${i.takenBy}` : ""}`);
       if (i.override) facts.push("taken under an override");
@@ -69,7 +69,9 @@ export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date,
     }
     doc.text(facts.join("; "));
     doc.text(
-      `Margin to the nearest limit: before ${signedLen(i.marginBefore, u)}, after ${signedLen(i.marginAfter, u)}; corrected value ${len(i.correctedValue, u)}. ` +
+      (i.kind === "reading"
+        ? `Margin to the nearest limit: as read ${signedLen(i.marginBefore, u)}, at the worst of the error band ${signedLen(i.marginAfter, u)}; most likely ${i.quantity ?? "value"} ${len(i.correctedValue, u)}. `
+        : `Margin to the nearest limit: before ${signedLen(i.marginBefore, u)}, after ${signedLen(i.marginAfter, u)}; corrected value ${len(i.correctedValue, u)}. `) +
         `Verdict could change: ${i.verdictCouldChange ? "YES" : "no"}.`,
     );
     doc.fontSize(8.5).fillColor("#333").text(i.basis).fillColor("black").fontSize(9.5);

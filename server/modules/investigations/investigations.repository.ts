@@ -9,6 +9,7 @@ import {
   jobSignoffs,
   jobs,
   limitItems,
+  limitTables,
   readingTools,
   readings,
   setElements,
@@ -85,18 +86,24 @@ export async function readingsWithTool(tx: DbOrTx, toolId: string, start: Date |
     .then((rows) => rows.map((r) => r.reading));
 }
 
-/** What re-judging a batch of readings needs: their jobs, the limit items of those jobs' tables, the other sides of clearances, the leaves used. */
+/**
+ * What re-judging a batch of readings needs: their jobs and limits tables with the items, the current readings of those
+ * jobs (the other sides of clearances and stations of tapers) and the tools each of them named.
+ */
 export async function rejudgeContext(tx: DbOrTx, rs: ReadingRow[]) {
   const jobIds = [...new Set(rs.map((r) => r.jobId))];
   const jobRows = jobIds.length ? await tx.select().from(jobs).where(inArray(jobs.id, jobIds)) : [];
   const tableIds = [...new Set(jobRows.map((j) => j.limitTableId))];
-  const items = tableIds.length ? await tx.select().from(limitItems).where(inArray(limitItems.limitTableId, tableIds)) : [];
+  const tables = tableIds.length ? await tx.select().from(limitTables).where(inArray(limitTables.id, tableIds)) : [];
+  const items = tableIds.length ? await tx.select().from(limitItems).where(inArray(limitItems.limitTableId, tableIds)).orderBy(asc(limitItems.seq)) : [];
   const siblings = jobIds.length
     ? await tx.select().from(readings).where(and(inArray(readings.jobId, jobIds), readingNotSuperseded)).orderBy(asc(readings.takenAt))
     : [];
-  const leafIds = [...new Set(rs.flatMap((r) => [r.goLeafId, r.noGoLeafId]).filter((x): x is string => !!x))];
-  const leaves = leafIds.length ? await tx.select().from(setElements).where(inArray(setElements.id, leafIds)) : [];
-  return { jobs: jobRows, items, siblings, leaves };
+  const ids = [...new Set([...rs, ...siblings].map((r) => r.id))];
+  const toolRows = ids.length ? await tx.select({ readingId: readingTools.readingId, toolId: readingTools.toolId }).from(readingTools).where(inArray(readingTools.readingId, ids)) : [];
+  const toolsOf = new Map<string, string[]>();
+  for (const t of toolRows) toolsOf.set(t.readingId, [...(toolsOf.get(t.readingId) ?? []), t.toolId]);
+  return { jobs: jobRows, tables, items, siblings, toolsOf };
 }
 
 export async function calibrationPointsOf(tx: DbOrTx, calibrationId: string) {

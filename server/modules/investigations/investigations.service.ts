@@ -5,7 +5,10 @@ import { recordAudit } from "../audit/audit.repository";
 import { getSettings } from "../settings/settings.service";
 import { dec, num } from "../../../shared/common/decimal";
 import { convertLength, type LengthUnit } from "../../../shared/common/units";
-import { rejudgeAffectedReading, type ReadingUnderReview, type ToolErrorPoint, type ToolErrors } from "../../../shared/investigations/affected-reading";
+import { rejudgeAffectedReading, type ReviewedReading, type ToolErrorPoint, type ToolErrors } from "../../../shared/investigations/affected-reading";
+import { toItemView } from "../limit-tables/limit-tables.service";
+import { evidenceOfRows } from "../readings/reading-evidence";
+import type { ReadingEvidence } from "../../../shared/inspection/judging";
 import { rejudgeCalibration, type StandardError } from "../../../shared/investigations/cascade";
 import type {
   CreateDisposition,
@@ -45,52 +48,38 @@ const WINDOW_RULE =
   "From the last time the tool was known good (its last calibration before the finding that left it in tolerance — as-found in tolerance, or adjusted so that its as-left is — " +
   "or, where the shop's setting says so, its last passing intermediate check), inclusive, up to the finding, inclusive. Never known good: every reading before the finding.";
 
-/** Re-judges readings taken with one tool whose error is `errors`: one item per reading. */
+/**
+ * Re-judges readings taken with one tool whose error is `errors`, under the check sheet's rules: one item per reading.
+ * Each reading goes through the pure shared function with its siblings (the other current readings of its job and
+ * index), so the same function can serve a streaming pass.
+ */
 async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolErrors, toolId: string): Promise<ItemInsert[]> {
   if (rs.length === 0) return [];
   const ctx = await repo.rejudgeContext(tx, rs);
   const jobById = new Map(ctx.jobs.map((j) => [j.id, j]));
-  const leafById = new Map(ctx.leaves.map((l) => [l.id, l]));
-  const limits = (li: { min: string | null; max: string | null; serviceableMin: string | null; serviceableMax: string | null }) => ({
-    min: n(li.min),
-    max: n(li.max),
-    serviceableMin: n(li.serviceableMin),
-    serviceableMax: n(li.serviceableMax),
-  });
+  const tableById = new Map(ctx.tables.map((t) => [t.id, t]));
+  // Evidence per table unit (a legacy feeler reading's leaves are converted into its table's unit).
+  const evidence = new Map<string, ReadingEvidence>();
+  for (const t of ctx.tables) {
+    const jobIds = new Set(ctx.jobs.filter((j) => j.limitTableId === t.id).map((j) => j.id));
+    const rows = [...rs, ...ctx.siblings].filter((r) => jobIds.has(r.jobId));
+    for (const [id, e] of await evidenceOfRows(tx, rows, t.unit)) evidence.set(id, e);
+  }
+  const reviewed = (r: repo.ReadingRow): ReviewedReading => ({ ...evidence.get(r.id)!, id: r.id, toolIds: ctx.toolsOf.get(r.id) ?? [], recordedVerdict: r.verdict });
   return rs.map((r) => {
     const job = jobById.get(r.jobId)!;
-    const tableItems = ctx.items.filter((i) => i.limitTableId === job.limitTableId);
-    const li = tableItems.find((i) => i.key === r.itemKey);
-    const otherSize = (key: string | null) => {
-      if (!key) return null;
-      const other = ctx.siblings.filter((x) => x.jobId === r.jobId && x.itemKey === key && x.index === r.index && x.size != null).at(-1);
-      return n(other?.size ?? null);
-    };
-    const review: ReadingUnderReview = {
-      unit: r.unit,
-      size: n(r.size),
-      kind: li?.kind ?? "visual",
-      itemLabel: li ? `${li.label}${li.repeat > 1 ? ` #${r.index}` : ""}` : r.itemKey,
-      sizeLimits: li && (li.kind === "journal" || li.kind === "bore") ? limits(li) : null,
-      clearances: tableItems
-        .filter((c) => c.kind === "clearance" && (c.boreKey === r.itemKey || c.journalKey === r.itemKey))
-        .map((c) => {
-          const side = c.boreKey === r.itemKey ? ("bore" as const) : ("journal" as const);
-          return { label: c.label, side, otherSize: otherSize(side === "bore" ? c.journalKey : c.boreKey), limits: limits(c) };
-        }),
-      feeler:
-        li?.kind === "feeler"
-          ? {
-              goLeaf: r.goLeafId && leafById.get(r.goLeafId) ? { id: r.goLeafId, nominal: Number(leafById.get(r.goLeafId)!.nominal) } : null,
-              noGoLeaf: r.noGoLeafId && leafById.get(r.noGoLeafId) ? { id: r.noGoLeafId, nominal: Number(leafById.get(r.noGoLeafId)!.nominal) } : null,
-              goEntered: r.goEntered,
-              noGoEntered: r.noGoEntered,
-              limits: limits(li),
-            }
-          : undefined,
-      verdict: r.verdict,
-    };
-    const j = rejudgeAffectedReading(review, errors);
+    const table = tableById.get(job.limitTableId)!;
+    const items = ctx.items.filter((i) => i.limitTableId === job.limitTableId).map(toItemView);
+    const siblings = ctx.siblings.filter((x) => x.jobId === r.jobId && x.index === r.index && x.id !== r.id).map(reviewed);
+    const j = rejudgeAffectedReading({
+      reading: reviewed(r),
+      toolId,
+      errors,
+      siblings,
+      items,
+      ctx: { tableUnit: table.unit, tableExpansionPerK: n(table.expansionPerK) },
+      label: (it, index) => `${it.label}${it.repeat > 1 ? ` no. ${index}` : ""}`,
+    });
     return {
       readingId: r.id,
       toolId,
@@ -99,6 +88,7 @@ async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolEr
       marginBefore: s(j.marginBefore),
       marginAfter: s(j.marginAfter),
       correctedValue: s(j.correctedValue),
+      rejudged: { quantity: j.quantity, measuredValue: j.measuredValue, bandLow: j.bandLow, bandHigh: j.bandHigh, verdictNow: j.verdictNow, places: j.places },
     };
   });
 }
@@ -157,7 +147,7 @@ export async function openToolInvestigation(tx: DbOrTx, deps: FindingDeps, findi
   }
 
   const rs = await repo.readingsWithTool(tx, tool.id, windowStart, finding.at);
-  const items = await rejudgeReadings(tx, rs, { unit: tool.unit, points }, tool.id);
+  const items = await rejudgeReadings(tx, rs, { unit: tool.unit, points, range: { min: Number(tool.rangeMin), max: Number(tool.rangeMax) } }, tool.id);
   const stored: StoredFinding = {
     subject: `${tool.assetTag} (${label})`,
     summary,
@@ -253,7 +243,7 @@ export async function openStandardInvestigation(
       const end = next ? new Date(next.getTime() - 1) : deps.clock.now();
       const rs = (await repo.readingsWithTool(tx, tool.id, cal.performedAt, end)).filter((r) => !seen.has(`${r.id}:${tool.id}`));
       rs.forEach((r) => seen.add(`${r.id}:${tool.id}`));
-      items.push(...(await rejudgeReadings(tx, rs, { unit: tool.unit, points: rj.toolErrorsAsLeft }, tool.id)));
+      items.push(...(await rejudgeReadings(tx, rs, { unit: tool.unit, points: rj.toolErrorsAsLeft, range: { min: Number(tool.rangeMin), max: Number(tool.rangeMax) } }, tool.id)));
     }
     const couldChangeCals = items.filter((i) => i.calibrationId && i.verdictCouldChange).length;
     const stored: StoredFinding = {
@@ -346,7 +336,11 @@ export async function getInvestigation(db: DbOrTx, id: string): Promise<Investig
     index: reading?.index ?? null,
     unit: reading?.unit ?? null,
     values: (reading?.values ?? []).map(Number),
-    measuredValue: reading ? n(reading.size) : null,
+    quantity: rejudgedOf(item).quantity ?? (reading ? "size" : null),
+    measuredValue: rejudgedOf(item).measuredValue ?? (reading ? n(reading.size) : null),
+    bandLow: rejudgedOf(item).bandLow ?? null,
+    bandHigh: rejudgedOf(item).bandHigh ?? null,
+    places: rejudgedOf(item).places ?? [],
     originalVerdict: reading?.verdict ?? (calibration ? calibration.result : null),
     correctedValue: n(item.correctedValue),
     marginBefore: n(item.marginBefore),
@@ -372,6 +366,20 @@ export async function getInvestigation(db: DbOrTx, id: string): Promise<Investig
     finding: { summary: f.summary, unit: f.unit, errors: f.errors, windowRule: f.windowRule, note: f.note, notifications: f.notifications },
     items,
   };
+}
+
+/** What an item's re-judging kept (items opened before it was kept have none). */
+function rejudgedOf(item: { rejudged: unknown }): Partial<StoredRejudged> {
+  return (item.rejudged as StoredRejudged | null) ?? {};
+}
+
+interface StoredRejudged {
+  quantity: string;
+  measuredValue: number | null;
+  bandLow: number | null;
+  bandHigh: number | null;
+  verdictNow: string;
+  places: InvestigationItem["places"];
 }
 
 function dispositionView(x: typeof dispositions.$inferSelect, byName: string): Disposition {

@@ -51,6 +51,8 @@ export const investigationItems = pgTable(
     marginBefore: numeric("margin_before"),
     marginAfter: numeric("margin_after"),
     correctedValue: numeric("corrected_value"),
+    /** The measured quantity, its span over the error band and every place re-judged (see shared/investigations/affected-reading). */
+    rejudged: jsonb("rejudged"),
   },
   (t) => [
     index("investigation_items_investigation_idx").on(t.investigationId),

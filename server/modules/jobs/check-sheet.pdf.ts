@@ -1,5 +1,6 @@
-import { formatLength, type LengthUnit } from "../../../shared/common/units";
-import { formatClearance } from "../../../shared/inspection/sizes";
+import type { LengthUnit } from "../../../shared/common/units";
+import { clearanceText, JUDGING_RULES_VERSION as RULES, lengthText, type PlaceView } from "../../../shared/inspection/judging";
+import { formatExactLength } from "../../../shared/investigations/format";
 import { FLAG_LABELS, type ReadingFlag } from "../../../shared/readings/readings.schemas";
 import { STATUS_LABELS, type ToolStatus } from "../../../shared/tools/tool-status";
 import type { CheckSheet, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
@@ -9,34 +10,85 @@ import { newPdf, printedInstant } from "../../platform/pdf";
 const when = printedInstant;
 
 const COLS = [
-  { key: "item", title: "Item", w: 118 },
-  { key: "no", title: "No.", w: 22 },
-  { key: "values", title: "Values", w: 92 },
-  { key: "size", title: "Size / clearance", w: 86 },
-  { key: "verdict", title: "Verdict", w: 88 },
-  { key: "tools", title: "Tools", w: 62 },
-  { key: "who", title: "Measured by", w: 62 },
+  { key: "item", title: "Item", w: 100 },
+  { key: "no", title: "No.", w: 20 },
+  { key: "values", title: "Readings", w: 104 },
+  { key: "size", title: "Size / fit / form", w: 92 },
+  { key: "verdict", title: "Verdict (current rules)", w: 120 },
+  { key: "tools", title: "Tools", w: 48 },
+  { key: "who", title: "Measured by", w: 56 },
 ] as const;
+
+const leaves = (st: { leaves: { label: string }[]; thickness: number } | null, unit: LengthUnit) =>
+  st ? `${st.leaves.map((l) => l.label).join(" + ")}${st.leaves.length > 1 ? " stack" : ""} (${lengthText(st.thickness, unit)})` : "—";
+
+/** The values cell and the result cell of one place, in words: every reading, both fits, form, 20 °C, leaves. */
+export function placeCells(place: PlaceView, unit: LengthUnit): { values: string; result: string } {
+  switch (place.kind) {
+    case "size": {
+      const values = place.directions
+        .map((d) => `${d.direction}: ${formatExactLength(d.raw, d.rawUnit)} ${d.rawUnit}${d.beyond ? ` — ${lengthText(d.beyond.by, unit)} ${d.beyond.side === "max" ? "over" : "under"} ${d.beyond.side}` : ""}`)
+        .join("\n");
+      const lines = [`size ${lengthText(place.rawSize, unit)} ${unit}`];
+      if (place.thermal) lines.push(`at 20 °C ${lengthText(place.size, unit)} (${place.thermal.partTemperatureC} °C, corr. ${lengthText(place.thermal.correction, unit)})`);
+      lines.push(
+        `OOR ${lengthText(place.outOfRound, unit)}${place.outOfRoundLimit != null ? ` (max ${lengthText(place.outOfRoundLimit, unit)}${place.outOfRoundVerdict === "outside_limits" ? ", over" : ""})` : ""}`,
+      );
+      return { values, result: lines.join("\n") };
+    }
+    case "fit": {
+      const word = place.basis === "radial" ? " radial" : "";
+      const side = (name: string, s: typeof place.loosest) =>
+        `${name} ${clearanceText(s.value, unit)}${word}${place.basis === "radial" ? ` (${lengthText(s.diametral, unit)} diam.)` : ""}${s.verdict === "outside_limits" ? " — OUT" : ""}`;
+      return {
+        values: `loosest: ${lengthText(place.loosest.boreValue, unit)} − ${lengthText(place.loosest.journalValue, unit)}\ntightest: ${lengthText(place.tightest.boreValue, unit)} − ${lengthText(place.tightest.journalValue, unit)}`,
+        result: `${side("loosest", place.loosest)}\n${side("tightest", place.tightest)}`,
+      };
+    }
+    case "taper":
+      return {
+        values: place.directions.map((d) => `${d.direction}: ${lengthText(d.a, unit)} − ${lengthText(d.b, unit)}`).join("\n"),
+        result: `taper ${lengthText(place.taper, unit)}${place.limit != null ? ` (max ${lengthText(place.limit, unit)})` : ""}`,
+      };
+    case "feeler":
+      if (place.mode === "measured_gap") return { values: `thickest to enter: ${leaves(place.gap, unit)}`, result: `measured gap ${place.gapLow == null ? "—" : lengthText(place.gapLow, unit)}` };
+      return {
+        values: `go ${leaves(place.go, unit)} ${place.goEntered ? "entered" : "did not enter"}\nno-go ${leaves(place.noGo, unit)} ${place.noGoEntered ? "entered" : "did not enter"}`,
+        result: `gap ${place.gapLow == null ? "not shown to reach any leaf" : `at least ${lengthText(place.gapLow, unit)}`}${place.gapHigh == null ? "" : `, under ${lengthText(place.gapHigh, unit)}`}`,
+      };
+    default:
+      return { values: "", result: "" };
+  }
+}
+
+/** Why these leaves, short enough for a cell: the measured gap's reason in full, otherwise how the leaves were chosen. */
+function feelerWhy(place: Extract<PlaceView, { kind: "feeler" }>): string {
+  if (place.mode === "measured_gap") return place.why ?? "";
+  if (place.why?.startsWith("Recorded before")) return "Leaves as recorded under rules 1 (go under the minimum, no-go over the maximum).";
+  return "Go: thinnest at or above the minimum; no-go: thickest at or below the maximum (calibrated thicknesses).";
+}
 
 function rowCells(item: SheetItem, row: SheetRow, unit: LengthUnit, tz: string): Record<(typeof COLS)[number]["key"], string> {
   const r = row.reading;
-  let values = "";
-  let size = "";
-  if (item.kind === "clearance") size = row.clearance == null ? "pending" : formatClearance(row.clearance, unit);
-  else if (r) {
-    if (r.values.length) values = `${r.values.map((v) => String(v)).join(" / ")} ${r.unit}`;
-    if (r.size != null) size = `${formatLength(r.size, unit)} ${unit}${r.outOfRound != null ? `\nOOR ${formatLength(r.outOfRound, unit)}` : ""}`;
-    if (r.correction) size += `\nat 20 °C ${formatLength(r.correction.correctedSize, unit)}`;
-    if (r.goLeaf && r.noGoLeaf) values = `go ${r.goLeaf.label} ${r.goEntered ? "entered" : "did not enter"}; no-go ${r.noGoLeaf.label} ${r.noGoEntered ? "entered" : "did not enter"}`;
-    if (r.visualResult) values = r.finding ?? "";
-  }
+  let { values, result } = placeCells(row.place, unit);
+  if (row.place.kind === "pending") result = item.kind === "clearance" || item.kind === "taper" ? "pending" : "";
+  if (r?.visualResult) values = r.finding ?? "";
+  if (row.place.kind === "feeler" && row.place.why) values += `\n${feelerWhy(row.place)}`;
   const flags = row.flags.map((f) => FLAG_LABELS[f as ReadingFlag] ?? f).join("; ");
+  const verdict = [
+    row.verdictText,
+    row.judgedDifferently && r ? `Recorded ${r.recordedVerdict === "within_limits" ? "within" : "outside"} limits under earlier rules; judged again under rules v${RULES}.` : "",
+    row.place.kind === "size" && row.place.thermal ? row.place.thermal.text : "",
+    flags ? `! ${flags}` : "",
+    r?.supersedeReason ? `Corrected: ${r.supersedeReason}` : "",
+    r?.overrideReason ? `Override: ${r.overrideReason}` : "",
+  ].filter(Boolean);
   return {
-    item: item.label,
+    item: `${item.label}${item.kind === "clearance" && item.radial ? " (radial)" : ""}`,
     no: String(row.index),
     values,
-    size,
-    verdict: `${row.verdictText}${flags ? `\n! ${flags}` : ""}${r?.supersedeReason ? `\nCorrected: ${r.supersedeReason}` : ""}${r?.overrideReason ? `\nOverride: ${r.overrideReason}` : ""}`,
+    size: result,
+    verdict: verdict.join("\n"),
     tools: r ? r.tools.map((t) => t.assetTag).join("\n") : "",
     who: r ? `${r.takenBy?.name ?? ""}\n${when(r.takenAt, tz)}` : "",
   };
@@ -57,6 +109,13 @@ export function writeCheckSheetPdf(sheet: CheckSheet, printedAt: Date, tz: strin
   doc.text(`Work order: ${sheet.workOrder ?? "—"}    Opened ${when(sheet.openedAt, tz)} by ${sheet.openedBy?.name ?? "—"}`);
   doc.text(`Limits: ${sheet.limitTable.name}, version ${sheet.limitTable.version} — ${sheet.limitTable.sourceDocument}, rev. ${sheet.limitTable.sourceRevision} (${unit}). Verify against the manufacturer's current data.`);
   doc.text(`Printed ${when(printedAt.toISOString(), tz)} (${tz}). Status: ${sheet.locked ? "signed" : sheet.changedSinceSignoff ? "corrected since sign-off — needs signing again" : "open"}.`);
+  doc.text(
+    `Verdicts under the current judging rules (v${RULES}): every reading against the size limits; clearances at their loosest (against the maximum) and tightest (against the minimum), radial where the table says so; ` +
+      "out-of-round and taper where limited; lengths at 20 °C where a part temperature and an expansion coefficient are known; feeler leaves inside the limits.",
+  );
+  if (sheet.summary.judgedDifferently > 0) {
+    doc.fillColor("#a11").text(`${sheet.summary.judgedDifferently} reading(s) were recorded with another verdict than the current rules give; each is marked. The readings are kept as recorded.`).fillColor("black");
+  }
   doc.moveDown(0.6);
 
   const header = () => {
@@ -89,6 +148,8 @@ export function writeCheckSheetPdf(sheet: CheckSheet, printedAt: Date, tz: strin
       if (doc.y + h > bottom()) {
         doc.addPage();
         header();
+        // The header prints at its own size; the row is drawn at the size it was measured at.
+        doc.fontSize(7.5);
       }
       const y = doc.y;
       let x = left;

@@ -5,11 +5,12 @@ import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
 import { toItemView } from "../limit-tables/limit-tables.service";
 import { readingsRepository } from "../readings/readings.repository";
 import { suspectReadingIds } from "../investigations/investigations.hooks";
-import { clearanceAt, slotKey, temperatureCorrection, verdictText, type SheetReading } from "../../../shared/inspection/check-sheet";
-import { judgeAgainstLimits } from "../../../shared/inspection/sizes";
+import { evidenceOfRows } from "../readings/reading-evidence";
+import { JUDGING_RULES_VERSION, judgeReading, judgeRow, slotKey, type Judged, type JudgingContext, type ReadingEvidence } from "../../../shared/inspection/judging";
 import type { CheckSheet, JobSummary, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
-import type { ReadingView } from "../../../shared/readings/readings.schemas";
+import type { LeafView, ReadingView } from "../../../shared/readings/readings.schemas";
 import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
+import { stackAsLeaf, type LeafStack } from "../../../shared/inspection/feeler";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 import type { MaterialKey } from "../../../shared/common/units";
 
@@ -35,44 +36,48 @@ export function toJobSummary(r: JobSummaryRow): JobSummary {
 
 type ReadingRows = Awaited<ReturnType<typeof readingsRepository.ofJob>>;
 
-/** Readings of a job as the sheet shows them; the verdict wording is worked out against the item's limits. */
-async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, LimitItemView>): Promise<ReadingView[]> {
+const stackView = (st: LeafStack | null): LeafView | null => (st ? stackAsLeaf(st) : null);
+
+/** Readings of a job as the sheet shows them: as recorded, and judged under the current rules. */
+async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, LimitItemView>, ctx: JudgingContext): Promise<{ views: ReadingView[]; evidence: Map<string, ReadingEvidence> }> {
   const ids = rows.map((x) => x.r.id);
   const toolRows = await readingsRepository.toolsOfReadings(db, ids);
   const suspect = await suspectReadingIds(db, ids);
+  const evidence = await evidenceOfRows(db, rows.map((x) => x.r), ctx.tableUnit);
+  const judgedAt = new Map((await readingsRepository.judgementsOf(db, ids, JUDGING_RULES_VERSION)).map((j) => [j.readingId, j.judgedAt.toISOString()]));
   const toolsBy = new Map<string, ReadingView["tools"]>();
   for (const t of toolRows) {
     const list = toolsBy.get(t.readingId) ?? [];
     list.push({ assetTag: t.assetTag, description: t.description, kind: t.kind, unit: t.unit, statusAtReading: t.statusAtReading as ToolStatus, dueAtReading: t.dueAtReading });
     toolsBy.set(t.readingId, list);
   }
-  return rows.map(({ r, takerName, overriderName, goLeaf, noGoLeaf, supersededById }) => {
+  const views = rows.map(({ r, takerName, overriderName, supersededById }): ReadingView => {
     const item = items.get(r.itemKey);
-    const size = n(r.size);
-    const judgement = item && size != null && (item.kind === "journal" || item.kind === "bore") ? judgeAgainstLimits({ value: r.size!, ...item }) : null;
+    const ev = evidence.get(r.id)!;
+    const judged: Judged | null = item && item.kind !== "clearance" && item.kind !== "taper" ? judgeReading(item, ev, ctx) : null;
+    const place = judged?.view ?? { kind: "pending" as const, itemKey: r.itemKey, index: r.index, verdict: "pending" as const, band: null, margin: null, text: `The item "${r.itemKey}" is not on this table` };
     const flags = [...r.flags, ...(suspect.has(r.id) ? ["suspect"] : [])];
+    const f = ev.feeler ?? null;
     return {
       id: r.id,
       itemKey: r.itemKey,
       index: r.index,
       values: r.values.map(Number),
       unit: r.unit,
-      size,
+      size: n(r.size),
       outOfRound: n(r.outOfRound),
-      correction: size == null ? null : temperatureCorrection({ size: r.size!, partMaterial: r.partMaterial as MaterialKey | null, temperatureC: r.temperatureC, toolTemperatureC: r.toolTemperatureC }),
       goEntered: r.goEntered,
       noGoEntered: r.noGoEntered,
-      goLeaf: goLeaf?.id ? { id: goLeaf.id, label: goLeaf.label, thickness: Number(goLeaf.nominal) } : null,
-      noGoLeaf: noGoLeaf?.id ? { id: noGoLeaf.id, label: noGoLeaf.label, thickness: Number(noGoLeaf.nominal) } : null,
+      goLeaf: stackView(f?.go ?? null),
+      noGoLeaf: stackView(f?.noGo ?? null),
+      feeler: f,
       visualResult: r.visualResult,
       finding: r.finding,
-      verdict: r.verdict,
-      verdictText:
-        r.visualResult != null
-          ? r.visualResult === "serviceable" ? "Serviceable" : "Reject"
-          : r.goEntered != null
-            ? r.verdict === "within_limits" ? "Within limits (go entered, no-go did not)" : "Outside limits"
-            : item ? verdictText(item, judgement, r.verdict) : r.verdict,
+      recordedVerdict: r.verdict,
+      verdict: place.verdict,
+      verdictText: place.text,
+      place,
+      judgedAt: judgedAt.get(r.id) ?? null,
       flags,
       tools: toolsBy.get(r.id) ?? [],
       takenBy: r.takenBy && takerName ? { id: r.takenBy, name: takerName } : null,
@@ -87,9 +92,23 @@ async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, Li
       overrideBy: r.overrideBy && overriderName ? { id: r.overrideBy, name: overriderName } : null,
     };
   });
+  return { views, evidence };
 }
 
-/** The check sheet of a job: every item × index with its current reading, size, clearance, verdict, flags and tools. */
+/** The judgement object of earlier answers: verdict, band, least margin and the deciding limits. */
+function judgementOf(item: LimitItemView, place: SheetRow["place"]): SheetRow["judgement"] {
+  if (place.verdict === "pending" || place.band == null) return null;
+  const lo = [item.min, item.serviceableMin].filter((x): x is number => x != null);
+  const hi = [item.max, item.serviceableMax].filter((x): x is number => x != null);
+  return {
+    verdict: place.verdict,
+    band: place.band,
+    marginToNearestLimit: place.margin ?? 0,
+    decidingLimits: { min: lo.length ? Math.min(...lo) : null, max: hi.length ? Math.max(...hi) : null },
+  };
+}
+
+/** The check sheet of a job: every item × index with its current reading, judged under the current rules, with flags and tools. */
 export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckSheet> {
   const summary = await jobsRepository.summary(db, jobId);
   if (!summary) throw notFound("job", jobId);
@@ -100,7 +119,8 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
   const signoffRows = await jobsRepository.signoffs(db, jobId);
   const items = itemRows.map(toItemView);
   const byKey = new Map(items.map((i) => [i.key, i]));
-  const views = await readingViews(db, readingRows, byKey);
+  const ctx: JudgingContext = { tableUnit: table.table.unit, tableExpansionPerK: n(table.table.expansionPerK) };
+  const { views, evidence } = await readingViews(db, readingRows, byKey, ctx);
 
   const current = new Map<string, ReadingView>();
   const history = new Map<string, ReadingView[]>();
@@ -109,22 +129,38 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
     if (v.supersededById) history.set(k, [...(history.get(k) ?? []), v]);
     else current.set(k, v);
   }
-  const find = (itemKey: string, index: number): SheetReading | undefined => current.get(slotKey(itemKey, index));
+  const evidenceAt = (itemKey: string, index: number) => {
+    const v = current.get(slotKey(itemKey, index));
+    return v ? evidence.get(v.id) : undefined;
+  };
 
   const missing: CheckSheet["summary"]["missing"] = [];
   let places = 0;
   let outside = 0;
   let flagged = 0;
+  let judgedDifferently = 0;
   const sheetItems: SheetItem[] = items.map((item) => {
     const rows: SheetRow[] = [];
     for (let index = 1; index <= item.repeat; index++) {
       const k = slotKey(item.key, index);
-      if (item.kind === "clearance") {
-        const c = clearanceAt(item, index, find);
-        const sides = [item.boreKey && current.get(slotKey(item.boreKey, index)), item.journalKey && current.get(slotKey(item.journalKey, index))];
+      if (item.kind === "clearance" || item.kind === "taper") {
+        const place = judgeRow(items, item, index, evidenceAt, ctx).view;
+        const sideKeys = item.kind === "clearance" ? [item.boreKey, item.journalKey] : (item.stationKeys ?? []);
+        const sides = sideKeys.map((key) => (key ? current.get(slotKey(key, index)) : undefined));
         const flags = [...new Set(sides.flatMap((s) => (s ? s.flags : [])))];
-        rows.push({ index, reading: null, history: [], clearance: c.clearance, judgement: c.judgement, verdict: c.verdict, verdictText: verdictText(item, c.judgement, c.verdict), flags });
-        if (c.verdict === "outside_limits") outside++;
+        rows.push({
+          index,
+          reading: null,
+          history: [],
+          clearance: place.kind === "fit" ? place.loosest.value : null,
+          judgement: judgementOf(item, place),
+          verdict: place.verdict,
+          verdictText: place.text,
+          place,
+          judgedDifferently: false,
+          flags,
+        });
+        if (place.verdict === "outside_limits") outside++;
         continue;
       }
       places++;
@@ -132,15 +168,19 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
       if (!reading) missing.push({ itemKey: item.key, index, label: item.label });
       if (reading?.verdict === "outside_limits") outside++;
       if (reading && reading.flags.length) flagged++;
-      const judgement = reading?.size != null ? judgeAgainstLimits({ value: reading.size, ...item }) : null;
+      const differs = !!reading && reading.recordedVerdict !== "pending" && reading.verdict !== "pending" && reading.recordedVerdict !== reading.verdict;
+      if (differs) judgedDifferently++;
+      const place = reading?.place ?? { kind: "pending" as const, itemKey: item.key, index, verdict: "pending" as const, band: null, margin: null, text: "Pending" };
       rows.push({
         index,
         reading,
         history: history.get(k) ?? [],
         clearance: null,
-        judgement,
-        verdict: reading?.verdict ?? "pending",
-        verdictText: reading?.verdictText ?? "Pending",
+        judgement: judgementOf(item, place),
+        verdict: place.verdict,
+        verdictText: place.text,
+        place,
+        judgedDifferently: differs,
         flags: reading?.flags ?? [],
       });
     }
@@ -178,12 +218,13 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
       version: table.table.version,
       isDemo: table.table.isDemo,
       supersededById: table.supersededById ?? null,
+      expansionPerK: n(table.table.expansionPerK),
     },
     items: sheetItems,
     signoffs,
     locked: summary.signed,
     changedSinceSignoff,
-    summary: { places, recorded: places - missing.length, missing, outside, flagged },
+    summary: { places, recorded: places - missing.length, missing, outside, flagged, judgedDifferently, rulesVersion: JUDGING_RULES_VERSION },
     tools: [...toolsUsed.values()].sort((a, b) => a.assetTag.localeCompare(b.assetTag)),
   };
 }

@@ -24,6 +24,9 @@ export function toItemView(r: LimitItemRow): LimitItemView {
     repeat: r.repeat,
     toolKinds: r.toolKinds ?? null,
     radial: r.radial,
+    outOfRoundMax: n(r.outOfRoundMax),
+    stationKeys: r.stationAKey && r.stationBKey ? [r.stationAKey, r.stationBKey] : null,
+    expansionPerK: n(r.expansionPerK),
     note: r.note,
   };
 }
@@ -41,6 +44,7 @@ export function toSummary(r: LimitTableSummaryRow): LimitTableSummary {
     supersedesId: t.supersedesId,
     supersededById: r.supersededById ?? null,
     isDemo: t.isDemo,
+    expansionPerK: n(t.expansionPerK),
     createdAt: t.createdAt.toISOString(),
     createdBy: t.createdBy && r.creatorName ? { id: t.createdBy, name: r.creatorName } : null,
     itemCount: Number(r.itemCount),
@@ -67,6 +71,10 @@ function itemRows(input: CreateLimitTable) {
     repeat: it.repeat,
     toolKinds: it.toolKinds ?? null,
     radial: it.radial,
+    outOfRoundMax: text(it.outOfRoundMax),
+    stationAKey: it.stationKeys?.[0] ?? null,
+    stationBKey: it.stationKeys?.[1] ?? null,
+    expansionPerK: text(it.expansionPerK),
     note: it.note ?? null,
   }));
 }
@@ -85,7 +93,7 @@ export function limitTablesService({ db, clock }: { db: Db; clock: Clock }) {
       const id = await db.transaction(async (tx) => {
         const row = await limitTablesRepository.insert(
           tx,
-          { name: input.name, engineModel: input.engineModel, unit: input.unit, sourceDocument: input.sourceDocument, sourceRevision: input.sourceRevision, isDemo: input.isDemo, createdBy: actorId, createdAt: clock.now() },
+          { name: input.name, engineModel: input.engineModel, unit: input.unit, sourceDocument: input.sourceDocument, sourceRevision: input.sourceRevision, isDemo: input.isDemo, expansionPerK: text(input.expansionPerK), createdBy: actorId, createdAt: clock.now() },
           itemRows(input),
         );
         await recordAudit(tx, { actorId, action: "limit_table.create", entityType: "limit_table", entityId: row.id, after: input, at: clock.now() });
@@ -110,6 +118,7 @@ export function limitTablesService({ db, clock }: { db: Db; clock: Clock }) {
             sourceDocument: input.sourceDocument,
             sourceRevision: input.sourceRevision,
             isDemo: input.isDemo,
+            expansionPerK: text(input.expansionPerK),
             version: Number(prev.version) + 1,
             supersedesId: previousId,
             createdBy: actorId,

@@ -1,13 +1,16 @@
 import { and, asc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
-import { readings, readingTools } from "./readings.table";
+import { readings, readingTools, readingJudgements } from "./readings.table";
 import { tools, setElements } from "../tools/tools.table";
 import { families } from "../families/families.table";
 import { calibrationPoints } from "../calibrations/calibrations.table";
 import { users } from "../users/users.table";
+import { jobs } from "../jobs/jobs.table";
+import { limitTables } from "../limit-tables/limit-tables.table";
 
 export type ReadingRow = typeof readings.$inferSelect;
+export type ReadingJudgementInsert = typeof readingJudgements.$inferInsert;
 export type ReadingInsert = typeof readings.$inferInsert;
 
 const taker = alias(users, "taker");
@@ -100,5 +103,50 @@ export const readingsRepository = {
           .innerJoin(families, eq(families.id, tools.familyId))
           .where(inArray(readingTools.readingId, readingIds))
           .orderBy(asc(readingTools.position))
+      : Promise.resolve([]),
+
+  /** Records a reading's judgement under a rules version; a second one for the same version is ignored (idempotent). */
+  async insertJudgements(db: DbOrTx, rows: ReadingJudgementInsert[]) {
+    for (let i = 0; i < rows.length; i += 500) await db.insert(readingJudgements).values(rows.slice(i, i + 500)).onConflictDoNothing({ target: [readingJudgements.readingId, readingJudgements.rulesVersion] });
+  },
+
+  /** Judgements of some readings under one rules version. */
+  judgementsOf: (db: DbOrTx, readingIds: string[], rulesVersion: number) =>
+    readingIds.length
+      ? db.select().from(readingJudgements).where(and(inArray(readingJudgements.readingId, readingIds), eq(readingJudgements.rulesVersion, rulesVersion)))
+      : Promise.resolve([]),
+
+  /**
+   * Readings not yet judged under a rules version, a batch at a time (the unique index answers the anti-join). The outer
+   * column is spelled out: drizzle leaves it unqualified in one-table queries, and inside the subquery it would bind there.
+   */
+  unjudged: (db: DbOrTx, rulesVersion: number, limit: number) =>
+    db
+      .select()
+      .from(readings)
+      .where(sql`not exists (select 1 from reading_judgements j where j.reading_id = "readings"."id" and j.rules_version = ${rulesVersion})`)
+      .orderBy(asc(readings.id))
+      .limit(limit),
+
+  /** Current (not superseded) readings of some jobs, for the places a reading feeds. */
+  currentOfJobs: (db: DbOrTx, jobIds: string[]) =>
+    jobIds.length
+      ? db
+          .select({ r: readings })
+          .from(readings)
+          .leftJoin(successor, eq(successor.supersedesId, readings.id))
+          .where(and(inArray(readings.jobId, jobIds), isNull(successor.id)))
+          .orderBy(asc(readings.takenAt))
+          .then((rows) => rows.map((x) => x.r))
+      : Promise.resolve([]),
+
+  /** The limits table (unit, expansion coefficient) of each of some jobs. */
+  tablesOfJobs: (db: DbOrTx, jobIds: string[]) =>
+    jobIds.length
+      ? db
+          .select({ jobId: jobs.id, tableId: limitTables.id, unit: limitTables.unit, expansionPerK: limitTables.expansionPerK })
+          .from(jobs)
+          .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
+          .where(inArray(jobs.id, jobIds))
       : Promise.resolve([]),
 };

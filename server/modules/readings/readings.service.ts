@@ -13,10 +13,12 @@ import { studyFlagsForReading } from "../studies/studies.service";
 import { can } from "../../../shared/auth/roles";
 import { num } from "../../../shared/common/decimal";
 import { convertLength, type LengthUnit } from "../../../shared/common/units";
-import { selectFeelerLeaves, judgeFeeler, leafThickness } from "../../../shared/inspection/feeler";
-import { clearanceAt, judgeSizeReading, resolutionFlag, toTableUnit, withinToolRange, type SheetReading } from "../../../shared/inspection/check-sheet";
-import type { CreateReading, ReadingFlag, ReadingResult } from "../../../shared/readings/readings.schemas";
+import { chooseFeelerLeaves, stackAsLeaf, stackFrom, usableLeaves, type FeelerChoice, type FeelerEvidence, type FeelerLeaf, type LeafStack } from "../../../shared/inspection/feeler";
+import { resolutionFlag, toTableUnit, withinToolRange } from "../../../shared/inspection/check-sheet";
+import { dependentItems, judgeReading, judgeRow, JUDGING_RULES_VERSION, lengthText, type JudgingContext, type ReadingEvidence } from "../../../shared/inspection/judging";
+import type { CreateReading, LeafView, ReadingFlag, ReadingResult } from "../../../shared/readings/readings.schemas";
 import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
+import { evidenceOfRow } from "./reading-evidence";
 
 type ToolHit = Awaited<ReturnType<typeof readingsRepository.toolsByTags>>[number];
 
@@ -45,19 +47,18 @@ interface Place {
 export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIME_ZONE: string } }) {
   const { db, clock } = deps;
 
-  /** Leaves of a set for a feeler item: go (must enter) and no-go (must not), in the table's unit. */
+  /** The leaves of a set for a feeler item, in the table's unit, and the go and no-go chosen inside the limits. */
   async function feelerLeaves(tx: Db | Tx, item: LimitItemView, tableUnit: LengthUnit, set: ToolHit, status: ToolStatusView | undefined, at: Date) {
     const raw = await readingsRepository.leavesOf(tx, set.tool.id, status?.lastCalibration?.id ?? null, at);
-    const leaves = raw.map((l) => ({
+    const leaves: FeelerLeaf[] = raw.map((l) => ({
       id: l.id,
       label: l.label,
       nominal: num(convertLength(l.nominal, set.tool.unit, tableUnit)),
       calibratedThickness: l.calibrated == null ? null : num(convertLength(l.calibrated, set.tool.unit, tableUnit)),
       rejected: l.rejected,
     }));
-    const { goLeaf, noGoLeaf } = selectFeelerLeaves({ leaves, min: item.min!, max: item.max! });
-    const view = (l: (typeof leaves)[number] | null) => (l ? { id: l.id, label: l.label, thickness: leafThickness(l) } : null);
-    return { goLeaf: view(goLeaf), noGoLeaf: view(noGoLeaf) };
+    const choice = chooseFeelerLeaves({ leaves, min: item.min!, max: item.max!, fmt: (v) => lengthText(v, tableUnit) });
+    return { choice, usable: usableLeaves(leaves) };
   }
 
   async function loadItem(tx: Db | Tx, limitTableId: string, itemKey: string) {
@@ -81,6 +82,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     const item = toItemView(itemRow as LimitItemRow);
     if (place.index > item.repeat) badInput(["index"], `${item.label} has ${item.repeat} place${item.repeat === 1 ? "" : "s"}; there is no number ${place.index}.`);
     if (item.kind === "clearance") badInput(["itemKey"], "A clearance is worked out from its bore and journal readings; record those instead.");
+    if (item.kind === "taper") badInput(["itemKey"], "A taper is worked out from the readings at its two stations; record those instead.");
 
     // What each kind of item needs (beyond the shared schema, which cannot know the item).
     if (item.kind === "journal" || item.kind === "bore") {
@@ -88,8 +90,6 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       if (values.length < item.directions) badInput(["values"], `${item.label} needs a value in each of ${item.directions} directions; ${values.length} given.`);
       if (input.toolAssetTags.length === 0) badInput(["toolAssetTags"], "Name the tool (or tools) the values were read with.");
     } else if (item.kind === "feeler") {
-      if (input.goEntered == null) badInput(["goEntered"], "Say whether the go leaf entered.");
-      if (input.noGoEntered == null) badInput(["noGoEntered"], "Say whether the no-go leaf entered.");
       if (input.toolAssetTags.length === 0) badInput(["toolAssetTags"], "Name the feeler set used.");
     } else if (item.kind === "visual") {
       if (!input.visualResult) badInput(["visualResult"], "Say whether the part is serviceable or rejected.");
@@ -188,59 +188,90 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       overrideBy: override?.by ?? null,
       finding: input.finding ?? null,
     };
-    let result: Omit<ReadingResult, "id" | "flags">;
-    let values: Omit<ReadingInsert, "flags">;
+    const tableRow = (await limitTablesRepository.summary(tx, summary.job.limitTableId))!.table;
+    const jctx: JudgingContext = { tableUnit, tableExpansionPerK: tableRow.expansionPerK == null ? null : Number(tableRow.expansionPerK) };
+    let values: Omit<ReadingInsert, "flags" | "verdict">;
+    let evidence: ReadingEvidence;
+    const result: Partial<ReadingResult> = {};
 
     if (item.kind === "journal" || item.kind === "bore") {
       const rt = readTool!;
       const typed = input.values!;
       const inTable = toTableUnit(typed, rt.tool.unit, tableUnit);
-      const out = judgeSizeReading(item, inTable);
+      const lo = inTable.reduce((a, b) => (b.lt(a) ? b : a));
+      const hi = inTable.reduce((a, b) => (b.gt(a) ? b : a));
+      const rawSize = item.kind === "journal" ? lo : hi;
       if (!withinToolRange(typed, rt.tool.rangeMin, rt.tool.rangeMax)) flags.add("outside_tool_range");
       for (const h of hits.filter((x) => TRANSFER_KINDS.has(x.kind))) {
-        if (!withinToolRange([convertLength(out.size, tableUnit, h.tool.unit)], h.tool.rangeMin, h.tool.rangeMax)) flags.add("outside_tool_range");
+        if (!withinToolRange([convertLength(rawSize, tableUnit, h.tool.unit)], h.tool.rangeMin, h.tool.rangeMax)) flags.add("outside_tool_range");
       }
       if (resolutionFlag(item, rt.tool.resolution, rt.tool.unit, tableUnit)) flags.add("resolution_too_coarse");
-      // Stored exactly: the values as typed (in the read tool's unit), the size in the table's unit.
-      values = { ...base, values: typed.map(String), unit: rt.tool.unit, size: String(out.size), outOfRound: String(out.outOfRound), verdict: out.judgement.verdict };
-      result = { size: out.size, outOfRound: out.outOfRound, verdict: out.judgement.verdict };
+      // Stored exactly: the values as typed (in the read tool's unit), the size and out-of-round as read in the table's unit.
+      values = { ...base, values: typed.map(String), unit: rt.tool.unit, size: rawSize.toString(), outOfRound: hi.minus(lo).toString() };
+      evidence = { itemKey: item.key, index: place.index, unit: rt.tool.unit, values: typed, temperatureC: input.temperatureC, toolTemperatureC: input.toolTemperatureC, partMaterial: input.partMaterial };
+      result.size = num(rawSize);
+      result.outOfRound = num(hi.minus(lo));
     } else if (item.kind === "feeler") {
-      const leaves = await feelerLeaves(tx, item, tableUnit, feelerSet!, statuses.get(feelerSet!.tool.id), at);
-      if (!leaves.goLeaf || !leaves.noGoLeaf) {
-        throw refused("feeler_leaf_missing", `${feelerSet!.tool.assetTag} has no serviceable leaf ${!leaves.goLeaf ? "thinner than the minimum" : "thicker than the maximum"} of ${item.label}; use another set.`);
-      }
-      const j = judgeFeeler({ goEntered: input.goEntered!, noGoEntered: input.noGoEntered! });
-      values = { ...base, values: [], unit: tableUnit, goEntered: input.goEntered!, noGoEntered: input.noGoEntered!, goLeafId: leaves.goLeaf.id, noGoLeafId: leaves.noGoLeaf.id, verdict: j.verdict, finding: input.finding ?? j.note ?? null };
-      result = { goLeaf: leaves.goLeaf, noGoLeaf: leaves.noGoLeaf, verdict: j.verdict };
+      const { choice, usable } = await feelerLeaves(tx, item, tableUnit, feelerSet!, statuses.get(feelerSet!.tool.id), at);
+      const check = feelerCheckFrom(item, feelerSet!.tool.assetTag, choice, usable, input);
+      const first = (s: LeafStack | null) => s?.leaves[0]?.id ?? null;
+      values = {
+        ...base,
+        values: [],
+        unit: tableUnit,
+        goEntered: check.goEntered,
+        noGoEntered: check.noGoEntered,
+        goLeafId: first(check.go),
+        noGoLeafId: first(check.noGo),
+        feelerCheck: { mode: check.mode, go: check.go, noGo: check.noGo, gap: check.gap, why: check.why },
+      };
+      evidence = { itemKey: item.key, index: place.index, unit: tableUnit, values: [], feeler: check };
+      if (check.mode === "go_no_go") {
+        result.goLeaf = leafView(check.go!);
+        result.noGoLeaf = leafView(check.noGo!);
+      } else result.measuredGap = leafView(check.gap!);
     } else {
-      const verdict = input.visualResult === "serviceable" ? "within_limits" : "outside_limits";
-      values = { ...base, values: [], unit: tableUnit, visualResult: input.visualResult!, verdict };
-      result = { verdict };
+      values = { ...base, values: [], unit: tableUnit, visualResult: input.visualResult! };
+      evidence = { itemKey: item.key, index: place.index, unit: tableUnit, values: [], visualResult: input.visualResult, finding: input.finding };
     }
 
     if (item.kind === "journal" || item.kind === "bore") for (const f of await studyFlagsForReading(tx, { limitTableId: summary.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) })) flags.add(f);
+    const judged = judgeReading(item, evidence, jctx);
+    const verdict = judged.view.verdict;
     const flagList = [...flags];
     const row = await readingsRepository.insert(
       tx,
-      { ...values, flags: flagList },
+      { ...values, verdict, flags: flagList },
       hits.map((h, i) => {
         const s = statuses.get(h.tool.id)!;
         return { toolId: h.tool.id, position: i + 1, statusAtReading: s.status, dueAtReading: s.dueAt, takenAt: at };
       }),
     );
+    await readingsRepository.insertJudgements(tx, [{ readingId: row.id, rulesVersion: JUDGING_RULES_VERSION, verdict, band: judged.view.band, text: judged.view.text, detail: judged.view, judgedAt: at }]);
 
-    // The clearance this reading completes, if its partner is on the sheet.
-    const clearanceItem = items.map(toItemView).find((c) => c.kind === "clearance" && (c.boreKey === item.key || c.journalKey === item.key) && place.index <= c.repeat);
-    if (clearanceItem && row.size != null) {
-      const partnerKey = clearanceItem.boreKey === item.key ? clearanceItem.journalKey! : clearanceItem.boreKey!;
-      const partnerRow = await readingsRepository.currentAt(tx, place.jobId, partnerKey, place.index);
-      const sides: Record<string, SheetReading | undefined> = {
-        [item.key]: { itemKey: item.key, index: place.index, size: Number(row.size) },
-        [partnerKey]: partnerRow ? { itemKey: partnerKey, index: place.index, size: partnerRow.size == null ? null : Number(partnerRow.size) } : undefined,
-      };
-      const c = clearanceAt(clearanceItem, place.index, (k) => sides[k]);
-      if (c.clearance != null) result.clearance = c.clearance;
+    // The places this reading completes (clearances, tapers), with the partner readings now on the sheet.
+    const views = items.map(toItemView);
+    const completes: ReadingResult["completes"] = [];
+    for (const d of dependentItems(views, item.key)) {
+      if (place.index > d.repeat) continue;
+      const partnerKeys = [d.boreKey, d.journalKey, ...(d.stationKeys ?? [])].filter((k): k is string => !!k && k !== item.key);
+      const partners = new Map<string, ReadingEvidence>();
+      for (const k of partnerKeys) {
+        const pr = await readingsRepository.currentAt(tx, place.jobId, k, place.index);
+        if (pr) partners.set(k, evidenceOfRow(pr));
+      }
+      const j = judgeRow(views, d, place.index, (k, i) => (i !== place.index ? undefined : k === item.key ? evidence : partners.get(k)), jctx);
+      if (j.view.kind === "pending") continue;
+      completes.push({ label: `${d.label}${d.repeat > 1 ? ` no. ${place.index}` : ""}`, place: j.view });
+      if (j.view.kind === "fit" && result.clearance === undefined) {
+        result.clearance = j.view.loosest.value;
+        result.tightestClearance = j.view.tightest.value;
+        result.clearanceBasis = j.view.basis;
+        result.loosestVerdict = j.view.loosest.verdict;
+        result.tightestVerdict = j.view.tightest.verdict;
+      }
     }
+    const answer: ReadingResult = { id: row.id, ...result, verdict, verdictText: judged.view.text, flags: flagList, place: judged.view, completes, rulesVersion: JUDGING_RULES_VERSION };
 
     await recordAudit(tx, {
       actorId: user.id,
@@ -250,7 +281,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       after: { jobId: place.jobId, itemKey: item.key, index: place.index, values: row.values, tools: tags, flags: flagList, supersedesId: extra.supersedesId, reason: extra.supersedeReason, override: override?.reason },
       at,
     });
-    return { id: row.id, ...result, flags: flagList };
+    return answer;
   }
 
   async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean) {
@@ -298,7 +329,40 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       const at = clock.now();
       const ctx = await statusContext(db, deps.config.SHOP_TIME_ZONE);
       const statuses = await statusesFor(db, [hit.tool.id], at, ctx);
-      return { ...(await feelerLeaves(db, toItemView(row), tableUnit, hit, statuses.get(hit.tool.id), at)), unit: tableUnit };
+      const item = toItemView(row);
+      const { choice, usable } = await feelerLeaves(db, item, tableUnit, hit, statuses.get(hit.tool.id), at);
+      return {
+        mode: choice.mode,
+        goLeaf: choice.mode === "go_no_go" ? leafView(choice.go) : null,
+        noGoLeaf: choice.mode === "go_no_go" ? leafView(choice.noGo) : null,
+        why: choice.why,
+        leaves: usable,
+        unit: tableUnit,
+        min: item.min!,
+        max: item.max!,
+      };
     },
   };
+}
+
+/** A go, no-go or measured gap as the API shows it: one leaf, or a stack with its total thickness. */
+const leafView = (s: LeafStack): LeafView => stackAsLeaf(s);
+
+/**
+ * The feeler check a reading records, after the rules of the trade: with leaves inside the limits, the go and no-go
+ * results; when the set cannot make both inside the limits, the thickest leaf or stack that entered (a measured gap).
+ */
+function feelerCheckFrom(item: LimitItemView, setTag: string, choice: FeelerChoice, usable: ReturnType<typeof usableLeaves>, input: CreateReading): FeelerEvidence {
+  if (choice.mode === "go_no_go") {
+    if (input.gapLeafIds?.length) badInput(["gapLeafIds"], `${setTag} makes a go and a no-go inside the limits of ${item.label}; say whether each entered instead.`);
+    if (input.goEntered == null) badInput(["goEntered"], "Say whether the go leaf entered.");
+    if (input.noGoEntered == null) badInput(["noGoEntered"], "Say whether the no-go leaf entered.");
+    return { mode: "go_no_go", go: choice.go, noGo: choice.noGo, goEntered: input.goEntered!, noGoEntered: input.noGoEntered!, gap: null, why: choice.why };
+  }
+  if (usable.length === 0) throw refused("feeler_leaf_missing", `${setTag} has no calibrated, serviceable leaf; use another set.`);
+  if (!input.gapLeafIds?.length) throw refused("feeler_measured_gap_needed", `${setTag} cannot check ${item.label} go/no-go inside its limits. ${choice.why}`, { why: choice.why });
+  if (new Set(input.gapLeafIds).size !== input.gapLeafIds.length) badInput(["gapLeafIds"], "A leaf is named twice in the stack.");
+  const gap = stackFrom(usable, input.gapLeafIds);
+  if (!gap) badInput(["gapLeafIds"], `Use leaves of ${setTag} that are calibrated and not rejected.`);
+  return { mode: "measured_gap", go: null, noGo: null, goEntered: null, noGoEntered: null, gap, why: choice.why };
 }

@@ -1,7 +1,17 @@
-import { pgTable, uuid, text, integer, numeric, boolean, jsonb, timestamp, index, primaryKey, date } from "drizzle-orm/pg-core";
+import { pgTable, uuid, text, integer, numeric, boolean, jsonb, timestamp, index, primaryKey, date, uniqueIndex } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { jobs } from "../jobs/jobs.table";
 import { tools, setElements } from "../tools/tools.table";
+import type { LeafStack } from "../../../shared/inspection/feeler";
+
+/** The feeler check kept with a reading (thicknesses in the table's unit, as used). */
+export interface StoredFeelerCheck {
+  mode: "go_no_go" | "measured_gap";
+  go: LeafStack | null;
+  noGo: LeafStack | null;
+  gap: LeafStack | null;
+  why: string | null;
+}
 
 // Readings are evidence: raw values are kept exactly as entered (decimal
 // strings), never updated; a correction is a new reading that supersedes.
@@ -20,6 +30,8 @@ export const readings = pgTable(
     noGoEntered: boolean("no_go_entered"),
     goLeafId: uuid("go_leaf_id").references(() => setElements.id),
     noGoLeafId: uuid("no_go_leaf_id").references(() => setElements.id),
+    /** A feeler check as made: the leaves or stacks with the calibrated thicknesses used, or the measured gap, and why. */
+    feelerCheck: jsonb("feeler_check").$type<StoredFeelerCheck>(),
     visualResult: text("visual_result", { enum: ["serviceable", "reject"] }),
     finding: text("finding"),
     verdict: text("verdict", { enum: ["within_limits", "outside_limits", "pending"] }).notNull(),
@@ -58,4 +70,25 @@ export const readingTools = pgTable(
     takenAt: timestamp("taken_at", { withTimezone: true }).notNull(),
   },
   (t) => [primaryKey({ columns: [t.readingId, t.toolId] }), index("reading_tools_tool_taken_idx").on(t.toolId, t.takenAt)],
+);
+
+/**
+ * The verdict of a reading under a version of the judging rules. Written when the reading is recorded and, for readings
+ * recorded under earlier rules, by the re-judging job; never changed (a new rules version adds rows). The reading
+ * itself — values, tools and the verdict it was recorded with — stays as it was.
+ */
+export const readingJudgements = pgTable(
+  "reading_judgements",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    readingId: uuid("reading_id").notNull().references(() => readings.id),
+    rulesVersion: integer("rules_version").notNull(),
+    verdict: text("verdict", { enum: ["within_limits", "outside_limits", "pending"] }).notNull(),
+    band: text("band", { enum: ["new", "serviceable", "reject"] }),
+    text: text("text").notNull(),
+    /** The place as judged (every reading, out-of-round, 20 °C, leaves). */
+    detail: jsonb("detail").notNull(),
+    judgedAt: timestamp("judged_at", { withTimezone: true }).notNull(),
+  },
+  (t) => [uniqueIndex("reading_judgements_reading_version").on(t.readingId, t.rulesVersion), index("reading_judgements_version_verdict_idx").on(t.rulesVersion, t.verdict)],
 );

@@ -211,6 +211,8 @@ function CouldChange({ value }: { value: boolean }) {
   );
 }
 
+const sentence = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
 function itemName(i: InvestigationItem) {
   if (i.kind === "calibration") return `Calibration of ${i.toolAssetTag} on ${i.takenAt?.slice(0, 10)}`;
   return `${i.itemLabel ?? i.itemKey}${i.index && i.index > 1 ? ` no. ${i.index}` : ""}`;
@@ -230,18 +232,31 @@ function ItemCard({ investigationId, item, canDispose }: { investigationId: stri
         <CouldChange value={item.verdictCouldChange} />
       </div>
       {item.kind === "reading" ? (
-        <dl className="mt-2 grid grid-cols-2 gap-x-4 gap-y-1 text-sm sm:grid-cols-4">
-          <Fact k="Values">{item.values.length ? item.values.map((v) => length(v, unit)).join(" / ") : "—"}</Fact>
-          <Fact k="Size as judged">{length(item.measuredValue, unit)}</Fact>
-          <Fact k="Verdict given">{item.originalVerdict?.replace("_", " ") ?? "—"}</Fact>
-          <Fact k="Corrected">{length(item.correctedValue, unit)}</Fact>
-          <Fact k="Margin before">{signedLength(item.marginBefore, unit)}</Fact>
-          <Fact k="Margin after">
-            <span className={item.marginAfter != null && item.marginAfter < 0 ? "font-semibold text-stop" : ""}>{signedLength(item.marginAfter, unit)}</span>
-          </Fact>
-          <Fact k="Measured">{when(item.takenAt)}</Fact>
-          <Fact k="By">{item.takenBy ?? "—"}</Fact>
-        </dl>
+        <>
+          <dl className="mt-2 grid grid-cols-2 gap-x-4 gap-y-1 text-sm sm:grid-cols-4">
+            <Fact k="Values">{item.values.length ? item.values.map((v) => length(v, unit)).join(" / ") : "—"}</Fact>
+            <Fact k={`${sentence(item.quantity ?? "size")} as judged`}>{length(item.measuredValue, unit)}</Fact>
+            <Fact k="Verdict given">{item.originalVerdict?.replace("_", " ") ?? "—"}</Fact>
+            <Fact k={`${sentence(item.quantity ?? "size")} over the error band`}>{item.bandLow != null && item.bandHigh != null ? `${length(item.bandLow, unit)} to ${length(item.bandHigh, unit)}` : "—"}</Fact>
+            <Fact k="Most likely (error at the nearest check point)">{length(item.correctedValue, unit)}</Fact>
+            <Fact k="Margin as read">{signedLength(item.marginBefore, unit)}</Fact>
+            <Fact k="Margin at the worst of the band">
+              <span className={item.marginAfter != null && item.marginAfter < 0 ? "font-semibold text-stop" : ""}>{signedLength(item.marginAfter, unit)}</span>
+            </Fact>
+            <Fact k="Measured">{when(item.takenAt)} {item.takenBy ? `by ${item.takenBy}` : ""}</Fact>
+          </dl>
+          {item.places.length > 0 && (
+            <ul className="mt-2 flex flex-col gap-0.5 text-sm" aria-label="Places re-judged">
+              {item.places.map((p) => (
+                <li key={p.itemKey} className="tabular-nums">
+                  <span className={cx("font-semibold", p.couldChange ? "text-stop" : "text-go")}>{p.couldChange ? "could change" : "holds"}</span> — {p.label}: {p.quantity}{" "}
+                  {p.value != null && length(p.value, unit)}
+                  {p.low != null && p.high != null && p.low !== p.high && ` (${length(p.low, unit)} to ${length(p.high, unit)})`}; {p.verdictNow.replace("_", " ")} as read
+                </li>
+              ))}
+            </ul>
+          )}
+        </>
       ) : (
         <dl className="mt-2 grid grid-cols-2 gap-x-4 gap-y-1 text-sm sm:grid-cols-4">
           <Fact k="Result recorded">{item.originalVerdict ?? "—"}</Fact>

@@ -7,32 +7,37 @@ import { TextField, TextAreaField } from "../../../components/ui/field";
 import { Cautions, DemoNotice } from "../../../components/ui/cautions";
 import { StatusBadge } from "../../../components/ui/status-badge";
 import { errorMessage } from "../../../lib/api-client";
+import { formatInstant, shortInstant } from "../../../lib/format";
 import { useCan, useCurrentUser } from "../../auth/api/auth";
-import { DEFAULT_DECIMALS, formatLength, type LengthUnit } from "../../../../shared/common/units";
-import { formatClearance } from "../../../../shared/inspection/sizes";
-import { clearanceAt, slotKey, verdictText, type SheetReading } from "../../../../shared/inspection/check-sheet";
+import { formatLength, type LengthUnit } from "../../../../shared/common/units";
+import { clearanceText, judgeRow, lengthText, slotKey, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
+import { evidenceOf } from "../../../../shared/inspection/check-sheet";
 import { FLAG_LABELS, type ReadingFlag, type ReadingView } from "../../../../shared/readings/readings.schemas";
 import { VERIFY_NOTICE } from "../../../../shared/limit-tables/limit-tables.schemas";
 import type { CheckSheet, SheetItem, SheetRow } from "../../../../shared/jobs/jobs.schemas";
 import type { ToolStatus } from "../../../../shared/tools/tool-status";
 import { ReadingEntry } from "./reading-entry";
 import { VerdictBadge } from "./verdict-badge";
+import { PlaceDetail, rawValue } from "./place-view";
 import { useInvestigations } from "../../investigations/api/investigations";
 
 export function CheckSheetPage() {
   const { id = "" } = useParams();
   const sheet = useCheckSheet(id);
-  // Live sizes of what is being typed, by place, so clearances show before anything is saved.
-  const [drafts, setDrafts] = useState<Record<string, number | null>>({});
+  // What is being typed, by place, so the places it feeds (clearances, tapers) are judged before anything is saved.
+  const [drafts, setDrafts] = useState<Record<string, ReadingEvidence | null>>({});
   if (sheet.isPending) return <Loading what="Loading the check sheet" />;
   if (sheet.isError) return <ErrorNote>{errorMessage(sheet.error)}</ErrorNote>;
-  const s = sheet.data;
-  const setDraft = (key: string, size: number | null) => setDrafts((d) => (d[key] === size ? d : { ...d, [key]: size }));
-  return <Sheet sheet={s} drafts={drafts} setDraft={setDraft} />;
+  const setDraft = (key: string, ev: ReadingEvidence | null) => setDrafts((d) => (d[key] === ev ? d : { ...d, [key]: ev }));
+  return <Sheet sheet={sheet.data} drafts={drafts} setDraft={setDraft} />;
 }
 
-function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Record<string, number | null>; setDraft: (k: string, v: number | null) => void }) {
+/** The judging context of a sheet: its table's unit and expansion coefficient. */
+export const sheetContext = (s: CheckSheet): JudgingContext => ({ tableUnit: s.limitTable.unit, tableExpansionPerK: s.limitTable.expansionPerK });
+
+function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Record<string, ReadingEvidence | null>; setDraft: (k: string, v: ReadingEvidence | null) => void }) {
   const unit = s.limitTable.unit;
+  const ctx = sheetContext(s);
   const canRecord = useCan("readings.write");
   const sections = useMemo(() => {
     const m = new Map<string, SheetItem[]>();
@@ -40,22 +45,20 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
     return [...m.entries()];
   }, [s.items]);
   const saved = useMemo(() => {
-    const m = new Map<string, SheetReading>();
-    for (const it of s.items) for (const r of it.rows) if (r.reading) m.set(slotKey(it.key, r.index), { itemKey: it.key, index: r.index, size: r.reading.size });
+    const m = new Map<string, ReadingEvidence>();
+    for (const it of s.items) for (const r of it.rows) if (r.reading) m.set(slotKey(it.key, r.index), evidenceOf(r.reading));
     return m;
   }, [s.items]);
-  // The same lookup the server uses, with live drafts taking the place of saved readings while typing.
-  const lookup = (itemKey: string, index: number): SheetReading | undefined => {
+  // The same lookup the server uses, with what is being typed taking the place of the saved reading.
+  const evidenceAt = (itemKey: string, index: number): ReadingEvidence | undefined => {
     const k = slotKey(itemKey, index);
-    if (k in drafts && drafts[k] != null) return { itemKey, index, size: drafts[k] };
-    return saved.get(k);
+    return drafts[k] ?? saved.get(k);
   };
-  const clearanceFor = (item: SheetItem, index: number) => {
-    const c = s.items.find((x) => x.kind === "clearance" && (x.boreKey === item.key || x.journalKey === item.key) && index <= x.repeat);
-    if (!c) return null;
-    const out = clearanceAt(c, index, lookup);
-    return out.clearance == null ? null : { label: c.label, text: `${formatClearance(out.clearance, unit)} — ${verdictText(c, out.judgement, out.verdict)}`, verdict: out.verdict };
-  };
+  const dependents = (item: SheetItem, index: number) =>
+    s.items
+      .filter((x) => index <= x.repeat && ((x.kind === "clearance" && (x.boreKey === item.key || x.journalKey === item.key)) || (x.kind === "taper" && (x.stationKeys ?? []).includes(item.key))))
+      .map((x) => ({ label: x.label, place: judgeRow(s.items, x, index, evidenceAt, ctx).view }))
+      .filter((x) => x.place.kind !== "pending");
   return (
     <div className="flex flex-col gap-4">
       <PageHeader
@@ -70,16 +73,33 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
       <InvestigationBanner jobId={s.id} />
       {s.limitTable.isDemo && <DemoNotice what="limits" />}
       <p role="note" className="rounded-md border border-caution/40 bg-caution-light px-3 py-1.5 text-sm font-semibold text-caution">{VERIFY_NOTICE}</p>
+      <Cautions compact />
+      {s.summary.judgedDifferently > 0 && (
+        <p role="alert" className="rounded-md border border-stop/40 bg-stop-light px-3 py-2 text-sm text-stop">
+          <strong>Judged again under the current rules. </strong>
+          {s.summary.judgedDifferently} reading{s.summary.judgedDifferently === 1 ? " was" : "s were"} recorded with another verdict than the current judging rules give; each is marked below. The readings themselves are kept as recorded.
+        </p>
+      )}
       <Card>
         <Facts
           items={[
             ["Limits", <Link key="t" className="underline" to={`/limit-tables/${s.limitTable.id}`}>{`${s.limitTable.name} (v${s.limitTable.version}) — ${s.limitTable.sourceDocument}, rev. ${s.limitTable.sourceRevision}`}</Link>],
             ["Unit", unit === "in" ? "inch" : "millimetre"],
-            ["Opened", `${s.openedAt.slice(0, 10)}${s.openedBy ? ` by ${s.openedBy.name}` : ""}`],
+            ["Opened", `${formatInstant(s.openedAt)}${s.openedBy ? ` by ${s.openedBy.name}` : ""}`],
             ["Progress", `${s.summary.recorded} of ${s.summary.places} places measured · ${s.summary.outside} outside limits · ${s.summary.flagged} flagged`],
             ["Status", s.locked ? "Signed and locked" : s.changedSinceSignoff ? "Corrected since sign-off: needs signing again" : "Open"],
           ]}
         />
+        <details className="mt-2 text-sm text-ink-soft">
+          <summary className="cursor-pointer font-semibold">How places are judged (rules v{s.summary.rulesVersion})</summary>
+          <ul className="mt-1 list-disc pl-5">
+            <li>Every reading of a journal or bore is held to the size limits; one reading outside puts the place outside (two-point size, ISO 14405-1). The size (smallest journal, largest bore) feeds wear and clearances.</li>
+            <li>A clearance is judged at both fits: the loosest (largest bore − smallest journal) against the maximum, the tightest (smallest bore − largest journal) against the minimum. Radial limits are judged on half the diametral clearance.</li>
+            <li>Out-of-round (largest − smallest at one station) and taper (between two stations, same direction) are judged where the table limits them.</li>
+            <li>With a part temperature and an expansion coefficient (item, table or the part's material), every length is judged at 20 °C (ISO 1); the raw value stays beside it.</li>
+            <li>A feeler check uses a go and a no-go inside the limits, by calibrated thickness; when the set cannot make both, the thickest leaf or stack that enters is recorded as a measured gap.</li>
+          </ul>
+        </details>
         {s.limitTable.supersededById && <p className="mt-2 text-sm text-caution">The limits table has a newer revision; this job keeps the version it started with.</p>}
       </Card>
       {sections.map(([section, items]) => (
@@ -87,14 +107,22 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
           <h2 className="text-xl font-bold">{section}</h2>
           {items.map((item) => (
             <Card key={item.key} title={`${item.label}${item.repeat > 1 ? ` (× ${item.repeat})` : ""}`}>
-              <p className="mb-2 text-sm text-ink-soft">{limitsLine(item, unit)}</p>
+              <p className="mb-2 text-sm text-ink-soft">{limitsLine(item, s)}</p>
               <ol className="flex flex-col gap-2">
                 {item.rows.map((row) => (
                   <li key={row.index} className="rounded-md border border-paper-line p-2">
-                    {item.kind === "clearance" ? (
-                      <ClearanceRow item={item} row={row} unit={unit} live={clearanceAt(item, row.index, lookup)} />
+                    {item.kind === "clearance" || item.kind === "taper" ? (
+                      <DerivedRow item={item} row={row} unit={unit} live={judgeRow(s.items, item, row.index, evidenceAt, ctx).view} />
                     ) : (
-                      <PlaceRow item={item} row={row} sheet={s} canRecord={canRecord} clearance={clearanceFor(item, row.index)} onDraft={(v) => setDraft(slotKey(item.key, row.index), v)} />
+                      <PlaceRow
+                        item={item}
+                        row={row}
+                        sheet={s}
+                        ctx={ctx}
+                        canRecord={canRecord}
+                        fed={dependents(item, row.index)}
+                        onDraft={(v) => setDraft(slotKey(item.key, row.index), v)}
+                      />
                     )}
                   </li>
                 ))}
@@ -110,12 +138,23 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
   );
 }
 
-function limitsLine(item: SheetItem, unit: LengthUnit): string {
+/** The item's limits in words, with what is judged and how. */
+export function limitsLine(item: SheetItem, s: CheckSheet): string {
+  const unit = s.limitTable.unit;
   if (item.kind === "visual") return "Visual: serviceable or reject, with the finding.";
-  const f = (v: number | null) => (v == null ? "—" : item.kind === "clearance" || item.kind === "feeler" ? formatClearance(v, unit) : `${formatLength(v, unit)} ${unit}`);
+  const clearanceLike = item.kind === "clearance" || item.kind === "feeler";
+  const f = (v: number | null) => (v == null ? "—" : clearanceLike ? clearanceText(v, unit) : `${formatLength(v, unit)} ${unit}`);
   const serviceable = item.serviceableMin != null || item.serviceableMax != null ? ` · serviceable ${item.serviceableMin != null ? `min ${f(item.serviceableMin)} ` : ""}${item.serviceableMax != null ? `max ${f(item.serviceableMax)}` : ""}` : "";
-  const how = item.kind === "journal" ? ` · size = smallest of ${item.directions} directions` : item.kind === "bore" ? ` · size = largest of ${item.directions} directions` : item.kind === "clearance" ? ` · ${item.boreKey} − ${item.journalKey}` : " · go / no-go with a feeler set";
-  return `New ${f(item.min)} to ${f(item.max)}${serviceable}${how}`;
+  const label = (k: string | null) => s.items.find((i) => i.key === k)?.label ?? k ?? "—";
+  if (item.kind === "taper") return `Taper max ${lengthText(item.max ?? 0, unit)} ${unit}${item.serviceableMax != null ? ` · serviceable max ${lengthText(item.serviceableMax, unit)}` : ""} · ${label(item.stationKeys?.[0] ?? null)} − ${label(item.stationKeys?.[1] ?? null)}, same direction`;
+  const alpha = item.expansionPerK ?? s.limitTable.expansionPerK;
+  const how =
+    item.kind === "journal" || item.kind === "bore"
+      ? ` · every reading of ${item.directions} directions judged; size = ${item.kind === "journal" ? "smallest" : "largest"}${item.outOfRoundMax != null ? ` · out-of-round max ${lengthText(item.outOfRoundMax, unit)}` : ""}${alpha != null ? ` · expansion ${Number((alpha * 1e6).toFixed(3))} µm/(m·K) for 20 °C` : ""}`
+      : item.kind === "clearance"
+        ? ` · ${item.radial ? "RADIAL (half the diametral) · " : "diametral · "}loosest ${label(item.boreKey)} − ${label(item.journalKey)} against the maximum, tightest against the minimum`
+        : " · go / no-go with leaves inside the limits";
+  return `New ${f(item.min)} to ${f(item.max)}${item.kind === "clearance" && item.radial ? " radial" : ""}${serviceable}${how}`;
 }
 
 function Flags({ flags }: { flags: string[] }) {
@@ -131,29 +170,58 @@ function Flags({ flags }: { flags: string[] }) {
   );
 }
 
-function ClearanceRow({ item, row, unit, live }: { item: SheetItem; row: SheetRow; unit: LengthUnit; live: ReturnType<typeof clearanceAt> }) {
-  const showLive = live.clearance != null && live.clearance !== row.clearance;
-  const value = showLive ? live : { clearance: row.clearance, judgement: row.judgement, verdict: row.verdict };
+/** A clearance or taper row, worked out from its two readings (live while one of them is being typed). */
+function DerivedRow({ item, row, unit, live }: { item: SheetItem; row: SheetRow; unit: LengthUnit; live: PlaceView }) {
+  const showLive = live.kind !== "pending" && JSON.stringify(live) !== JSON.stringify(row.place);
+  const place = showLive ? live : row.place;
+  const headline =
+    place.kind === "fit"
+      ? `${clearanceText(place.loosest.value, unit)}${place.basis === "radial" ? " radial" : ""} loosest · ${clearanceText(place.tightest.value, unit)}${place.basis === "radial" ? " radial" : ""} tightest`
+      : place.kind === "taper"
+        ? `taper ${lengthText(place.taper, unit)}`
+        : item.kind === "taper"
+          ? "waiting for both stations"
+          : "waiting for both sizes";
   return (
-    <div className="flex flex-wrap items-center gap-3" aria-label={`${item.label} no. ${row.index}`}>
-      <span className="w-12 font-semibold">No. {row.index}</span>
-      <span className="tabular-nums text-lg">{value.clearance == null ? "waiting for both sizes" : formatClearance(value.clearance, unit)}</span>
-      <VerdictBadge verdict={value.verdict} text={verdictText(item, value.judgement, value.verdict)} />
-      {showLive && <span className="text-xs text-ink-faint">(as typed, not saved)</span>}
+    <div className="flex flex-col gap-1" aria-label={`${item.label} no. ${row.index}`}>
+      <div className="flex flex-wrap items-center gap-3">
+        <span className="w-12 font-semibold">No. {row.index}</span>
+        <span className="tabular-nums text-lg">{headline}</span>
+        <VerdictBadge verdict={place.verdict} text={place.text} />
+        {showLive && <span className="text-xs text-ink-faint">(as typed, not saved)</span>}
+      </div>
+      <PlaceDetail place={place} unit={unit} />
       <Flags flags={row.flags} />
     </div>
   );
 }
 
-function PlaceRow({ item, row, sheet, canRecord, clearance, onDraft }: { item: SheetItem; row: SheetRow; sheet: CheckSheet; canRecord: boolean; clearance: { label: string; text: string; verdict: string } | null; onDraft: (v: number | null) => void }) {
+function PlaceRow({
+  item,
+  row,
+  sheet,
+  ctx,
+  canRecord,
+  fed,
+  onDraft,
+}: {
+  item: SheetItem;
+  row: SheetRow;
+  sheet: CheckSheet;
+  ctx: JudgingContext;
+  canRecord: boolean;
+  fed: { label: string; place: PlaceView }[];
+  onDraft: (v: ReadingEvidence | null) => void;
+}) {
   const [editing, setEditing] = useState(false);
   const r = row.reading;
+  const unit = sheet.limitTable.unit;
   const canWriteHere = canRecord && (!r ? !sheet.locked : true);
   return (
     <div className="flex flex-col gap-2" aria-label={`${item.label} no. ${row.index}`}>
       <div className="flex flex-wrap items-center gap-3">
         <span className="w-12 font-semibold">No. {row.index}</span>
-        {r ? <SavedReading reading={r} unit={sheet.limitTable.unit} /> : <span className="text-ink-faint">Not measured yet</span>}
+        {r ? <SavedReading reading={r} unit={unit} /> : <span className="text-ink-faint">Not measured yet</span>}
         {r && <VerdictBadge verdict={r.verdict} text={r.verdictText} />}
         {canWriteHere && !editing && (
           <Button variant={r ? "ghost" : "secondary"} onClick={() => setEditing(true)} aria-label={`${r ? "Correct" : "Measure"} ${item.label} no. ${row.index}`}>
@@ -161,14 +229,25 @@ function PlaceRow({ item, row, sheet, canRecord, clearance, onDraft }: { item: S
           </Button>
         )}
       </div>
+      {r && <PlaceDetail place={row.place} unit={unit} />}
+      {r && row.judgedDifferently && (
+        <p className="text-sm font-semibold text-stop">
+          Recorded {r.recordedVerdict === "within_limits" ? "within" : "outside"} limits under earlier rules; judged {r.verdict === "within_limits" ? "within" : "outside"} under the current rules
+          {r.judgedAt ? ` (${shortInstant(r.judgedAt)})` : ""}. The reading is kept as recorded.
+        </p>
+      )}
       {r && <Flags flags={r.flags} />}
-      {r && !editing && clearance && <p className="text-sm">{clearance.label}: {clearance.text}</p>}
+      {r && !editing && fed.map((d) => (
+        <p key={d.label} className="text-sm">
+          {d.label}: {d.place.kind === "fit" ? `loosest ${clearanceText(d.place.loosest.value, unit)}, tightest ${clearanceText(d.place.tightest.value, unit)}${d.place.basis === "radial" ? " (radial)" : ""}` : d.place.kind === "taper" ? `taper ${lengthText(d.place.taper, unit)}` : ""} — {d.place.text}
+        </p>
+      ))}
       {row.history.length > 0 && (
         <details className="text-xs text-ink-soft">
           <summary>{row.history.length} earlier reading{row.history.length > 1 ? "s" : ""} (superseded)</summary>
           {row.history.map((h) => (
             <p key={h.id}>
-              {h.values.map((v) => rawValue(v, h.unit)).join(" / ")} {h.unit} by {h.takenBy?.name} {h.takenAt.slice(0, 16).replace("T", " ")}
+              {h.values.map((v) => rawValue(v, h.unit)).join(" / ")} {h.unit} by {h.takenBy?.name} {shortInstant(h.takenAt)}
             </p>
           ))}
           {r?.supersedeReason && <p>Correction reason: {r.supersedeReason}</p>}
@@ -179,9 +258,10 @@ function PlaceRow({ item, row, sheet, canRecord, clearance, onDraft }: { item: S
           jobId={sheet.id}
           item={item}
           index={row.index}
-          unit={sheet.limitTable.unit}
+          sheet={sheet}
+          ctx={ctx}
           correcting={r ?? undefined}
-          clearance={clearance}
+          fed={fed}
           onDraft={onDraft}
           onDone={() => {
             onDraft(null);
@@ -193,40 +273,18 @@ function PlaceRow({ item, row, sheet, canRecord, clearance, onDraft }: { item: S
   );
 }
 
-/** A raw value as typed: never rounded, but padded to the unit's customary decimals (1.125 shows as 1.1250). */
-function rawValue(v: number, unit: LengthUnit): string {
-  const text = String(v);
-  const decimals = text.includes(".") ? text.split(".")[1].length : 0;
-  return decimals >= DEFAULT_DECIMALS[unit] || /e/i.test(text) ? text : v.toFixed(DEFAULT_DECIMALS[unit]);
-}
-
 function SavedReading({ reading: r, unit }: { reading: ReadingView; unit: LengthUnit }) {
   return (
     <div className="flex flex-wrap items-center gap-x-3 gap-y-1 text-sm">
-      {r.values.length > 0 && (
-        <span className="tabular-nums">
-          {r.values.map((v) => rawValue(v, r.unit)).join(" / ")} {r.unit}
-        </span>
-      )}
       {r.size != null && (
         <span className="tabular-nums font-semibold">
           size {formatLength(r.size, unit)} {unit}
-          {r.outOfRound != null && ` · out-of-round ${formatLength(r.outOfRound, unit)}`}
-        </span>
-      )}
-      {r.correction && (
-        <span className="text-xs text-ink-soft">
-          at 20 °C: {formatLength(r.correction.correctedSize, unit)} ({r.correction.partMaterial.replace(/_/g, " ")}, {r.correction.temperatureC} °C)
-        </span>
-      )}
-      {r.goLeaf && r.noGoLeaf && (
-        <span>
-          go {r.goLeaf.label} {r.goEntered ? "entered" : "did not enter"} · no-go {r.noGoLeaf.label} {r.noGoEntered ? "entered" : "did not enter"}
+          {r.place.kind === "size" && r.place.thermal && ` · ${lengthText(r.place.size, unit)} at 20 °C`}
         </span>
       )}
       {r.finding && <span className="italic">{r.finding}</span>}
       <span className="text-xs text-ink-faint">
-        {r.tools.map((t) => t.assetTag).join(" + ")} · {r.takenBy?.name} · {r.takenAt.slice(0, 16).replace("T", " ")}
+        {r.tools.map((t) => t.assetTag).join(" + ")} · {r.takenBy?.name} · {shortInstant(r.takenAt)}
       </span>
     </div>
   );
@@ -275,7 +333,7 @@ function SignCard({ sheet }: { sheet: CheckSheet }) {
     <Card title="Inspector sign-off">
       {sheet.signoffs.map((so) => (
         <p key={so.id} className="text-sm">
-          ✓ Signed by <strong>{so.inspector.name}</strong>, certificate {so.certificateNumber}, {so.signedAt.slice(0, 16).replace("T", " ")}
+          ✓ Signed by <strong>{so.inspector.name}</strong>, certificate {so.certificateNumber}, {shortInstant(so.signedAt)}
           {so.note && ` — ${so.note}`}
         </p>
       ))}

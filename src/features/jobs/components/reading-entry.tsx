@@ -4,30 +4,35 @@ import { Button } from "../../../components/ui/button";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { ErrorNote } from "../../../components/ui/layout";
 import { ApiError, errorMessage } from "../../../lib/api-client";
-import { formatLength, EXPANSION_COEFFICIENTS, type LengthUnit, type MaterialKey } from "../../../../shared/common/units";
-import { judgeSizeReading, temperatureCorrection, toTableUnit, verdictText } from "../../../../shared/inspection/check-sheet";
-import { judgeFeeler } from "../../../../shared/inspection/feeler";
-import { CreateReadingSchema, type CreateReadingInput, type ReadingView } from "../../../../shared/readings/readings.schemas";
-import type { SheetItem } from "../../../../shared/jobs/jobs.schemas";
+import { EXPANSION_COEFFICIENTS, type MaterialKey } from "../../../../shared/common/units";
+import { clearanceText, judgeReading, lengthText, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
+import { stackFrom, type FeelerEvidence, type LeafStack } from "../../../../shared/inspection/feeler";
+import { CreateReadingSchema, type CreateReadingInput, type LeafView, type ReadingView } from "../../../../shared/readings/readings.schemas";
+import type { CheckSheet, SheetItem } from "../../../../shared/jobs/jobs.schemas";
 import { VerdictBadge } from "./verdict-badge";
+import { PlaceDetail, stackText } from "./place-view";
 import { useCan } from "../../auth/api/auth";
 
 const isNumber = (s: string) => /^-?\d*\.?\d+$/.test(s.trim());
+const stackOf = (l: LeafView | null): LeafStack | null => (l ? { leaves: l.leaves, thickness: l.thickness } : null);
 
 interface Props {
   jobId: string;
   item: SheetItem;
   index: number;
-  unit: LengthUnit;
+  sheet: CheckSheet;
+  ctx: JudgingContext;
   correcting?: ReadingView;
-  clearance: { label: string; text: string; verdict: string } | null;
-  onDraft: (size: number | null) => void;
+  /** The places this reading feeds (clearances, tapers), judged with what is typed here. */
+  fed: { label: string; place: PlaceView }[];
+  onDraft: (evidence: ReadingEvidence | null) => void;
   onDone: () => void;
 }
 
-/** Entry of one reading on a tablet, with size, out-of-round, clearance and verdict worked out live by the shared code. */
-export function ReadingEntry({ jobId, item, index, unit, correcting, clearance, onDraft, onDone }: Props) {
+/** Entry of one reading on a tablet; its place and the places it feeds are judged live by the shared rules. */
+export function ReadingEntry({ jobId, item, index, sheet, ctx, correcting, fed, onDraft, onDone }: Props) {
   const where = `${item.label} no. ${index}`;
+  const unit = ctx.tableUnit;
   const record = useRecordReading(jobId);
   const canOverride = useCan("readings.override");
   const [values, setValues] = useState<string[]>(() => Array.from({ length: item.directions }, () => ""));
@@ -37,6 +42,7 @@ export function ReadingEntry({ jobId, item, index, unit, correcting, clearance, 
   const [setTag, setSetTag] = useState(item.kind === "feeler" ? (correcting?.tools[0]?.assetTag ?? "") : "");
   const [goEntered, setGo] = useState<"" | "yes" | "no">("");
   const [noGoEntered, setNoGo] = useState<"" | "yes" | "no">("");
+  const [gapLeaves, setGapLeaves] = useState<string[]>(["", "", ""]);
   const [visual, setVisual] = useState<"" | "serviceable" | "reject">("");
   const [finding, setFinding] = useState("");
   const [temp, setTemp] = useState("");
@@ -46,19 +52,38 @@ export function ReadingEntry({ jobId, item, index, unit, correcting, clearance, 
   const [overrideReason, setOverrideReason] = useState("");
   const toolUnit = useToolUnit(mic).data ?? unit;
   const leaves = useFeelerLeaves(jobId, item.key, item.kind === "feeler" ? setTag : "");
+  const alpha = item.expansionPerK ?? sheet.limitTable.expansionPerK;
 
-  // Live: the same shared functions the server runs when the reading is saved.
-  const live = useMemo(() => {
-    if (item.kind !== "journal" && item.kind !== "bore") return null;
-    const typed = values.filter((v) => isNumber(v));
-    if (typed.length < item.directions) return null;
-    const out = judgeSizeReading(item, toTableUnit(typed, toolUnit, unit));
-    const correction = material && isNumber(temp) ? temperatureCorrection({ size: out.size, partMaterial: material, temperatureC: temp, toolTemperatureC: isNumber(toolTemp) ? toolTemp : null }) : null;
-    return { ...out, correction };
-  }, [values, item, toolUnit, unit, material, temp, toolTemp]);
-  useEffect(() => onDraft(live ? live.size : null), [live?.size]); // eslint-disable-line react-hooks/exhaustive-deps
-
-  const feelerVerdict = goEntered && noGoEntered ? judgeFeeler({ goEntered: goEntered === "yes", noGoEntered: noGoEntered === "yes" }) : null;
+  // Live: the same shared judging the server runs when the reading is saved.
+  const evidence = useMemo((): ReadingEvidence | null => {
+    if (item.kind === "journal" || item.kind === "bore") {
+      const typed = values.filter((v) => isNumber(v));
+      if (typed.length < item.directions) return null;
+      return {
+        itemKey: item.key,
+        index,
+        unit: toolUnit,
+        values: typed,
+        temperatureC: isNumber(temp) ? temp : null,
+        toolTemperatureC: isNumber(toolTemp) ? toolTemp : null,
+        partMaterial: material || null,
+      };
+    }
+    if (item.kind === "feeler" && leaves.data) {
+      const d = leaves.data;
+      let feeler: FeelerEvidence | null = null;
+      if (d.mode === "go_no_go" && goEntered && noGoEntered) {
+        feeler = { mode: "go_no_go", go: stackOf(d.goLeaf), noGo: stackOf(d.noGoLeaf), goEntered: goEntered === "yes", noGoEntered: noGoEntered === "yes", gap: null, why: d.why };
+      } else if (d.mode === "measured_gap") {
+        const gap = stackFrom(d.leaves, gapLeaves.filter(Boolean));
+        if (gap) feeler = { mode: "measured_gap", go: null, noGo: null, goEntered: null, noGoEntered: null, gap, why: d.why };
+      }
+      return feeler ? { itemKey: item.key, index, unit, values: [], feeler } : null;
+    }
+    return null;
+  }, [values, item, index, toolUnit, unit, material, temp, toolTemp, leaves.data, goEntered, noGoEntered, gapLeaves]);
+  const live = evidence ? judgeReading(item, evidence, ctx).view : null;
+  useEffect(() => onDraft(item.kind === "journal" || item.kind === "bore" ? evidence : null), [evidence]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const input = (): CreateReadingInput => {
     const base: CreateReadingInput = { itemKey: item.key, index };
@@ -67,7 +92,11 @@ export function ReadingEntry({ jobId, item, index, unit, correcting, clearance, 
     if (material) base.partMaterial = material;
     if (overrideReason.trim()) base.override = { reason: overrideReason.trim() };
     if (item.kind === "journal" || item.kind === "bore") return { ...base, values: values.filter((v) => v.trim() !== "").map(Number), toolAssetTags: [gauge, mic].filter((t) => t.trim()) };
-    if (item.kind === "feeler") return { ...base, toolAssetTags: [setTag].filter((t) => t.trim()), goEntered: goEntered ? goEntered === "yes" : undefined, noGoEntered: noGoEntered ? noGoEntered === "yes" : undefined };
+    if (item.kind === "feeler") {
+      const tools = { toolAssetTags: [setTag].filter((t) => t.trim()) };
+      if (leaves.data?.mode === "measured_gap") return { ...base, ...tools, gapLeafIds: gapLeaves.filter(Boolean) };
+      return { ...base, ...tools, goEntered: goEntered ? goEntered === "yes" : undefined, noGoEntered: noGoEntered ? noGoEntered === "yes" : undefined };
+    }
     return { ...base, visualResult: visual || undefined, finding };
   };
   const [clientError, setClientError] = useState<string | null>(null);
@@ -99,56 +128,103 @@ export function ReadingEntry({ jobId, item, index, unit, correcting, clearance, 
             <TextField label={isBore ? "Micrometer that read it" : "Micrometer tag"} aria-label={`${where}, micrometer tag`} value={mic} onChange={(e) => setMic(e.target.value.toUpperCase())} />
           </div>
           <details>
-            <summary className="cursor-pointer text-sm">Temperature and material (optional, for a correction to 20 °C)</summary>
+            <summary className="cursor-pointer text-sm">Temperature (judged at 20 °C when the part's expansion is known)</summary>
             <div className="mt-2 grid grid-cols-2 gap-2 md:grid-cols-3">
-              <TextField label="Part temperature °C" inputMode="decimal" value={temp} onChange={(e) => setTemp(e.target.value)} />
-              <TextField label="Tool temperature °C (if different)" inputMode="decimal" value={toolTemp} onChange={(e) => setToolTemp(e.target.value)} />
-              <SelectField label="Part material" value={material} onChange={(e) => setMaterial(e.target.value as MaterialKey | "")}>
-                <option value="">—</option>
-                {Object.values(EXPANSION_COEFFICIENTS).map((m) => (
-                  <option key={m.key} value={m.key}>{m.label}</option>
-                ))}
-              </SelectField>
+              <TextField label="Part temperature °C" aria-label={`${where}, part temperature`} inputMode="decimal" value={temp} onChange={(e) => setTemp(e.target.value)} />
+              <TextField label="Tool temperature °C (if different)" aria-label={`${where}, tool temperature`} inputMode="decimal" value={toolTemp} onChange={(e) => setToolTemp(e.target.value)} />
+              {alpha != null ? (
+                <p className="self-end text-sm text-ink-soft">Part expansion from the limits table: {Number((alpha * 1e6).toFixed(3))} µm/(m·K).</p>
+              ) : (
+                <SelectField label="Part material" value={material} onChange={(e) => setMaterial(e.target.value as MaterialKey | "")}>
+                  <option value="">—</option>
+                  {Object.values(EXPANSION_COEFFICIENTS).map((m) => (
+                    <option key={m.key} value={m.key}>{m.label}</option>
+                  ))}
+                </SelectField>
+              )}
             </div>
           </details>
-          <div className="flex flex-wrap items-center gap-3" aria-live="polite" aria-label={`Live result for ${where}`}>
-            {live ? (
+          <div className="flex flex-col gap-1" aria-live="polite" aria-label={`Live result for ${where}`}>
+            {live && live.kind === "size" ? (
               <>
-                <span className="text-lg font-semibold tabular-nums">Size {formatLength(live.size, unit)} {unit}</span>
-                <span className="tabular-nums">Out-of-round {formatLength(live.outOfRound, unit)}</span>
-                <VerdictBadge verdict={live.judgement.verdict} text={verdictText(item, live.judgement)} />
-                {live.correction && <span className="text-sm text-ink-soft">At 20 °C: {formatLength(live.correction.correctedSize, unit)} {unit} (raw value kept)</span>}
+                <div className="flex flex-wrap items-center gap-3">
+                  <span className="text-lg font-semibold tabular-nums">
+                    Size {lengthText(live.rawSize, unit)} {unit}
+                    {live.thermal && ` · ${lengthText(live.size, unit)} ${unit} at 20 °C`}
+                  </span>
+                  <VerdictBadge verdict={live.verdict} text={live.text} />
+                </div>
+                <PlaceDetail place={live} unit={unit} />
               </>
             ) : (
               <span className="text-ink-faint">Type a value in each of the {item.directions} directions.</span>
             )}
-            {live && clearance && <span className="font-semibold">{clearance.label}: {clearance.text}</span>}
+            {live &&
+              fed.map((d) => (
+                <p key={d.label} className="font-semibold">
+                  {d.label}: {d.place.kind === "fit" ? `${clearanceText(d.place.loosest.value, unit)}${d.place.basis === "radial" ? " radial" : ""} loosest, ${clearanceText(d.place.tightest.value, unit)} tightest` : d.place.kind === "taper" ? `taper ${lengthText(d.place.taper, unit)}` : ""} — {d.place.text}
+                </p>
+              ))}
           </div>
         </>
       )}
       {item.kind === "feeler" && (
         <>
           <TextField label="Feeler set tag" aria-label={`${where}, feeler set tag`} value={setTag} onChange={(e) => setSetTag(e.target.value.toUpperCase())} />
-          {leaves.data && (
-            <p className="text-sm" aria-live="polite">
-              Use go leaf <strong>{leaves.data.goLeaf?.label ?? "none"}</strong> (must enter) and no-go leaf <strong>{leaves.data.noGoLeaf?.label ?? "none"}</strong> (must not enter).
-            </p>
+          {leaves.data?.mode === "go_no_go" && (
+            <div className="rounded-md border border-paper-line bg-paper-raised p-2 text-sm" aria-label="Leaves to use" aria-live="polite">
+              <p>
+                Go: <strong>{stackText(stackOf(leaves.data.goLeaf), unit)}</strong> — must enter. No-go: <strong>{stackText(stackOf(leaves.data.noGoLeaf), unit)}</strong> — must not enter.
+              </p>
+              <p className="text-ink-soft">{leaves.data.why}</p>
+            </div>
+          )}
+          {leaves.data?.mode === "measured_gap" && (
+            <div role="note" className="rounded-md border border-caution/40 bg-caution-light p-2 text-sm text-caution" aria-label="Leaves to use">
+              <p className="font-semibold">This set cannot check the gap go/no-go inside its limits ({lengthText(leaves.data.min, unit)}–{lengthText(leaves.data.max, unit)}).</p>
+              <p>{leaves.data.why}</p>
+            </div>
           )}
           {leaves.isError && <ErrorNote>{errorMessage(leaves.error)}</ErrorNote>}
-          <div className="grid grid-cols-2 gap-2">
-            <SelectField label="Did the go leaf enter?" value={goEntered} onChange={(e) => setGo(e.target.value as "yes" | "no")}>
-              <option value="">—</option>
-              <option value="yes">Yes, it entered</option>
-              <option value="no">No</option>
-            </SelectField>
-            <SelectField label="Did the no-go leaf enter?" value={noGoEntered} onChange={(e) => setNoGo(e.target.value as "yes" | "no")}>
-              <option value="">—</option>
-              <option value="no">No, it did not</option>
-              <option value="yes">Yes, it entered</option>
-            </SelectField>
-          </div>
-          {feelerVerdict && <VerdictBadge verdict={feelerVerdict.verdict} text={feelerVerdict.verdict === "within_limits" ? "Within limits" : feelerVerdict.finding === "too_tight" ? "Outside limits: too tight" : "Outside limits: too loose"} />}
-          {feelerVerdict?.note && <p className="text-sm text-caution">{feelerVerdict.note}</p>}
+          {leaves.data?.mode === "go_no_go" && (
+            <div className="grid grid-cols-2 gap-2">
+              <SelectField label="Did the go enter?" value={goEntered} onChange={(e) => setGo(e.target.value as "yes" | "no")}>
+                <option value="">—</option>
+                <option value="yes">Yes, it entered</option>
+                <option value="no">No</option>
+              </SelectField>
+              <SelectField label="Did the no-go enter?" value={noGoEntered} onChange={(e) => setNoGo(e.target.value as "yes" | "no")}>
+                <option value="">—</option>
+                <option value="no">No, it did not</option>
+                <option value="yes">Yes, it entered</option>
+              </SelectField>
+            </div>
+          )}
+          {leaves.data?.mode === "measured_gap" && (
+            <div className="grid grid-cols-1 gap-2 md:grid-cols-3">
+              {gapLeaves.map((g, i) => (
+                <SelectField
+                  key={i}
+                  label={i === 0 ? "Thickest leaf that enters" : `Stacked with (leaf ${i + 1}, optional)`}
+                  value={g}
+                  onChange={(e) => setGapLeaves((gs) => gs.map((x, j) => (j === i ? e.target.value : x)))}
+                >
+                  <option value="">—</option>
+                  {leaves.data!.leaves.map((l) => (
+                    <option key={l.id} value={l.id} disabled={gapLeaves.includes(l.id) && g !== l.id}>
+                      {l.label} ({lengthText(l.thickness, unit)} calibrated)
+                    </option>
+                  ))}
+                </SelectField>
+              ))}
+            </div>
+          )}
+          {live && live.kind === "feeler" && (
+            <div className="flex flex-col gap-1" aria-live="polite" aria-label={`Live result for ${where}`}>
+              <VerdictBadge verdict={live.verdict} text={live.text} />
+              <PlaceDetail place={live} unit={unit} />
+            </div>
+          )}
         </>
       )}
       {item.kind === "visual" && (

@@ -4,10 +4,10 @@ import type { LimitItemView } from "../../../../shared/limit-tables/limit-tables
 
 const clearanceKinds = new Set(["clearance", "feeler"]);
 
-/** One limit as the trade writes it: sizes plain, clearances "0.0020 loose" / "0.0010 tight". */
-export function formatLimit(item: Pick<LimitItemView, "kind">, value: number | null, unit: LengthUnit): string {
+/** One limit as the trade writes it: sizes plain, clearances "0.0020 loose" / "0.0010 tight" (radial where the table says so). */
+export function formatLimit(item: Pick<LimitItemView, "kind"> & { radial?: boolean }, value: number | null, unit: LengthUnit): string {
   if (value == null) return "—";
-  return clearanceKinds.has(item.kind) ? formatClearance(value, unit) : formatLength(value, unit);
+  return clearanceKinds.has(item.kind) ? `${formatClearance(value, unit)}${item.radial ? " radial" : ""}` : formatLength(value, unit);
 }
 
 /** "min … to max …" of an item's new limits. */

@@ -1,3 +1,4 @@
+import { useState } from "react";
 import { useNavigate, useParams } from "react-router-dom";
 import { useFieldArray, useForm, type UseFormRegisterReturn } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
@@ -22,6 +23,7 @@ function fromTable(t: LimitTable): CreateLimitTableInput {
     sourceDocument: t.sourceDocument,
     sourceRevision: t.sourceRevision,
     isDemo: t.isDemo,
+    expansionPerK: u(t.expansionPerK),
     items: t.items.map((it) => ({
       key: it.key,
       label: it.label,
@@ -35,8 +37,12 @@ function fromTable(t: LimitTable): CreateLimitTableInput {
       journalKey: it.journalKey ?? "",
       directions: it.directions,
       repeat: it.repeat,
-      toolKinds: it.toolKinds as CreateLimitTableInput["items"][number]["toolKinds"],
+      // An item without tool kinds carries null; the form (and the schema) take "absent".
+      toolKinds: (it.toolKinds ?? undefined) as CreateLimitTableInput["items"][number]["toolKinds"],
       radial: it.radial,
+      outOfRoundMax: u(it.outOfRoundMax),
+      stationKeys: it.stationKeys ?? undefined,
+      expansionPerK: u(it.expansionPerK),
       note: it.note ?? "",
     })),
   };
@@ -63,6 +69,7 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
   const save = useSaveLimitTable();
   const form = useForm<CreateLimitTableInput>({ resolver: zodResolver(CreateLimitTableSchema) as never, defaultValues: initial });
   const items = useFieldArray({ control: form.control, name: "items" });
+  const [invalid, setInvalid] = useState(false);
   const e = form.formState.errors;
   const server = save.error instanceof ApiError ? save.error.fieldErrors() : {};
   const err = (path: string) => (path.split(".").reduce<any>((o, k) => o?.[k], e)?.message as string | undefined) ?? server[path];
@@ -73,7 +80,13 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
       <form
         noValidate
         className="flex flex-col gap-4"
-        onSubmit={form.handleSubmit((input) => save.mutate({ input, reviseId }, { onSuccess: (t) => navigate(`/limit-tables/${t.id}`) }))}
+        onSubmit={form.handleSubmit(
+          (input) => {
+            setInvalid(false);
+            save.mutate({ input, reviseId }, { onSuccess: (t) => navigate(`/limit-tables/${t.id}`) });
+          },
+          () => setInvalid(true),
+        )}
       >
         <Card title="Source">
           <div className="grid gap-3 md:grid-cols-3">
@@ -88,6 +101,13 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
             <label className="flex items-center gap-2 self-end text-sm">
               <input type="checkbox" {...form.register("isDemo")} /> Demo values (invented)
             </label>
+            <TextField
+              label="Parts' expansion coefficient per kelvin (optional)"
+              hint="Sizes read with a part temperature are judged at 20 °C (ISO 1). Steel 0.0000115; cast aluminium 0.0000215."
+              inputMode="decimal"
+              error={err("expansionPerK")}
+              {...form.register("expansionPerK", optNum)}
+            />
           </div>
         </Card>
         <Card title="Items" actions={<Button variant="secondary" onClick={() => items.append({ ...blankItem })}>Add item</Button>}>
@@ -107,12 +127,21 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
                       ))}
                     </SelectField>
                     <Cell label="Section" reg={form.register(`items.${i}.section`)} />
-                    {sized && <Cell type="decimal" label={kind === "clearance" || kind === "feeler" ? "New min clearance" : "New min"} reg={form.register(`items.${i}.min`, optNum)} error={err(`items.${i}.min`)} />}
-                    {sized && <Cell type="decimal" label={kind === "clearance" || kind === "feeler" ? "New max clearance" : "New max"} reg={form.register(`items.${i}.max`, optNum)} error={err(`items.${i}.max`)} />}
-                    {sized && kind !== "feeler" && <Cell type="decimal" label="Serviceable min" reg={form.register(`items.${i}.serviceableMin`, optNum)} error={err(`items.${i}.serviceableMin`)} />}
+                    {sized && kind !== "taper" && <Cell type="decimal" label={kind === "clearance" || kind === "feeler" ? "New min clearance" : "New min"} reg={form.register(`items.${i}.min`, optNum)} error={err(`items.${i}.min`)} />}
+                    {sized && <Cell type="decimal" label={kind === "clearance" || kind === "feeler" ? "New max clearance" : kind === "taper" ? "Taper max" : "New max"} reg={form.register(`items.${i}.max`, optNum)} error={err(`items.${i}.max`)} />}
+                    {sized && kind !== "feeler" && kind !== "taper" && <Cell type="decimal" label="Serviceable min" reg={form.register(`items.${i}.serviceableMin`, optNum)} error={err(`items.${i}.serviceableMin`)} />}
                     {sized && kind !== "feeler" && <Cell type="decimal" label="Serviceable max" reg={form.register(`items.${i}.serviceableMax`, optNum)} error={err(`items.${i}.serviceableMax`)} />}
                     {kind === "clearance" && <Cell label="Bore item key" reg={form.register(`items.${i}.boreKey`)} error={err(`items.${i}.boreKey`)} />}
                     {kind === "clearance" && <Cell label="Journal item key" reg={form.register(`items.${i}.journalKey`)} error={err(`items.${i}.journalKey`)} />}
+                    {kind === "clearance" && (
+                      <label className="flex items-center gap-2 self-end text-sm">
+                        <input type="checkbox" {...form.register(`items.${i}.radial`)} /> Limits are radial (half the diametral clearance)
+                      </label>
+                    )}
+                    {kind === "taper" && <Cell label="Station A item key (e.g. top of ring travel)" reg={form.register(`items.${i}.stationKeys.0`)} error={err(`items.${i}.stationKeys`)} />}
+                    {kind === "taper" && <Cell label="Station B item key (e.g. bottom)" reg={form.register(`items.${i}.stationKeys.1`)} />}
+                    {(kind === "journal" || kind === "bore") && <Cell type="decimal" label="Out-of-round max (optional)" reg={form.register(`items.${i}.outOfRoundMax`, optNum)} error={err(`items.${i}.outOfRoundMax`)} />}
+                    {(kind === "journal" || kind === "bore") && <Cell type="decimal" label="Expansion per kelvin (optional, this part)" reg={form.register(`items.${i}.expansionPerK`, optNum)} error={err(`items.${i}.expansionPerK`)} />}
                     {(kind === "journal" || kind === "bore") && <Cell type="decimal" label="Directions" reg={form.register(`items.${i}.directions`, intNum)} error={err(`items.${i}.directions`)} />}
                     <Cell type="decimal" label="How many per engine" reg={form.register(`items.${i}.repeat`, intNum)} error={err(`items.${i}.repeat`)} />
                     <Cell label="Note" reg={form.register(`items.${i}.note`)} className="md:col-span-2" />
@@ -124,8 +153,12 @@ function LimitTableEditor({ initial, reviseId, version }: { initial: CreateLimit
               );
             })}
           </ol>
-          <p className="mt-2 text-xs text-ink-faint">Clearance = bore − journal of the same number; a negative clearance is interference (shown "tight").</p>
+          <p className="mt-2 text-xs text-ink-faint">
+            Clearance = bore − journal of the same number; a negative clearance is interference (shown "tight"). Every reading of a journal or bore is held to its size limits; a clearance is judged at its loosest
+            (against the maximum) and its tightest (against the minimum). Taper = the difference between two stations read in the same direction.
+          </p>
         </Card>
+        {invalid && <ErrorNote>Some entries need attention; each is marked above.</ErrorNote>}
         {save.isError && <ErrorNote>{errorMessage(save.error)}</ErrorNote>}
         <div className="flex gap-2">
           <Button type="submit" disabled={save.isPending}>{reviseId ? "Save new version" : "Save limits table"}</Button>

@@ -8,6 +8,7 @@ import { useCan } from "../../auth/api/auth";
 import { LIMIT_ITEM_KIND_LABELS, VERIFY_NOTICE, type LimitItemView } from "../../../../shared/limit-tables/limit-tables.schemas";
 import { formatLimit, formatRange } from "./limit-format";
 import { TableStudiesCard } from "../../studies/api/study-cards";
+import { formatInstant } from "../../../lib/format";
 
 /** Items grouped by their section, in table order. */
 export function bySection<T extends { section: string | null }>(items: T[]): [string, T[]][] {
@@ -23,8 +24,23 @@ export function LimitTablePage() {
   if (table.isPending) return <Loading />;
   if (table.isError) return <ErrorNote>{errorMessage(table.error)}</ErrorNote>;
   const t = table.data;
+  const label = (k: string | null | undefined) => t.items.find((i) => i.key === k)?.label ?? k ?? "—";
   const describe = (it: LimitItemView) =>
-    it.kind === "clearance" ? `${it.boreKey} − ${it.journalKey}${it.radial ? " (radial)" : " (diametral)"}` : it.kind === "journal" || it.kind === "bore" ? `${it.directions} directions` : "";
+    it.kind === "clearance"
+      ? `${label(it.boreKey)} − ${label(it.journalKey)}; ${it.radial ? "RADIAL limits (half the diametral clearance)" : "diametral"}; loosest against the maximum, tightest against the minimum`
+      : it.kind === "taper"
+        ? `${label(it.stationKeys?.[0])} − ${label(it.stationKeys?.[1])}, same direction`
+        : it.kind === "journal" || it.kind === "bore"
+          ? [
+              `every reading of ${it.directions} directions`,
+              it.outOfRoundMax != null ? `out-of-round max ${formatLimit(it, it.outOfRoundMax, t.unit)}` : null,
+              (it.expansionPerK ?? t.expansionPerK) != null ? `expansion ${Number(((it.expansionPerK ?? t.expansionPerK)! * 1e6).toFixed(3))} µm/(m·K)${it.expansionPerK != null ? "" : " (table)"}` : null,
+            ]
+              .filter(Boolean)
+              .join("; ")
+          : it.kind === "feeler"
+            ? "go and no-go inside the limits"
+            : "";
   return (
     <div className="flex flex-col gap-4">
       <PageHeader
@@ -40,7 +56,16 @@ export function LimitTablePage() {
         </p>
       )}
       <Card>
-        <Facts items={[["Source document", t.sourceDocument], ["Revision", t.sourceRevision], ["Unit", t.unit === "in" ? "inch" : "millimetre"], ["Values", t.isDemo ? "Demo (invented)" : "Entered from the source document"], ["Created", `${t.createdAt.slice(0, 10)}${t.createdBy ? ` by ${t.createdBy.name}` : ""}`]]} />
+        <Facts
+          items={[
+            ["Source document", t.sourceDocument],
+            ["Revision", t.sourceRevision],
+            ["Unit", t.unit === "in" ? "inch" : "millimetre"],
+            ["Values", t.isDemo ? "Demo (invented)" : "Entered from the source document"],
+            ["Parts' expansion", t.expansionPerK != null ? `${Number((t.expansionPerK * 1e6).toFixed(3))} µm/(m·K) — sizes with a part temperature are judged at 20 °C` : "not given"],
+            ["Created", `${formatInstant(t.createdAt)}${t.createdBy ? ` by ${t.createdBy.name}` : ""}`],
+          ]}
+        />
       </Card>
       {bySection(t.items).map(([section, items]) => (
         <Card key={section} title={section}>
@@ -64,7 +89,10 @@ export function LimitTablePage() {
                       <span className="block text-xs text-ink-faint">{it.key}</span>
                       {it.note && <span className="block text-xs text-ink-soft">{it.note}</span>}
                     </td>
-                    <td className="py-1.5 pr-3">{LIMIT_ITEM_KIND_LABELS[it.kind]}</td>
+                    <td className="py-1.5 pr-3">
+                      {LIMIT_ITEM_KIND_LABELS[it.kind]}
+                      {it.radial && <span className="ml-1 rounded bg-hold-light px-1 text-xs font-semibold text-hold">radial</span>}
+                    </td>
                     <td className="py-1.5 pr-3 tabular-nums">{it.kind === "visual" ? "serviceable / reject" : formatRange(it, it.min, it.max, t.unit)}</td>
                     <td className="py-1.5 pr-3 tabular-nums">
                       {it.serviceableMin != null && `min ${formatLimit(it, it.serviceableMin, t.unit)} `}
