@@ -38,7 +38,7 @@ export const HF360_ITEMS: LimitItemInput[] = [
   { key: "valve_face_visual", label: "Valve faces and seats", section: "Valves and guides", kind: "visual", repeat: 1 },
   { key: "ring_gap_top", label: "Top compression ring end gap (in barrel)", section: "Rings", kind: "feeler", min: 0.018, max: 0.023, repeat: CYL },
   { key: "ring_side_top", label: "Top compression ring side clearance", section: "Rings", kind: "feeler", min: 0.0045, max: 0.0065, repeat: CYL },
-  { key: "ring_side_second", label: "Second ring side clearance", section: "Rings", kind: "feeler", min: 0.003, max: 0.0034, repeat: CYL, note: "A narrow band: most sets cannot make a go and a no-go inside it; record the thickest leaf that enters." },
+  { key: "ring_side_second", label: "Second ring side clearance", section: "Rings", kind: "feeler", min: 0.003, max: 0.0033, repeat: CYL, note: "A narrow band: most sets cannot make a go and a no-go inside it; record the thickest leaf that enters." },
 ];
 
 const DAY = 86_400_000;
@@ -228,7 +228,7 @@ export async function seedInspection(ctx: SeedContext): Promise<void> {
   }
   // The second ring's narrow band: FLR-0101 cannot make a go and a no-go inside it, so the gap is measured — the thickest leaf that enters.
   const second = await todayReadings.leavesFor(open.id, "ring_side_second", "FLR-0101");
-  if (second.mode !== "measured_gap") throw new Error("Inspection seed: FLR-0101 was expected to need a measured gap on the second ring");
+  if (second.mode !== "measured_gap") throw new Error(`Inspection seed: FLR-0101 was expected to need a measured gap on the second ring: ${JSON.stringify(second)}`);
   const entering = [...second.leaves].filter((l) => l.thickness <= 0.0033).at(-1);
   if (!entering) throw new Error("Inspection seed: FLR-0101 has no leaf thin enough for the second ring");
   todayClock.set(new Date(todayClock.now().getTime() + 4 * 60_000));

@@ -84,7 +84,7 @@ describe("the demo inspection", () => {
     const ring = place(signed, "ring_side_top", 1);
     expect(ring).toMatchObject({ verdict: "outside_limits", judgedDifferently: true, reading: { recordedVerdict: "within_limits", feeler: { go: { leaves: [{ label: "0.003" }] } } } });
     expect(signed.summary.judgedDifferently).toBe(3 * 6);
-    // Today's second ring is a measured gap: FLR-0101 cannot make a go and a no-go inside 0.0030–0.0034.
+    // Today's second ring is a measured gap: FLR-0101 cannot make a go and a no-go inside 0.0030–0.0033.
     expect(place(open, "ring_side_second", 1).place).toMatchObject({ kind: "feeler", mode: "measured_gap", verdict: "within_limits" });
     expect(place(open, "ring_side_top", 1).place).toMatchObject({ mode: "go_no_go", verdict: "within_limits" });
   });
