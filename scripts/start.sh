@@ -24,8 +24,13 @@ else
   mkdir -p "$TENTHWISE_SERVICES_DIR"
 fi
 
-say "building the app…"
-npm run --silent build >/dev/null
+# TENTHWISE_SKIP_BUILD=1 reuses dist/ when it is there (the tests of this command; a second start).
+if [ "${TENTHWISE_SKIP_BUILD:-}" = 1 ] && [ -f dist/server/server/launch.js ]; then
+  say "using the existing build in dist/"
+else
+  say "building the app…"
+  npm run --silent build >/dev/null
+fi
 
 export NODE_ENV=production
 node dist/server/server/launch.js &
