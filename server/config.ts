@@ -30,6 +30,8 @@ const ConfigSchema = z.object({
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
   LOGIN_ADDRESS_RATE_LIMIT: z.coerce.number().int().min(1).default(30),
   CRON_ENABLED: z.enum(["true", "false"]).default("true").transform((v) => v === "true"),
+  /** npm start seeds the invented demo shop into an empty database unless this is false (a shop starting for real). */
+  SEED_DEMO: z.enum(["true", "false"]).default("true").transform((v) => v === "true"),
 });
 
 export type Config = z.infer<typeof ConfigSchema>;

@@ -95,7 +95,7 @@ try {
 
   const { pool, db } = createDb(config.DATABASE_URL, 2);
   const password = process.env.DEMO_PASSWORD ?? "tenthwise-demo";
-  const seeded = await seedDemoOnce(
+  const seeded = config.SEED_DEMO && await seedDemoOnce(
     {
       db,
       clock: systemClock,
@@ -111,7 +111,7 @@ try {
   const lines = [
     "",
     `Tenthwise is running at ${running.url}`,
-    seeded ? "The demo shop (invented data) was seeded." : "Existing data kept (the demo is seeded only on first run).",
+    seeded ? "The demo shop (invented data) was seeded." : config.SEED_DEMO ? "Existing data kept (the demo is seeded only on first run)." : "No demo data (SEED_DEMO=false); existing data kept.",
     `Local stand-ins: mail ${config.SMTP_URL} (caught mail: ${process.env.MAIL_CATCHER_URL ?? "—"}), object store ${config.S3_ENDPOINT ?? "—"}`,
     `Demo sign-ins (password ${process.env.DEMO_PASSWORD ? "from DEMO_PASSWORD" : "tenthwise-demo"}):`,
     ...DEMO_PEOPLE.slice(0, 6).map((p) => `  ${p.role.padEnd(10)} ${p.email}`),

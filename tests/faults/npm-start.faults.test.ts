@@ -33,7 +33,7 @@ interface Started {
 }
 
 async function npmStart(): Promise<Started> {
-  const env: NodeJS.ProcessEnv = { ...process.env, PORT: String(port), PGPORT: String(pgPort), TENTHWISE_DATA_DIR: dataDir, TENTHWISE_SKIP_BUILD: "1", LOG_LEVEL: "warn" };
+  const env: NodeJS.ProcessEnv = { ...process.env, PORT: String(port), PGPORT: String(pgPort), TENTHWISE_DATA_DIR: dataDir, TENTHWISE_SKIP_BUILD: "1", LOG_LEVEL: "warn", SEED_DEMO: "false" };
   for (const k of ["DATABASE_URL", "DATABASE_ADMIN_URL", "DATABASE_OWNER_URL", "SMTP_URL", "S3_ENDPOINT", "MAIL_CATCHER_URL", "NODE_ENV", "SESSION_SECRET"]) delete env[k];
   const shell = spawn("bash", ["scripts/start.sh"], { env, stdio: ["ignore", "pipe", "pipe"], detached: true });
   let out = "";
@@ -88,7 +88,7 @@ describe("npm start", () => {
 
   it("a second start keeps the data, and SIGTERM stops everything it started, PostgreSQL included", { timeout: 240_000 }, async () => {
     const s = await npmStart();
-    expect(s.output()).toContain("Existing data kept");
+    expect(s.output()).toContain("existing data kept");
     const [app] = childrenOf(s.shell.pid!);
     const standIns = childrenOf(app);
     process.kill(s.shell.pid!, "SIGTERM");

@@ -1,5 +1,19 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import net from "node:net";
+import fs from "node:fs";
+import path from "node:path";
+import { build } from "esbuild";
+
+const BUNDLE = path.resolve("node_modules/.cache/tenthwise-tests/app-process.mjs");
+let bundled: Promise<void> | null = null;
+/** tests/support/app-process.ts bundled once (npm packages stay external): a process then starts in a second, not in tsx's compile time. */
+function bundle() {
+  bundled ??= (async () => {
+    fs.mkdirSync(path.dirname(BUNDLE), { recursive: true });
+    await build({ entryPoints: ["tests/support/app-process.ts"], bundle: true, platform: "node", format: "esm", target: "node20", packages: "external", outfile: BUNDLE, logLevel: "warning" });
+  })();
+  return bundled;
+}
 
 /** A free TCP port on loopback. */
 export function freePort(): Promise<number> {
@@ -25,7 +39,8 @@ export interface AppProcess {
 /** Starts tests/support/app-process.ts under tsx with the given environment; resolves once it listens. */
 export async function startAppProcess(env: Record<string, string>): Promise<AppProcess> {
   const port = await freePort();
-  const child = spawn(process.execPath, ["--import", "tsx", "tests/support/app-process.ts"], {
+  await bundle();
+  const child = spawn(process.execPath, [BUNDLE], {
     env: { ...process.env, NODE_ENV: "test", LOG_LEVEL: "silent", CRON_ENABLED: "false", HOST: "127.0.0.1", PORT: String(port), ...env },
     stdio: ["ignore", "pipe", "pipe"],
   });
