@@ -10,20 +10,24 @@ import { freePort } from "../support/processes";
 // a crash of the app stops everything it started (stand-ins included) and says "stopping PostgreSQL"
 // once; Ctrl-C or SIGTERM stops it all promptly.
 
-let dataDir: string;
-let port: number;
-let pgPort: number;
+interface Instance {
+  dataDir: string;
+  port: number;
+  pgPort: number;
+}
+let first: Instance;
+let second: Instance;
+const instance = async (): Promise<Instance> => ({ dataDir: fs.mkdtempSync(path.join(os.tmpdir(), "tw-npm-start-")), port: await freePort(), pgPort: await freePort() });
 
 beforeAll(async () => {
   // The command serves the built server; build it when this runs outside `npm test` (which builds first).
   if (!fs.existsSync("dist/server/server/launch.js")) execFileSync("npm", ["run", "--silent", "build:server"], { stdio: "ignore" });
-  dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "tw-npm-start-"));
-  port = await freePort();
-  pgPort = await freePort();
+  first = await instance();
+  second = await instance();
 }, 120_000);
 
 afterAll(() => {
-  fs.rmSync(dataDir, { recursive: true, force: true });
+  for (const i of [first, second]) if (i) fs.rmSync(i.dataDir, { recursive: true, force: true });
 });
 
 interface Started {
@@ -32,7 +36,7 @@ interface Started {
   exited: Promise<number | null>;
 }
 
-async function npmStart(): Promise<Started> {
+async function npmStart({ port, pgPort, dataDir }: Instance): Promise<Started> {
   const env: NodeJS.ProcessEnv = { ...process.env, PORT: String(port), PGPORT: String(pgPort), TENTHWISE_DATA_DIR: dataDir, TENTHWISE_SKIP_BUILD: "1", LOG_LEVEL: "warn", SEED_DEMO: "false" };
   for (const k of ["DATABASE_URL", "DATABASE_ADMIN_URL", "DATABASE_OWNER_URL", "SMTP_URL", "S3_ENDPOINT", "MAIL_CATCHER_URL", "NODE_ENV", "SESSION_SECRET"]) delete env[k];
   const shell = spawn("bash", ["scripts/start.sh"], { env, stdio: ["ignore", "pipe", "pipe"], detached: true });
@@ -40,7 +44,7 @@ async function npmStart(): Promise<Started> {
   shell.stdout!.on("data", (d) => (out += d));
   shell.stderr!.on("data", (d) => (out += d));
   const exited = new Promise<number | null>((resolve) => shell.once("exit", (code) => resolve(code)));
-  for (let i = 0; i < 600 && !out.includes("Tenthwise is running at"); i++) {
+  for (let i = 0; i < 600 && !out.includes("Press Ctrl-C to stop."); i++) {
     if (shell.exitCode !== null) throw new Error(`npm start stopped:\n${out}`);
     await new Promise((r) => setTimeout(r, 250));
   }
@@ -62,7 +66,7 @@ async function gone(pids: number[]) {
   for (let i = 0; i < 100 && pids.some(alive); i++) await new Promise((r) => setTimeout(r, 100));
   return pids.filter(alive);
 }
-const postgresUp = async () => {
+const postgresUp = async (pgPort: number) => {
   const net = await import("node:net");
   return new Promise<boolean>((resolve) => {
     const s = net.connect(pgPort, "127.0.0.1", () => (s.end(), resolve(true)));
@@ -73,8 +77,8 @@ const times = (text: string, what: string) => text.split(what).length - 1;
 
 describe("npm start", () => {
   it("serves, and when the app crashes it stops the stand-ins and PostgreSQL, saying so once", { timeout: 240_000 }, async () => {
-    const s = await npmStart();
-    expect((await request(`http://127.0.0.1:${port}`).get("/api/health")).body).toEqual({ ok: true, db: "up" });
+    const s = await npmStart(first);
+    expect((await request(`http://127.0.0.1:${first.port}`).get("/api/health")).body).toEqual({ ok: true, db: "up" });
     const [app] = childrenOf(s.shell.pid!).filter((pid) => execFileSync("ps", ["-o", "args=", "-p", String(pid)]).toString().includes("launch.js"));
     expect(app).toBeGreaterThan(0);
     const standIns = childrenOf(app);
@@ -83,19 +87,29 @@ describe("npm start", () => {
     await s.exited;
     expect(await gone(standIns)).toEqual([]);
     expect(times(s.output(), "stopping PostgreSQL")).toBe(1);
-    expect(await postgresUp()).toBe(false);
+    expect(await postgresUp(first.pgPort)).toBe(false);
   });
 
-  it("a second start keeps the data, and SIGTERM stops everything it started, PostgreSQL included", { timeout: 240_000 }, async () => {
-    const s = await npmStart();
-    expect(s.output()).toContain("existing data kept");
-    const [app] = childrenOf(s.shell.pid!);
-    const standIns = childrenOf(app);
-    process.kill(s.shell.pid!, "SIGTERM");
-    const code = await Promise.race([s.exited, new Promise((r) => setTimeout(() => r("still running"), 30_000))]);
-    expect(code).not.toBe("still running");
-    expect(await gone([app, ...standIns])).toEqual([]);
-    expect(times(s.output(), "stopping PostgreSQL")).toBe(1);
-    expect(await postgresUp()).toBe(false);
+  it("two instances run side by side, each with its own stand-ins, and SIGTERM stops everything each started", { timeout: 300_000 }, async () => {
+    const [a, b] = await Promise.all([npmStart(first), npmStart(second)]);
+    expect(a.output()).toContain("existing data kept");
+    const mailOf = (s: Started) => /mail smtp:\/\/127\.0\.0\.1:(\d+)/.exec(s.output())?.[1];
+    expect(mailOf(a)).toBeDefined();
+    expect(mailOf(a)).not.toBe(mailOf(b));
+    for (const i of [first, second]) expect((await request(`http://127.0.0.1:${i.port}`).get("/api/health")).body).toEqual({ ok: true, db: "up" });
+    const pids = [a, b].flatMap((s) => {
+      const apps = childrenOf(s.shell.pid!);
+      return [...apps, ...apps.flatMap(childrenOf)];
+    });
+    expect(pids).toHaveLength(6);
+    for (const s of [a, b]) process.kill(s.shell.pid!, "SIGTERM");
+    for (const s of [a, b]) {
+      const code = await Promise.race([s.exited, new Promise((r) => setTimeout(() => r("still running"), 30_000))]);
+      expect(code).not.toBe("still running");
+      expect(times(s.output(), "stopping PostgreSQL")).toBe(1);
+    }
+    expect(await gone(pids)).toEqual([]);
+    expect(await postgresUp(first.pgPort)).toBe(false);
+    expect(await postgresUp(second.pgPort)).toBe(false);
   });
 });
