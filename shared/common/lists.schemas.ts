@@ -43,8 +43,9 @@ const yearInRange = (v: string) => {
 export const CalendarDateSchema = z
   .string()
   .regex(/^\d{4}-\d{2}-\d{2}$/, "Use a calendar date YYYY-MM-DD.")
-  .refine(isCalendarDate, "Not a calendar date (check the month and day).")
-  .refine(yearInRange, `Use a date between ${YEAR_MIN} and ${YEAR_MAX}.`);
+  // abort: a date refused here is not refused again by a schema that refines it further.
+  .refine(isCalendarDate, { message: "Not a calendar date (check the month and day).", abort: true })
+  .refine(yearInRange, { message: `Use a date between ${YEAR_MIN} and ${YEAR_MAX}.`, abort: true });
 export const InstantSchema = z
   .string()
   .datetime({ offset: true, message: "Use an ISO 8601 instant with offset." })

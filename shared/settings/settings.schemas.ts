@@ -17,7 +17,7 @@ export const SettingsSchema = z.object({
 });
 export type Settings = z.infer<typeof SettingsSchema>;
 /** Five cron fields (minute hour day-of-month month weekday); a sixth, seconds, field would mail every second. */
-export const ReminderCronSchema = SettingsSchema.shape.reminderCron.refine((v) => v.trim().split(/\s+/).length === 5, "Use five fields: minute hour day month weekday (no seconds field).");
+export const ReminderCronSchema = SettingsSchema.shape.reminderCron.refine((v) => v.trim().split(/\s+/).length <= 5, "Use five fields: minute hour day month weekday (no seconds field).");
 export const ReminderStagesSchema = SettingsSchema.shape.reminderStages.refine((v) => new Set(v).size === v.length, "Each lead time once: the same stage twice would send the same reminder twice.");
 
 export const UpdateSettingsSchema = SettingsSchema.partial()
