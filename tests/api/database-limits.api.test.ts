@@ -9,14 +9,17 @@ import { errorHandler } from "../../server/http/error-handler";
 
 let database: TestDatabase;
 let limited: ReturnType<typeof createDb>;
+let idleLimited: ReturnType<typeof createDb>;
 const reported: string[] = [];
 
 beforeAll(async () => {
   database = await createTestDatabase();
-  limited = createDb(database.url, { max: 2, statementTimeoutMs: 300, idleInTransactionMs: 400, lockTimeoutMs: 200, onConnectionError: (e) => reported.push((e as { code?: string }).code ?? e.message) });
+  limited = createDb(database.url, { max: 2, statementTimeoutMs: 1000, idleInTransactionMs: 0, lockTimeoutMs: 200 });
+  idleLimited = createDb(database.url, { max: 2, idleInTransactionMs: 400, onConnectionError: (e) => reported.push((e as { code?: string }).code ?? e.message) });
 });
 afterAll(async () => {
   await limited?.pool.end();
+  await idleLimited?.pool.end();
   await database?.drop();
 });
 
@@ -41,11 +44,12 @@ async function failure(p: Promise<unknown>) {
 describe("limits on every database connection", () => {
   it("each connection carries the statement, lock and idle-in-transaction limits", async () => {
     const { rows } = await limited.pool.query("select current_setting('statement_timeout') as s, current_setting('lock_timeout') as l, current_setting('idle_in_transaction_session_timeout') as i");
-    expect(rows[0]).toEqual({ s: "300ms", l: "200ms", i: "400ms" });
+    expect(rows[0]).toEqual({ s: "1s", l: "200ms", i: "0" });
+    expect((await idleLimited.pool.query("select current_setting('idle_in_transaction_session_timeout') as i")).rows[0]).toEqual({ i: "400ms" });
   });
 
   it("a statement running past its limit is cancelled and answered 503 database_busy", async () => {
-    const err = await failure(limited.pool.query("select pg_sleep(2)"));
+    const err = await failure(limited.pool.query("select pg_sleep(4)"));
     expect((err as { code: string }).code).toBe("57014");
     expect(answerFor(err)).toMatchObject({ status: 503, body: { error: { code: "database_busy" } } });
     expect((await limited.pool.query("select 1 as one")).rows).toEqual([{ one: 1 }]);
@@ -64,13 +68,13 @@ describe("limits on every database connection", () => {
   });
 
   it("a transaction left idle is ended by PostgreSQL; the pool drops that connection and keeps serving, and nothing stops the process", async () => {
-    const forgotten = await limited.pool.connect();
+    const forgotten = await idleLimited.pool.connect();
     await forgotten.query("begin");
     await new Promise((r) => setTimeout(r, 900));
     const err = await failure(forgotten.query("select 1"));
     forgotten.release(err as Error);
     expect(answerFor(err).status).toBe(503);
-    expect((await limited.pool.query("select 2 as two")).rows).toEqual([{ two: 2 }]);
+    expect((await idleLimited.pool.query("select 2 as two")).rows).toEqual([{ two: 2 }]);
     expect(reported.length).toBeGreaterThan(0);
   });
 });
