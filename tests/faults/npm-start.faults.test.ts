@@ -26,9 +26,17 @@ beforeAll(async () => {
   second = await instance();
 }, 120_000);
 
-afterAll(() => {
+const started: Started[] = [];
+afterAll(async () => {
+  // A test that failed half-way leaves no npm start behind: SIGTERM is what Ctrl-C would do.
+  for (const s of started) {
+    if (s.shell.exitCode === null) {
+      process.kill(s.shell.pid!, "SIGTERM");
+      await Promise.race([s.exited, new Promise((r) => setTimeout(r, 30_000))]);
+    }
+  }
   for (const i of [first, second]) if (i) fs.rmSync(i.dataDir, { recursive: true, force: true });
-});
+}, 120_000);
 
 interface Started {
   shell: ChildProcess;
@@ -44,6 +52,7 @@ async function npmStart({ port, pgPort, dataDir }: Instance): Promise<Started> {
   shell.stdout!.on("data", (d) => (out += d));
   shell.stderr!.on("data", (d) => (out += d));
   const exited = new Promise<number | null>((resolve) => shell.once("exit", (code) => resolve(code)));
+  started.push({ shell, output: () => out, exited });
   for (let i = 0; i < 600 && !out.includes("Press Ctrl-C to stop."); i++) {
     if (shell.exitCode !== null) throw new Error(`npm start stopped:\n${out}`);
     await new Promise((r) => setTimeout(r, 250));
