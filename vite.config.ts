@@ -35,6 +35,20 @@ export default defineConfig({
         },
       },
       {
+        // Real processes and clusters stopped, killed and restarted: one file at a time.
+        resolve: { alias: { "@shared": sharedDir } },
+        test: {
+          name: "faults",
+          include: ["tests/faults/**/*.test.ts"],
+          environment: "node",
+          setupFiles: ["tests/support/fail-on-console-error.ts"],
+          testTimeout: 120000,
+          hookTimeout: 180000,
+          pool: "forks",
+          fileParallelism: false,
+        },
+      },
+      {
         resolve: { alias: { "@shared": sharedDir } },
         test: {
           name: "browser",

@@ -13,7 +13,7 @@ try {
   config = loadConfig(process.env);
 } catch (e) {
   process.stderr.write(`${(e as Error).message}\n`);
-  process.stderr.write("Set DATABASE_URL (and SMTP_URL for a real mail service) as for the server; for the `npm start` database: postgres://app:<.data/pg-password>@127.0.0.1:54329/tenthwise\n");
+  process.stderr.write("Set DATABASE_URL (and SMTP_URL for a real mail service) as for the server; for the `npm start` database: postgres://tenthwise_app:<.data/app-password>@127.0.0.1:54329/tenthwise (the runtime role)\n");
   process.exit(2);
 }
 const logger = pino({ level: config.LOG_LEVEL });

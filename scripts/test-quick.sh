@@ -15,7 +15,7 @@ start_cluster "$DIR" "$PORT" trust "" fast >/dev/null
 TPL="tpl_$$"
 export TEST_PG_URL="postgres://app@127.0.0.1:${PORT}"
 export TEST_TEMPLATE_DB="$TPL"
-psql -h 127.0.0.1 -p "$PORT" -U app -d postgres -qc "create database \"$TPL\"" >/dev/null
 trap 'psql -h 127.0.0.1 -p "$PORT" -U app -d postgres -qc "drop database if exists \"$TPL\" with (force)" >/dev/null 2>&1' EXIT
-DATABASE_URL="$TEST_PG_URL/$TPL" npx tsx scripts/migrate.ts
+# The roles (owner, runtime), the template database owned by the owner, migrations run as the owner.
+DATABASE_ADMIN_URL="$TEST_PG_URL/postgres" DATABASE_NAME="$TPL" npx tsx scripts/migrate.ts
 npx vitest run "$@"

@@ -13,10 +13,10 @@ PORT="$(node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()
 cleanup() { stop_cluster "$TMP"; rm -rf "$TMP"; }
 trap cleanup EXIT
 start_cluster "$TMP" "$PORT" trust "" fast
-ensure_database "$PORT" tenthwise_template
 export TEST_PG_URL="postgres://app@127.0.0.1:${PORT}"
 export TEST_TEMPLATE_DB="tenthwise_template"
-DATABASE_URL="$TEST_PG_URL/tenthwise_template" npx tsx scripts/migrate.ts
+# The roles (owner, runtime), the template database owned by the owner, migrations run as the owner.
+DATABASE_ADMIN_URL="$TEST_PG_URL/postgres" DATABASE_NAME="$TEST_TEMPLATE_DB" npx tsx scripts/migrate.ts
 
 passed=0; failed=0
 step() { # name command…

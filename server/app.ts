@@ -6,11 +6,10 @@ import connectPgSimple from "connect-pg-simple";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import { pino } from "pino";
-import { csrfSync } from "csrf-sync";
 import { OpenApiRegistry } from "./openapi/registry";
-import { errorHandler } from "./http/error-handler";
-import { Errors } from "./http/errors";
+import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
 import { authRoutes, configurePassport } from "./auth/auth.routes";
+import { csrfProtection } from "./auth/csrf";
 import { moduleRouters } from "./modules";
 import type { AppDeps, AppServices } from "./app-deps";
 
@@ -44,10 +43,19 @@ export function createApp(services: AppServices) {
   app.use(express.json({ limit: "5mb" }));
 
   const PgStore = connectPgSimple(session);
+  // The session table comes with the migrations (the runtime role creates no tables). Pruning is a
+  // DELETE of expired rows; two instances pruning at once is harmless.
+  const store = new PgStore({
+    pool: services.pool,
+    tableName: "session",
+    createTableIfMissing: false,
+    pruneSessionInterval: services.config.NODE_ENV === "test" ? false : 15 * 60,
+    errorLog: (...args: unknown[]) => logger.warn({ args }, "session store"),
+  });
   app.use(
     session({
       name: "tenthwise.sid",
-      store: new PgStore({ pool: services.pool, tableName: "session", createTableIfMissing: true, pruneSessionInterval: 15 * 60 }),
+      store,
       secret: services.config.SESSION_SECRET,
       resave: false,
       saveUninitialized: false,
@@ -59,32 +67,36 @@ export function createApp(services: AppServices) {
   app.use(passport.initialize());
   app.use(passport.session());
 
-  // Double-submit: the token lives in the session and comes back in X-CSRF-Token.
-  const { csrfSynchronisedProtection, generateToken } = csrfSync({
-    getTokenFromRequest: (req) => req.headers["x-csrf-token"] as string | undefined,
-  });
-  app.use("/api", (req: Request, res: Response, next: NextFunction) => {
-    csrfSynchronisedProtection(req, res, (err?: unknown) => next(err ? Errors.csrf() : undefined));
-  });
+  const csrf = csrfProtection(services.config.SESSION_SECRET, services.config.COOKIE_SECURE);
+  app.use("/api", (req: Request, res: Response, next: NextFunction) => csrf.protect(req, res, next));
 
   app.get("/api/health", async (_req, res) => {
     try {
       await services.pool.query("select 1");
       res.json({ ok: true, db: "up" });
-    } catch {
-      res.status(503).json({ ok: false, db: "down" });
+    } catch (err) {
+      // The documented error shape, with the health fields beside it.
+      res.setHeader("Retry-After", "2");
+      res.status(503).json({
+        ok: false,
+        db: "down",
+        error: {
+          code: "database_unavailable",
+          message: isDatabaseUnavailable(err) ? "The database is not reachable right now; the server keeps trying." : "The database did not answer the health check.",
+        },
+      });
     }
   });
   deps.registry.add({ method: "get", path: "/api/health", summary: "Liveness and database check", tag: "health", permission: "anyone", status: 200 });
 
-  app.use(authRoutes(deps, passport, generateToken));
+  app.use(authRoutes(deps, passport, csrf));
   for (const make of moduleRouters) app.use(make(deps));
 
   app.get("/api/openapi.json", (_req, res) => {
     res.json(deps.registry.document({ title: "Tenthwise API", version: "1" }));
   });
   app.use("/api", (req, res) => {
-    res.status(404).json({ error: { code: "route_not_found", message: `There is no ${req.method} ${req.originalUrl} in the Tenthwise API.` } });
+    sendError(res, 404, "route_not_found", `There is no ${req.method} ${req.originalUrl.slice(0, 200)} in the Tenthwise API.`);
   });
 
   const clientDir = services.clientDir ?? path.resolve(process.cwd(), "dist/client");

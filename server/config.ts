@@ -8,6 +8,12 @@ const ConfigSchema = z.object({
   PORT: z.coerce.number().int().min(1).max(65535).default(3000),
   HOST: z.string().default("127.0.0.1"),
   DATABASE_URL: z.string().url({ message: "DATABASE_URL must be a postgres:// URL" }),
+  /** The owner role's URL, for migrations; the app itself runs as DATABASE_URL's (runtime) role. */
+  DATABASE_OWNER_URL: z.string().url({ message: "DATABASE_OWNER_URL must be a postgres:// URL" }).optional(),
+  DB_POOL_MAX: z.coerce.number().int().min(2).max(200).default(10),
+  DB_STATEMENT_TIMEOUT_MS: z.coerce.number().int().min(0).default(30_000),
+  DB_IDLE_IN_TRANSACTION_TIMEOUT_MS: z.coerce.number().int().min(0).default(15_000),
+  DB_LOCK_TIMEOUT_MS: z.coerce.number().int().min(0).default(10_000),
   SESSION_SECRET: z.string().min(16, "SESSION_SECRET must be at least 16 characters").default("tenthwise-dev-session-secret-change-me"),
   PUBLIC_URL: z.string().url().optional(),
   SHOP_TIME_ZONE: z.string().default("America/Chicago"),
@@ -22,7 +28,10 @@ const ConfigSchema = z.object({
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
   COOKIE_SECURE: z.enum(["true", "false"]).default("false").transform((v) => v === "true"),
   LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+  LOGIN_ADDRESS_RATE_LIMIT: z.coerce.number().int().min(1).default(30),
   CRON_ENABLED: z.enum(["true", "false"]).default("true").transform((v) => v === "true"),
+  /** npm start seeds the invented demo shop into an empty database unless this is false (a shop starting for real). */
+  SEED_DEMO: z.enum(["true", "false"]).default("true").transform((v) => v === "true"),
 });
 
 export type Config = z.infer<typeof ConfigSchema>;

@@ -9,6 +9,8 @@ import { usersRepository } from "../modules/users/users.repository";
 import { LoginSchema, UserSchema } from "../../shared/users/users.schemas";
 import { Errors } from "../http/errors";
 import { z } from "zod";
+import { PgThrottleStore } from "./login-throttle";
+import type { csrfProtection } from "./csrf";
 
 /**
  * A passport instance of this app's own (never the module-wide singleton, so
@@ -19,6 +21,7 @@ export function configurePassport(deps: AppDeps) {
   const passport = new Passport();
   const service = usersService(deps);
   passport.use(
+    // The e-mail as the schema reads it (trimmed, lower case): "  Crib@shop " signs in as crib@shop.
     new LocalStrategy({ usernameField: "email", passwordField: "password" }, (email, password, done) => {
       service
         .verifyPassword(email, password)
@@ -41,27 +44,39 @@ function toSessionUser(u: { id: string; email: string; name: string; role: Sessi
   return { id: u.id, email: u.email, name: u.name, role: u.role };
 }
 
-export function authRoutes(deps: AppDeps, passport: InstanceType<typeof Passport>, generateToken: (req: Request, overwrite?: boolean) => string) {
+/** The e-mail of a sign-in body as the schema reads it, for counting attempts. */
+const emailOf = (req: Request) => String(req.body?.email ?? "").trim().toLowerCase();
+
+export function authRoutes(deps: AppDeps, passport: InstanceType<typeof Passport>, csrf: ReturnType<typeof csrfProtection>) {
   const router = Router();
   const route = defineRoutes(router, deps.registry, "auth");
 
-  // Only failed sign-ins count, per address and e-mail, so a shop sharing one
-  // address is not locked out by one person's typing.
-  const limiter = rateLimit({
-    windowMs: 15 * 60 * 1000,
-    limit: deps.config.LOGIN_RATE_LIMIT,
-    skipSuccessfulRequests: true,
-    standardHeaders: "draft-8",
-    legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? "")}|${String(req.body?.email ?? "").toLowerCase()}`,
-    handler: (_req, res) => {
-      res.status(429).json({ error: { code: "too_many_attempts", message: "Too many failed sign-ins; wait 15 minutes and try again." } });
-    },
-  });
-  router.post("/api/auth/login", limiter);
+  // Only failed sign-ins count, kept in PostgreSQL so every instance counts the same. Per address and
+  // e-mail (one person's typing does not lock out a shop sharing one address), and per address across
+  // e-mails (trying many accounts from one place is slowed too).
+  const limiter = (name: string, limit: number, key: (req: Request) => string, message: string) =>
+    rateLimit({
+      windowMs: 15 * 60 * 1000,
+      limit,
+      skipSuccessfulRequests: true,
+      standardHeaders: "draft-8",
+      legacyHeaders: false,
+      identifier: name,
+      store: new PgThrottleStore(deps.db, `${name}:`),
+      keyGenerator: key,
+      handler: (_req, res) => {
+        res.status(429).json({ error: { code: "too_many_attempts", message } });
+      },
+    });
+  const address = (req: Request) => ipKeyGenerator(req.ip ?? "");
+  router.post(
+    "/api/auth/login",
+    limiter("address", deps.config.LOGIN_ADDRESS_RATE_LIMIT, address, "Too many failed sign-ins from this address; wait 15 minutes and try again."),
+    limiter("account", deps.config.LOGIN_RATE_LIMIT, (req) => `${address(req)}|${emailOf(req)}`, "Too many failed sign-ins; wait 15 minutes and try again."),
+  );
 
-  route({ method: "get", path: "/api/auth/csrf", summary: "Token for the X-CSRF-Token header", access: "public", response: z.object({ token: z.string() }) }, ({ req }) => ({
-    token: generateToken(req),
+  route({ method: "get", path: "/api/auth/csrf", summary: "Token for the X-CSRF-Token header", access: "public", response: z.object({ token: z.string() }) }, ({ req, res }) => ({
+    token: csrf.token(req, res),
   }));
 
   route(
@@ -75,7 +90,7 @@ export function authRoutes(deps: AppDeps, passport: InstanceType<typeof Passport
           // token lived in the old session, so hand out a fresh one.
           req.login(user, (loginErr) => {
             if (loginErr) return reject(loginErr);
-            resolve({ user, csrfToken: generateToken(req, true) });
+            resolve({ user, csrfToken: csrf.token(req, res, true) });
           });
         })(req, res);
       }),

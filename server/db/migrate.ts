@@ -14,7 +14,8 @@ export function migrationsFolder(): string {
 
 /** Applies every pending migration from drizzle/. */
 export async function runMigrations(url: string): Promise<void> {
-  const { pool, db } = createDb(url, 1);
+  // A migration may rewrite a large table: no statement or lock time limit here.
+  const { pool, db } = createDb(url, { max: 1, statementTimeoutMs: 0, lockTimeoutMs: 0, idleInTransactionMs: 0, applicationName: "tenthwise-migrate" });
   try {
     await migrate(db, { migrationsFolder: migrationsFolder() });
   } finally {

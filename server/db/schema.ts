@@ -17,3 +17,5 @@ export * from "../modules/investigations/investigations.table";
 export * from "../modules/reminders/reminders.table";
 export * from "../modules/intervals/intervals.table";
 export * from "../modules/studies/studies.table";
+export * from "../modules/files/files.table";
+export * from "../auth/login-throttle.table";

@@ -11,6 +11,7 @@ export interface CaughtMessage {
   sentAt: string;
   text: string;
   html: string | null;
+  messageId?: string | null;
 }
 
 export interface MailCatcherOptions {
@@ -29,6 +30,8 @@ export async function startMailCatcher(opts: MailCatcherOptions) {
   const host = opts.host ?? "127.0.0.1";
   const messages: CaughtMessage[] = [];
   let failuresToInject = 0;
+  let duplicates = 0;
+  let delayMs = 0;
   if (opts.storeFile && fs.existsSync(opts.storeFile)) {
     for (const line of fs.readFileSync(opts.storeFile, "utf8").split("\n")) {
       if (line.trim()) messages.push(JSON.parse(line));
@@ -39,7 +42,8 @@ export async function startMailCatcher(opts: MailCatcherOptions) {
     authOptional: true,
     disabledCommands: ["STARTTLS"],
     logger: false,
-    onData(stream, session, callback) {
+    onData(stream, session, done) {
+      const callback = (err?: Error | null) => (delayMs ? void setTimeout(() => done(err), delayMs) : done(err));
       if (failuresToInject > 0) {
         failuresToInject--;
         stream.resume();
@@ -52,6 +56,12 @@ export async function startMailCatcher(opts: MailCatcherOptions) {
       }
       simpleParser(stream)
         .then((parsed) => {
+          // Like a mailbox, the catcher keeps one copy of a message sent twice under one Message-ID.
+          const id = parsed.messageId ?? null;
+          if (id && messages.some((m) => m.messageId === id && m.to.join() === session.envelope.rcptTo.map((r) => r.address).join())) {
+            duplicates++;
+            return callback();
+          }
           const msg: CaughtMessage = {
             to: session.envelope.rcptTo.map((r) => r.address),
             from: session.envelope.mailFrom ? session.envelope.mailFrom.address : "",
@@ -59,6 +69,7 @@ export async function startMailCatcher(opts: MailCatcherOptions) {
             sentAt: new Date().toISOString(),
             text: parsed.text ?? "",
             html: typeof parsed.html === "string" ? parsed.html : null,
+            messageId: id,
           };
           messages.push(msg);
           if (opts.storeFile) fs.appendFileSync(opts.storeFile, JSON.stringify(msg) + "\n");
@@ -95,6 +106,12 @@ export async function startMailCatcher(opts: MailCatcherOptions) {
     smtpPort: (smtp.server.address() as { port: number }).port,
     httpPort: httpServer ? (httpServer.address() as { port: number }).port : null,
     messages: () => [...messages],
+    /** Deliveries of a message already kept under its Message-ID (re-sends after a crash). */
+    duplicates: () => duplicates,
+    /** Makes every delivery take this long before it is accepted (a slow mail server). */
+    slowDown: (ms: number) => {
+      delayMs = ms;
+    },
     clear: () => {
       messages.length = 0;
     },

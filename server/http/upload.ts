@@ -29,3 +29,18 @@ export const isMulterError = (err: unknown): err is multer.MulterError => err in
 export function uploadOnlyFor(permission: Permission, parse: RequestHandler): RequestHandler {
   return (req, res, next) => (can((req.user as SessionUser | undefined)?.role, permission) ? parse(req, res, next) : next());
 }
+
+/** File types the register keeps, recognised by their first bytes (never by the name or the declared type). */
+const SIGNATURES: { type: string; test: (b: Buffer) => boolean }[] = [
+  { type: "application/pdf", test: (b) => b.subarray(0, 5).toString("latin1") === "%PDF-" },
+  { type: "image/png", test: (b) => b.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) },
+  { type: "image/jpeg", test: (b) => b[0] === 0xff && b[1] === 0xd8 && b[2] === 0xff },
+  { type: "image/webp", test: (b) => b.subarray(0, 4).toString("latin1") === "RIFF" && b.subarray(8, 12).toString("latin1") === "WEBP" },
+  // ISO BMFF (ISO/IEC 14496-12) "ftyp" box with a HEIF brand (ISO/IEC 23008-12): phone photos.
+  { type: "image/heic", test: (b) => b.subarray(4, 8).toString("latin1") === "ftyp" && ["heic", "heix", "hevc", "heim", "heis", "mif1", "msf1"].includes(b.subarray(8, 12).toString("latin1")) },
+];
+
+/** The content type the bytes really are, or null when they are none of PDF, PNG, JPEG, WebP, HEIC. */
+export function sniffFileType(bytes: Buffer): string | null {
+  return SIGNATURES.find((s) => s.test(bytes))?.type ?? null;
+}

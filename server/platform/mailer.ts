@@ -5,6 +5,11 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html?: string;
+  /**
+   * A stable Message-ID (RFC 5322 §3.6.4) for a message that may be sent again after a crash: the same
+   * message keeps the same id, so mailboxes (and the local catcher) keep one copy.
+   */
+  messageId?: string;
 }
 
 /** Sends mail over SMTP; only configuration differs between the local catcher and a real service. */

@@ -454,7 +454,12 @@ export async function seedRegister(ctx: SeedContext): Promise<void> {
   const outside = async (tag: string, lab: { id: string; name: string }, daysAgo: number, review: boolean) => {
     const performedAt = ago(daysAgo, 3);
     const number = `${lab.name.startsWith("Meridian") ? "MDL" : "KM"}-DEMO-${tag}-${daysAgo}`;
-    const fileKey = await storeFile("calibration-certificates", [`Certificate of calibration ${number}`, `Instrument: ${tag}, dial indicator 0-1 in (demo)`, `Calibrated ${calendarDate(performedAt, tz)} by ${lab.name}`, `Accredited by ${ACCREDITOR}; traceable to ${NMI}`]);
+    // Uploaded as the upload route would, so the record may name the key it was issued.
+    const certificateLines = [`Certificate of calibration ${number}`, `Instrument: ${tag}, dial indicator 0-1 in (demo)`, `Calibrated ${calendarDate(performedAt, tz)} by ${lab.name}`, `Accredited by ${ACCREDITOR}; traceable to ${NMI}`];
+    const certificatePdf = await demoPdf(certificateLines);
+    const fileKey = ctx.storage
+      ? (await calibrationsService(deps(new Date(performedAt.getTime() + 25 * HOUR))).uploadCertificate({ buffer: certificatePdf, fileName: `${number}.pdf`, contentType: "application/pdf", size: certificatePdf.length }, quality.id)).fileKey
+      : null;
     const cal = await calibrationsService(deps(new Date(performedAt.getTime() + 26 * HOUR))).create(
       tag,
       CreateCalibrationSchema.parse({

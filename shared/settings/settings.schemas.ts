@@ -22,7 +22,13 @@ export const SettingsSchema = z.object({
   intervalConfidence: z.number().min(0.8).max(0.999),
 });
 export type Settings = z.infer<typeof SettingsSchema>;
-export const UpdateSettingsSchema = SettingsSchema.partial();
+/** Five cron fields (minute hour day-of-month month weekday); a sixth, seconds, field would mail every second. */
+export const ReminderCronSchema = SettingsSchema.shape.reminderCron.refine((v) => v.trim().split(/\s+/).length <= 5, "Use five fields: minute hour day month weekday (no seconds field).");
+export const ReminderStagesSchema = SettingsSchema.shape.reminderStages.refine((v) => new Set(v).size === v.length, "Each lead time once: the same stage twice would send the same reminder twice.");
+
+export const UpdateSettingsSchema = SettingsSchema.partial()
+  .extend({ reminderCron: ReminderCronSchema.optional(), reminderStages: ReminderStagesSchema.optional() })
+  .refine((v) => Object.keys(v).length > 0, "Change at least one setting.");
 export type UpdateSettings = z.infer<typeof UpdateSettingsSchema>;
 
 export const DEFAULT_SETTINGS: Omit<Settings, "shopTimeZone"> = {

@@ -25,7 +25,8 @@ export const CertificateInputSchema = z
     dueAt: CalendarDateSchema,
     /** Expanded uncertainty U in the standard's unit. */
     expandedUncertainty: LengthSchema.nonnegative(),
-    coverageFactor: z.number().positive().default(2),
+    // k is about 2 for 95 % (JCGM 100:2008, 6.3.3); anything past 10 is a slip.
+    coverageFactor: z.number().positive().max(10).default(2),
     /** Degrees of freedom of U where the certificate states them; absent = infinite (k = 2 for about 95 %). */
     degreesOfFreedom: z.number().min(1).nullish(),
     accreditationBody: optionalText(120),

@@ -69,6 +69,8 @@ export const CreateToolSchema = z
     elements: z.array(SetElementInputSchema).max(200).optional(),
   })
   .refine((v) => v.rangeMax >= v.rangeMin, { message: "The top of the range is below the bottom.", path: ["rangeMax"] })
+  // A tool reads its range in steps of its resolution: a step larger than the whole range is a typing slip.
+  .refine((v) => v.rangeMax === v.rangeMin || v.resolution <= v.rangeMax - v.rangeMin, { message: "The resolution is larger than the whole range; check the unit and the figures.", path: ["resolution"] })
   .refine(personalNeedsOwner, personalMessage)
   .refine((v) => new Set((v.elements ?? []).map((e) => e.label)).size === (v.elements ?? []).length, {
     message: "Each element of a set needs its own label.",

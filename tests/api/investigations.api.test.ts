@@ -116,14 +116,14 @@ describe("opening an investigation when a tool is found out of tolerance", () =>
     await makeExactCalibration(t.db, tool.id, { performedAt: GOOD_CAL, points: [{ nominal: "0.500", asFound: "0.5000" }] });
     await makeCheck(t.db, tool.id, { performedAt: "2026-04-01T15:00:00Z", nominal: "0.500", reading: "0.5000" });
     const failed = await makeCheck(t.db, tool.id, { performedAt: FINDING_AT, nominal: "0.500", reading: "0.5003" });
-    await updateSettings(t.db, "America/Chicago", { windowStartsAtPassingCheck: true }, t.people.admin.id);
+    await t.db.transaction((tx) => updateSettings(tx, "America/Chicago", { windowStartsAtPassingCheck: true }, t.people.admin.id));
     try {
       const id = await find({ kind: "check_failure", toolId: tool.id, checkId: failed.id, at: new Date(FINDING_AT), actorId: null });
       const inv = await detail(id);
       expect(inv.windowStart).toBe(new Date("2026-04-01T15:00:00Z").toISOString());
       expect(inv.finding.errors).toEqual([{ nominal: 0.5, error: 0.0003, uncertainty: null, mpe: 0.0001 }]);
     } finally {
-      await updateSettings(t.db, "America/Chicago", { windowStartsAtPassingCheck: false }, t.people.admin.id);
+      await t.db.transaction((tx) => updateSettings(tx, "America/Chicago", { windowStartsAtPassingCheck: false }, t.people.admin.id));
     }
   });
 });

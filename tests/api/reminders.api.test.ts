@@ -139,8 +139,11 @@ describe("exactly once, even with two instances or a crash", () => {
     expect(await run()).toMatchObject({ sent: 0 });
     expect(catcher.messages()).toHaveLength(4);
 
-    const runs = (await (await t.agent("admin")).get("/api/admin/reminder-runs")).body.items as { status: string; error: string | null }[];
-    expect(runs.filter((r) => r.status === "failed").map((r) => r.error)).toEqual(["process killed"]);
+    // Earlier tests of this file moved the clock past today and left runs dated later than these: ask
+    // for this test's runs by what they are, not by their place on the first page of the list.
+    const runs = (await (await t.agent("admin")).get("/api/admin/reminder-runs?pageSize=500")).body.items as { id: string; status: string; error: string | null }[];
+    expect(runs.filter((r) => r.status === "failed" && r.error === "process killed")).toHaveLength(1);
+    expect(runs.find((r) => r.id === rerun.runId)?.status).toBe("finished");
   });
 });
 

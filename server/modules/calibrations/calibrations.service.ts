@@ -30,6 +30,8 @@ import type { Page } from "../../../shared/common/lists.schemas";
 import { fromDb, fromDbOrNull, toDb, toDbOrNull, unknownReference, type RegisterDeps } from "../tools/register.common";
 import type { DbOrTx } from "../../db/client";
 import { dec, num } from "../../../shared/common/decimal";
+import { isUniqueViolation } from "../../db/errors";
+import { claimStoredFile, recordStoredFile } from "../files/files.repository";
 
 export const calibrationCertificateUrl = (c: Pick<CalibrationRow, "id" | "certificateFileKey">) =>
   c.certificateFileKey ? `/api/calibrations/${c.id}/certificate` : null;
@@ -197,12 +199,7 @@ export function calibrationsService(deps: RegisterDeps) {
         if (await calibrationsRepository.supersededBy(db, old.id)) throw refused("already_superseded", "That record has already been corrected; correct the latest record instead.");
       }
       if (input.labId && !(await labsRepository.findById(db, input.labId))) throw unknownReference("lab", input.labId);
-      if (input.certificateFileKey) {
-        if (!deps.storage) throw new AppError("storage_unavailable", 503, "File storage is not available.");
-        await deps.storage.get(input.certificateFileKey).catch(() => {
-          throw new AppError("unknown_file", 400, "The certificate file was not found; upload it again.");
-        });
-      }
+      if (input.certificateFileKey && !deps.storage) throw new AppError("storage_unavailable", 503, "File storage is not available.");
       const elementIds = [...new Set(input.points.map((p) => p.elementId).filter((x): x is string => !!x))];
       for (const id of elementIds) if (!(await toolsRepository.findElement(db, tool.id, id))) throw unknownReference("element", id);
       const used = await standardsInCalibration(db, input.standardIds, day);
@@ -285,6 +282,8 @@ export function calibrationsService(deps: RegisterDeps) {
           })),
           used.map((u) => u.standard.id),
         );
+        // The certificate file must be one the upload route issued for a calibration, named by no other record.
+        if (input.certificateFileKey) await claimStoredFile(tx, input.certificateFileKey, "calibration_certificate", `calibration:${row.id}`, clock.now());
         await recordAudit(tx, {
           actorId,
           action: input.supersedesId ? "calibration.supersede" : "calibration.create",
@@ -301,6 +300,10 @@ export function calibrationsService(deps: RegisterDeps) {
           ? null
           : await onOutOfToleranceFinding(tx, { clock, mailer: deps.mailer, timeZone }, { kind: "as_found_failure", toolId: tool.id, calibrationId: row.id, at: performedAt, actorId });
         return { id: row.id, investigationId: opened?.investigationId ?? null };
+      }).catch((e: unknown) => {
+        // Simultaneous corrections of one record: the unique index lets exactly one through.
+        if (isUniqueViolation(e, "calibrations_one_correction_each")) throw refused("already_superseded", "That record has just been corrected by someone else; correct the latest record instead.");
+        throw e;
       });
       return one(id, { investigationId });
     },
@@ -346,6 +349,9 @@ export function calibrationsService(deps: RegisterDeps) {
         if (await calibrationsRepository.reviewOf(tx, id)) throw refused("already_reviewed", "This certificate has been reviewed already; record a correcting calibration if the review was wrong.");
         const review = await calibrationsRepository.insertReview(tx, { calibrationId: id, reviewedBy: actorId, reviewedAt: clock.now(), accepted: input.accepted, findings: input.findings });
         await recordAudit(tx, { actorId, action: "calibration.review", entityType: "calibration", entityId: id, after: review, at: clock.now() });
+      }).catch((e: unknown) => {
+        if (isUniqueViolation(e, "calibration_reviews_one_per_calibration")) throw refused("already_reviewed", "This certificate was reviewed a moment ago by someone else.");
+        throw e;
       });
       return one(id);
     },
@@ -353,7 +359,10 @@ export function calibrationsService(deps: RegisterDeps) {
     async uploadCertificate(file: { buffer: Buffer; fileName: string; contentType: string; size: number }, actorId: string | null): Promise<UploadedFile> {
       if (!deps.storage) throw new AppError("storage_unavailable", 503, "File storage is not available.");
       const key = await deps.storage.put("calibration-certificates", file.buffer, file.contentType, file.fileName);
-      await recordAudit(db, { actorId, action: "calibration.certificate.upload", entityType: "file", entityId: key, after: { fileName: file.fileName, size: file.size }, at: clock.now() });
+      await db.transaction(async (tx) => {
+        await recordStoredFile(tx, { key, purpose: "calibration_certificate", contentType: file.contentType, size: file.size, fileName: file.fileName, uploadedBy: actorId, uploadedAt: clock.now() });
+        await recordAudit(tx, { actorId, action: "calibration.certificate.upload", entityType: "file", entityId: key, after: { fileName: file.fileName, size: file.size }, at: clock.now() });
+      });
       return { fileKey: key, fileName: file.fileName, contentType: file.contentType, size: file.size };
     },
 

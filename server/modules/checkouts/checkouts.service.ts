@@ -10,6 +10,8 @@ import { onOutOfToleranceFinding } from "../investigations/investigations.hooks"
 import { recordAudit } from "../audit/audit.repository";
 import { getSettings } from "../settings/settings.service";
 import { AppError, notFound, refused } from "../../http/errors";
+import { sniffFileType } from "../../http/upload";
+import { recordStoredFile } from "../files/files.repository";
 import { STATUS_LABELS } from "../../../shared/tools/tool-status";
 import { calendarDate } from "../../../shared/common/dates";
 import { dec, num } from "../../../shared/common/decimal";
@@ -198,7 +200,9 @@ export function checkoutsService(deps: CribDeps) {
       const existing = await repo.findById(db, id);
       if (!existing) throw notFound("checkout", id);
       if (existing.returnedAt) throw refused("already_returned", `This tool was already returned on ${calendarDate(existing.returnedAt, zone())}.`);
-      if (photo && !PHOTO_TYPES.has(photo.mimetype)) {
+      // The bytes decide, not the declared type: HTML sent as image/png is no photo.
+      const photoType = photo ? sniffFileType(photo.buffer) : null;
+      if (photo && (!photoType || !PHOTO_TYPES.has(photoType))) {
         throw new AppError("invalid_input", 400, "The photo must be a JPEG, PNG, WebP or HEIC image.", [{ path: ["photo"], message: "Not an image." }]);
       }
       const tool = (await repo.findToolById(db, existing.toolId))!;
@@ -209,7 +213,7 @@ export function checkoutsService(deps: CribDeps) {
         if (input.zeroCheck.standardId && !(await repo.standardExists(db, input.zeroCheck.standardId))) throw notFound("standard", input.zeroCheck.standardId);
       }
       if (photo && !deps.storage) throw new AppError("storage_unavailable", 503, "Photo storage is not available; return the tool without the photo.");
-      const photoKey = photo ? await deps.storage!.put(`checkouts/${id}`, photo.buffer, photo.mimetype, photo.originalname) : null;
+      const photoKey = photo ? await deps.storage!.put(`checkouts/${id}`, photo.buffer, photoType!, photo.originalname) : null;
 
       const messages: string[] = [];
       const outcome = await db.transaction(async (tx) => {
@@ -221,6 +225,9 @@ export function checkoutsService(deps: CribDeps) {
           returnPhotoKey: photoKey,
         });
         if (!closed) throw refused("already_returned", "This tool was returned a moment ago by someone else.");
+        if (photoKey) {
+          await recordStoredFile(tx, { key: photoKey, purpose: "return_photo", contentType: photoType!, size: photo!.buffer.length, fileName: photo!.originalname || "photo", uploadedBy: actorId, uploadedAt: now, claimedBy: `checkout:${id}`, claimedAt: now });
+        }
         await recordAudit(tx, { actorId, action: "checkout.return", entityType: "checkout", entityId: id, before: existing, after: closed, at: now });
         const fdeps = await findingDeps(tx);
         let investigationId: string | null = null;

@@ -5,7 +5,7 @@ import { standardsRepository } from "../standards/standards.repository";
 import { statusContext, statusOf } from "../tools/tool-status.service";
 import { onOutOfToleranceFinding } from "../investigations/investigations.hooks";
 import { recordAudit } from "../audit/audit.repository";
-import { notFound, refused } from "../../http/errors";
+import { AppError, notFound, refused } from "../../http/errors";
 import { calendarDate } from "../../../shared/common/dates";
 import { dec } from "../../../shared/common/decimal";
 import type { Check, CheckResult, CreateCheck } from "../../../shared/calibrations/calibrations.schemas";
@@ -47,6 +47,11 @@ export function checksService(deps: RegisterDeps) {
     async create(assetTag: string, input: CreateCheck, actorId: string | null, context: CheckRow["context"] = "pre_use"): Promise<CheckResult> {
       const tool = await getToolRow(db, assetTag);
       if (tool.lifecycle === "retired") throw refused("tool_retired", `${tool.assetTag} is retired; it is not checked any more.`);
+      // A check point the tool cannot read (nominal 500 on a 0–1 in micrometer) is a slip of the keyboard.
+      if (dec(input.nominal).lt(dec(tool.rangeMin)) || dec(input.nominal).gt(dec(tool.rangeMax))) {
+        const message = `The check point ${input.nominal} ${tool.unit} is outside the range of ${tool.assetTag} (${tool.rangeMin}–${tool.rangeMax} ${tool.unit}).`;
+        throw new AppError("check_outside_range", 400, message, [{ code: "custom", path: ["nominal"], message }]);
+      }
       const family = await getFamilyRow(db, tool.familyId);
       const toleranceText = family.checkTolerance ?? family.mpe;
       if (toleranceText == null) throw refused("no_check_tolerance", `The family "${family.name}" sets no check tolerance or permissible error; set one before recording checks.`);

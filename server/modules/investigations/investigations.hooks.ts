@@ -1,4 +1,4 @@
-import type { DbOrTx } from "../../db/client";
+import type { DbOrTx, Tx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
 import { openToolInvestigation } from "./investigations.service";
@@ -28,7 +28,7 @@ export interface FindingDeps {
  * error found. Quality and the people of each affected job are e-mailed once
  * the caller's transaction has committed (nothing is sent if it rolls back).
  */
-export async function onOutOfToleranceFinding(tx: DbOrTx, deps: FindingDeps, finding: Finding): Promise<{ investigationId: string } | null> {
+export async function onOutOfToleranceFinding(tx: Tx, deps: FindingDeps, finding: Finding): Promise<{ investigationId: string } | null> {
   return openToolInvestigation(tx, deps, finding);
 }
 

@@ -2,7 +2,7 @@ import { and, eq, sql } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import type pg from "pg";
 import * as schema from "../../db/schema";
-import type { Db, DbOrTx } from "../../db/client";
+import type { Db, DbOrTx, Tx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
 import { recordAudit } from "../audit/audit.repository";
@@ -22,7 +22,7 @@ export interface Recipient {
  * signed it and whoever measured) and records them on the investigation as pending, inside the opening
  * transaction. The mail itself goes out only once that transaction has committed (see sendAfterCommit).
  */
-export async function recordNotices(tx: DbOrTx, investigationId: string, finding: StoredFinding): Promise<StoredFinding> {
+export async function recordNotices(tx: Tx, investigationId: string, finding: StoredFinding): Promise<StoredFinding> {
   const { quality, measured, signed } = await noticeRecipients(tx, investigationId);
   const byEmail = new Map<string, Recipient>();
   const add = (u: { email: string; name: string }, reason: string) => {

@@ -1,4 +1,4 @@
-import type { Db, DbOrTx } from "../../db/client";
+import type { Db, DbOrTx, Tx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import { AppError, notFound, refused } from "../../http/errors";
 import { recordAudit } from "../audit/audit.repository";
@@ -98,7 +98,7 @@ function pointsOf(rows: { nominal: string; errorAsFound: string; uncertainty: st
 }
 
 /** Opens the investigation of a finding on a tool, inside the caller's transaction. */
-export async function openToolInvestigation(tx: DbOrTx, deps: FindingDeps, finding: Finding): Promise<{ investigationId: string }> {
+export async function openToolInvestigation(tx: Tx, deps: FindingDeps, finding: Finding): Promise<{ investigationId: string }> {
   const tool = await repo.findTool(tx, finding.toolId);
   if (!tool) throw new Error(`investigation: tool ${finding.toolId} missing`);
   const settings = await getSettings(tx, deps.timeZone);
@@ -173,7 +173,7 @@ export async function openToolInvestigation(tx: DbOrTx, deps: FindingDeps, findi
   return finishOpening(tx, deps, inv, items, finding.actorId);
 }
 
-async function finishOpening(tx: DbOrTx, deps: FindingDeps, inv: repo.InvestigationRow, items: ItemInsert[], actorId: string | null) {
+async function finishOpening(tx: Tx, deps: FindingDeps, inv: repo.InvestigationRow, items: ItemInsert[], actorId: string | null) {
   await repo.insertItems(tx, items.map((i) => ({ ...i, investigationId: inv.id })));
   await recordAudit(tx, {
     actorId,

@@ -13,8 +13,12 @@ export function jobsService({ db, clock }: { db: Db; clock: Clock }) {
     /** Opens a job on a limits table revision; the job keeps that revision even when the table is revised later. */
     async create(input: { limitTableId: string; engineSerial: string; workOrder?: string }, user: SessionUser): Promise<JobSummary> {
       const id = await db.transaction(async (tx) => {
+        await limitTablesRepository.lockAgainstRevision(tx, input.limitTableId);
         const table = await limitTablesRepository.summary(tx, input.limitTableId);
         if (!table) throw notFound("limit table", input.limitTableId);
+        // Work is measured against the current revision of the manufacturer's limits, never a superseded one.
+        const newer = await limitTablesRepository.revisionOf(tx, input.limitTableId);
+        if (newer) throw refused("table_superseded", "This limits table has been revised; open the job on its current revision.", { currentId: newer.id });
         const at = clock.now();
         const row = await jobsRepository.insert(tx, {
           limitTableId: input.limitTableId,

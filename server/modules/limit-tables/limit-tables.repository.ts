@@ -64,6 +64,10 @@ export const limitTablesRepository = {
     const res = await db.execute(sql`select id, version from limit_tables where id = ${id} for update`);
     return res.rows[0] as { id: string; version: number } | undefined;
   },
+  /** Holds off a revision of the table until the caller's transaction ends (a job opening on it). */
+  async lockAgainstRevision(db: DbOrTx, id: string) {
+    await db.execute(sql`select id from limit_tables where id = ${id} for share`);
+  },
   async revisionOf(db: DbOrTx, id: string) {
     const [row] = await db.select({ id: limitTables.id }).from(limitTables).where(eq(limitTables.supersedesId, id));
     return row;

@@ -1,4 +1,4 @@
-import type { DbOrTx } from "../../db/client";
+import type { DbOrTx, Tx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { refused } from "../../http/errors";
@@ -37,7 +37,7 @@ export async function getNotificationPreferences(db: DbOrTx, user: SessionUser):
 }
 
 /** Turns digests on or off; escalations stay on, and a digest the role does not receive cannot be chosen. */
-export async function updateNotificationPreferences(tx: DbOrTx, clock: Clock, user: SessionUser, patch: UpdateNotificationPreferences): Promise<NotificationPreferences> {
+export async function updateNotificationPreferences(tx: Tx, clock: Clock, user: SessionUser, patch: UpdateNotificationPreferences): Promise<NotificationPreferences> {
   for (const [key, on] of Object.entries(patch) as [DigestKey, boolean][]) {
     if (LOCKED.has(key) && !on) {
       throw refused("escalations_always_on", "Escalations cannot be turned off: quality must hear about tools still overdue or overdue while issued.");

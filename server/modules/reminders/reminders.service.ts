@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import type pg from "pg";
 import type { Logger } from "pino";
 import type { Db } from "../../db/client";
@@ -116,7 +117,10 @@ async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date)
         baseUrl: world.baseUrl,
         lines: rows.map((r) => world.lineFor(r.toolId, r.stage as ReminderStage)),
       });
-      const outcome = await sendWithRetry(deps, () => deps.mailer.send(mail));
+      // The same reminders to the same person keep one Message-ID, so a digest re-sent after a crash
+      // (sent, then the process died before recording it) is recognised as the same message.
+      const messageId = `<reminders-${createHash("sha256").update(`${recipientId}:${rows.map((r) => r.id).sort().join(",")}`).digest("hex").slice(0, 32)}@tenthwise>`;
+      const outcome = await sendWithRetry(deps, () => deps.mailer.send({ ...mail, messageId }));
       const ids = rows.map((r) => r.id);
       if (outcome.ok) {
         sent++;

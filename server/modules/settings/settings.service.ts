@@ -1,5 +1,5 @@
 import { eq } from "drizzle-orm";
-import type { DbOrTx } from "../../db/client";
+import type { DbOrTx, Tx } from "../../db/client";
 import { settings } from "./settings.table";
 import { DEFAULT_SETTINGS, SettingsSchema, type Settings, type UpdateSettings } from "../../../shared/settings/settings.schemas";
 import { recordAudit } from "../audit/audit.repository";
@@ -15,7 +15,7 @@ export async function getSettings(db: DbOrTx, defaultTimeZone: string): Promise<
   return SettingsSchema.parse({ ...DEFAULT_SETTINGS, shopTimeZone: defaultTimeZone, ...((row?.value as object) ?? {}) });
 }
 
-export async function updateSettings(db: DbOrTx, defaultTimeZone: string, patch: UpdateSettings, actorId: string): Promise<Settings> {
+export async function updateSettings(db: Tx, defaultTimeZone: string, patch: UpdateSettings, actorId: string): Promise<Settings> {
   if (patch.shopTimeZone && !isValidTimeZone(patch.shopTimeZone)) {
     throw new AppError("invalid_time_zone", 400, `"${patch.shopTimeZone}" is not a time zone name such as America/Chicago.`);
   }
@@ -24,6 +24,8 @@ export async function updateSettings(db: DbOrTx, defaultTimeZone: string, patch:
   }
   const before = await getSettings(db, defaultTimeZone);
   const next = SettingsSchema.parse({ ...before, ...patch });
+  // Nothing changes: nothing is written and no audit line says before = after.
+  if (JSON.stringify(next) === JSON.stringify(before)) return before;
   await db
     .insert(settings)
     .values({ key: KEY, value: next, updatedBy: actorId })

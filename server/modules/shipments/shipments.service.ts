@@ -47,6 +47,12 @@ export function shipmentsService(deps: CribDeps) {
       if (shippedAt.getTime() > now.getTime() + 5 * 60_000) {
         throw new AppError("invalid_input", 400, "The shipping date cannot be in the future.", [{ path: ["shippedAt"], message: "In the future." }]);
       }
+      // The expected return is a promise about the future: a date already past is a slip.
+      const shopToday = await today();
+      if (input.expectedBackAt && input.expectedBackAt < calendarDate(shippedAt, (await statusContext(db, config.SHOP_TIME_ZONE)).timeZone)) {
+        const message = `The expected return (${input.expectedBackAt}) is before the shipping date; give a date from ${shopToday} on.`;
+        throw new AppError("invalid_input", 400, message, [{ code: "custom", path: ["expectedBackAt"], message }]);
+      }
       const lab = await repo.findLab(db, input.labId);
       if (!lab) throw notFound("lab", input.labId);
       const found = await checkoutsRepository.findToolsByTags(db, input.assetTags);

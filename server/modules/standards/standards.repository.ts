@@ -1,4 +1,4 @@
-import { and, asc, count, desc, eq, ilike, inArray, or, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, ilike, inArray, isNull, or, sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { standards, standardCertificates } from "./standards.table";
 import { listPage, pageOffset } from "../../db/paging";
@@ -48,5 +48,5 @@ export const standardsRepository = {
   insert: async (db: DbOrTx, values: typeof standards.$inferInsert) => (await db.insert(standards).values(values).returning())[0],
   insertCertificate: async (db: DbOrTx, values: typeof standardCertificates.$inferInsert) => (await db.insert(standardCertificates).values(values).returning())[0],
   setCertificateFile: async (db: DbOrTx, certificateId: string, fileKey: string) =>
-    (await db.update(standardCertificates).set({ fileKey }).where(eq(standardCertificates.id, certificateId)).returning())[0],
+    (await db.update(standardCertificates).set({ fileKey }).where(and(eq(standardCertificates.id, certificateId), isNull(standardCertificates.fileKey))).returning())[0],
 };

@@ -1,7 +1,8 @@
 import { standardsRepository, type CertificateRow, type StandardRow } from "./standards.repository";
 import { labsRepository } from "../labs/labs.repository";
 import { recordAudit } from "../audit/audit.repository";
-import { AppError, notFound } from "../../http/errors";
+import { AppError, notFound, refused } from "../../http/errors";
+import { recordStoredFile } from "../files/files.repository";
 import type { AddCertificate, Certificate, CreateStandard, Standard, StandardDetail, StandardListQuery } from "../../../shared/standards/standards.schemas";
 import { fromDb, fromDbOrNull, toDb, toDbOrNull, unknownReference, type RegisterDeps } from "../tools/register.common";
 import { shopToday } from "../labs/labs.service";
@@ -133,9 +134,14 @@ export function standardsService(deps: RegisterDeps) {
       if (!deps.storage) throw new AppError("storage_unavailable", 503, "File storage is not available.");
       const cert = await standardsRepository.findCertificate(db, standardId, certificateId);
       if (!cert) throw notFound("certificate", certificateId);
+      // A certificate's scanned file is attached once: the lab's document is evidence too.
+      if (cert.fileKey) throw refused("certificate_file_attached", `Certificate ${cert.number} already has its file; add a new certificate for a new document.`);
       const key = await deps.storage.put("standard-certificates", file.buffer, file.contentType, file.fileName);
       return db.transaction(async (tx) => {
+        const at = clock.now();
+        await recordStoredFile(tx, { key, purpose: "standard_certificate", contentType: file.contentType, size: file.buffer.length, fileName: file.fileName, uploadedBy: actorId, uploadedAt: at, claimedBy: `standard_certificate:${certificateId}`, claimedAt: at });
         const after = await standardsRepository.setCertificateFile(tx, certificateId, key);
+        if (!after) throw refused("certificate_file_attached", `Certificate ${cert.number} received its file a moment ago.`);
         await recordAudit(tx, { actorId, action: "standard.certificate.file", entityType: "standard_certificate", entityId: certificateId, before: { fileKey: cert.fileKey }, after: { fileKey: key, fileName: file.fileName }, at: clock.now() });
         return toCertificate(after);
       });

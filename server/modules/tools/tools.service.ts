@@ -1,9 +1,10 @@
 import Papa from "papaparse";
 import { toolsRepository, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
 import { statusContext, statusesFor, statusOf, type ToolStatusView } from "./tool-status.service";
-import { changeLifecycle, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
+import { changeLifecycle, lockTool, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound, refused } from "../../http/errors";
+import { recordStoredFile } from "../files/files.repository";
 import { getFamilyRow, toFamily } from "../families/families.service";
 import { familiesRepository } from "../families/families.repository";
 import { TOOL_STATUSES } from "../../../shared/tools/tool-status";
@@ -300,9 +301,11 @@ export function toolsService(deps: RegisterDeps) {
       const tool = await getToolRow(db, assetTag);
       const now = clock.now();
       await db.transaction(async (tx) => {
+        // One release at a time per tool; the status is read on this transaction's connection (never the pool's).
+        await lockTool(tx, tool.id);
         if (!(await openHold(tx, tool.id))) throw refused("not_quarantined", `${tool.assetTag} is not quarantined.`);
         // Found out of tolerance (failed calibration, or a failed check since the last one): only a passing calibration clears it.
-        const v = await statusOf(db, tool.id, now, await ctx());
+        const v = await statusOf(tx, tool.id, now, await statusContext(tx, defaultTimeZone));
         const last = v.lastCalibration;
         const failedCheck = await toolsRepository.failedCheckSince(tx, tool.id, last ? new Date(last.performedAt) : null);
         if (last?.result === "fail" || failedCheck) {
@@ -347,6 +350,8 @@ export function toolsService(deps: RegisterDeps) {
       const tool = await getToolRow(db, assetTag);
       const key = await deps.storage.put("tool-photos", file.buffer, file.contentType, file.fileName);
       await db.transaction(async (tx) => {
+        const at = clock.now();
+        await recordStoredFile(tx, { key, purpose: "tool_photo", contentType: file.contentType, size: file.buffer.length, fileName: file.fileName, uploadedBy: actorId, uploadedAt: at, claimedBy: `tool:${tool.id}`, claimedAt: at });
         await toolsRepository.update(tx, tool.id, { photoKey: key });
         await recordAudit(tx, { actorId, action: "tool.photo", entityType: "tool", entityId: tool.assetTag, before: { photoKey: tool.photoKey }, after: { photoKey: key }, at: clock.now() });
       });

@@ -4,10 +4,16 @@ import type { Clock } from "../../platform/clock";
 import { usersRepository, type UserRow } from "./users.repository";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound } from "../../http/errors";
+import { assertStrongPassword } from "../../auth/password-policy";
 import type { CreateUserInput, UpdateUserInput, UserDetail } from "../../../shared/users/users.schemas";
 
 // Cost 10 (OWASP minimum for bcrypt): about 60 ms per sign-in here.
 export const BCRYPT_COST = 10;
+
+// An unknown e-mail is compared against a hash of the same cost as real ones, so a failed sign-in takes
+// as long whether or not the person exists (no account enumeration by timing).
+let dummyHash: Promise<string> | null = null;
+const hashForUnknown = () => (dummyHash ??= bcrypt.hash("tenthwise-no-such-person", BCRYPT_COST));
 
 /** The user as other people may see them. */
 export function toUserDetail(u: UserRow): UserDetail {
@@ -26,14 +32,14 @@ export function toUserDetail(u: UserRow): UserDetail {
 export function usersService({ db, clock }: { db: Db; clock: Clock }) {
   return {
     async verifyPassword(email: string, password: string): Promise<UserRow | null> {
-      const user = await usersRepository.findByEmail(db, email);
-      // Compare even for unknown e-mails so timing does not reveal who exists.
-      const ok = await bcrypt.compare(password, user?.passwordHash ?? "$2b$12$invalidinvalidinvalidinvalidinvalidinvalidinvalidinva");
+      const user = await usersRepository.findByEmail(db, email.trim().toLowerCase());
+      const ok = await bcrypt.compare(password, user?.passwordHash ?? (await hashForUnknown()));
       if (!user || !ok || !user.active) return null;
       return user;
     },
 
     async create(input: CreateUserInput, actorId: string | null) {
+      await assertStrongPassword(input.password, input);
       return db.transaction(async (tx) => {
         if (await usersRepository.findByEmail(tx, input.email)) {
           throw new AppError("email_taken", 409, `Someone already signs in as ${input.email}.`);
@@ -73,6 +79,7 @@ export function usersService({ db, clock }: { db: Db; clock: Clock }) {
       return db.transaction(async (tx) => {
         const before = await usersRepository.findById(tx, id);
         if (!before) throw notFound("user", id);
+        await assertStrongPassword(password, before);
         await usersRepository.update(tx, id, { passwordHash: await bcrypt.hash(password, BCRYPT_COST) });
         await usersRepository.deleteSessions(tx, id);
         await recordAudit(tx, { actorId, action: "user.reset_password", entityType: "user", entityId: id });

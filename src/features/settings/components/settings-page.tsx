@@ -2,7 +2,7 @@ import { useEffect } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { SettingsSchema, type Settings } from "../../../../shared/settings/settings.schemas";
+import { ReminderCronSchema, ReminderStagesSchema, SettingsSchema, type Settings } from "../../../../shared/settings/settings.schemas";
 import { api, errorMessage } from "../../../lib/api-client";
 import { PageHeader, Card, ErrorNote, Loading } from "../../../components/ui/layout";
 import { TextField, SelectField } from "../../../components/ui/field";
@@ -11,8 +11,10 @@ import { Button } from "../../../components/ui/button";
 export const settingsKeys = { all: ["settings"] as const };
 export const useSettings = () => useQuery({ queryKey: settingsKeys.all, queryFn: () => api.get<Settings>("/api/settings"), staleTime: 60_000 });
 
+// The same rules the server applies to a change: five cron fields, each lead time once.
 const FormSchema = SettingsSchema.extend({
-  reminderStages: SettingsSchema.shape.reminderStages,
+  reminderCron: ReminderCronSchema,
+  reminderStages: ReminderStagesSchema,
 });
 
 export function SettingsPage() {
