@@ -5,6 +5,8 @@ import type { NavItem } from "./nav-types";
 import { useMe, useLogout } from "../features/auth/api/auth";
 import { can, ROLE_LABELS, type Role } from "../../shared/auth/roles";
 import { cx } from "../components/ui/cx";
+import { useShopSettings } from "../features/tools/api/settings";
+import { setShopTimeZone } from "../lib/format";
 
 const GROUPS: { key: NavItem["group"]; label: string }[] = [
   { key: "work", label: "Bench" },
@@ -27,6 +29,9 @@ export function AppLayout() {
   const logout = useLogout();
   const navigate = useNavigate();
   const [open, setOpen] = useState(false);
+  const settings = useShopSettings();
+  // Every time on every page is shown in the shop's zone: set it before any page renders.
+  setShopTimeZone(settings.data?.shopTimeZone);
   // Signed out a moment ago: render nothing while the router moves to sign-in.
   if (!me.data) return null;
   const user = me.data;

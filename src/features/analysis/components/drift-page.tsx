@@ -13,7 +13,7 @@ import { day } from "./format";
 
 const MS_PER_DAY = 86_400_000;
 const ms = (iso: string) => Date.parse(iso.length === 10 ? `${iso}T12:00:00Z` : iso);
-const monthLabel = new Intl.DateTimeFormat(undefined, { month: "short", year: "numeric", timeZone: "UTC" });
+const monthLabel = { format: (d: Date) => d.toISOString().slice(0, 7) };
 
 /** Tick marks on the first of a month (every 1, 2, 3, 6 or 12 months so that about eight fit), labelled "Jan 2026". */
 export function monthTicks(from: number, to: number): number[] {

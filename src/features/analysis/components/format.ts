@@ -2,7 +2,7 @@
 export const pct = (r: number | null | undefined) => (r == null ? "—" : `${(r * 100).toFixed(1)} %`);
 
 /** An instant as the shop floor reads it: date and time in the browser's zone. */
-export { formatInstant as when } from "../../../lib/format";
+export { formatDateTime as when } from "../../../lib/format";
 
-/** A calendar date (YYYY-MM-DD) as a medium date. */
-export const day = (date: string) => new Date(`${date.slice(0, 10)}T12:00:00Z`).toLocaleDateString(undefined, { dateStyle: "medium", timeZone: "UTC" });
+/** A calendar date, YYYY-MM-DD. */
+export { formatDate as day } from "../../../lib/format";

@@ -11,6 +11,7 @@ import type { Checkout, CheckoutListQuery } from "../../../../shared/checkouts/c
 import { useCheckouts } from "../api/checkouts";
 import { shortWhen } from "./format";
 import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
+import { formatDateTime } from "../../../lib/format";
 
 const FILTER_KEYS = ["q", "overdue"] as const;
 const describeFilters = {
@@ -74,7 +75,7 @@ export function CustodyPage() {
         }
         actions={<Button variant="secondary" onClick={() => window.print()}>Print list</Button>}
       />
-      <p className="mb-2 hidden text-sm print:block">Printed {new Date().toLocaleString()}</p>
+      <p className="mb-2 hidden text-sm print:block">Printed {formatDateTime(new Date())}</p>
       <FilterChips
         className="mb-3"
         filters={activeFilters(list.filters, describeFilters)}

@@ -55,7 +55,7 @@ export function StatusCounts({ byStatus }: { byStatus: StatsDashboard["byStatus"
   );
 }
 
-const shortDate = (d: string) => new Date(`${d}T12:00:00Z`).toLocaleDateString(undefined, { month: "short", day: "numeric", timeZone: "UTC" });
+const shortDate = (d: string) => d.slice(5, 10);
 
 /** Tools falling due per week for the next twelve weeks; a bar opens those tools. */
 export function DueByWeekChart({ weeks }: { weeks: StatsDashboard["dueByWeek"] }) {

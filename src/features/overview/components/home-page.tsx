@@ -9,6 +9,7 @@ import { useDashboard, useInspection, useMine } from "../api/stats";
 import { DueByWeekChart, FamilyRates, StatTile, StatusCounts, TileRow } from "./dashboard-parts";
 import { links } from "./links";
 import { StudyGapsCard } from "../../studies/api/study-cards";
+import { formatDate, formatDateTime } from "../../../lib/format";
 
 const SHOP_VIEW: readonly Role[] = ["quality", "crib", "auditor", "admin"];
 const INSPECTION_VIEW: readonly Role[] = ["inspector", "quality", "auditor", "admin"];
@@ -118,7 +119,7 @@ function JobsCard({ title, jobs, empty, total, allLink }: { title: string; jobs:
               <p className="text-xs text-ink-faint">
                 {j.workOrder ? `WO ${j.workOrder} · ` : ""}
                 {j.readings} reading{j.readings === 1 ? "" : "s"}
-                {j.lastReadingAt ? ` · last ${new Date(j.lastReadingAt).toLocaleString()}` : ""}
+                {j.lastReadingAt ? ` · last ${formatDateTime(j.lastReadingAt)}` : ""}
               </p>
             </li>
           ))}
@@ -155,7 +156,7 @@ function InspectionView() {
                     {v.toolAssetTag ?? v.standardAssetTag ?? "Investigation"} · {v.trigger.replace(/_/g, " ")}
                   </Link>
                   <p className="text-xs text-ink-faint">
-                    Opened {new Date(v.openedAt).toLocaleDateString()} · {v.itemsAwaitingDisposition} item{v.itemsAwaitingDisposition === 1 ? "" : "s"} without a disposition
+                    Opened {formatDate(v.openedAt)} · {v.itemsAwaitingDisposition} item{v.itemsAwaitingDisposition === 1 ? "" : "s"} without a disposition
                   </p>
                 </li>
               ))}

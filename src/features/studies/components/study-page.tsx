@@ -8,6 +8,7 @@ import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
 import { COMPONENT_LABELS } from "../../../../shared/studies/study-labels";
 import type { StudyAnalysis, StudyDetail } from "../../../../shared/studies/studies.schemas";
+import { formatDateTime } from "../../../lib/format";
 
 // The charts (and recharts with them) load only when a finished study's page opens.
 const StudyCharts = lazy(() => import("./study-charts"));
@@ -226,7 +227,7 @@ function ValuesCard({ s }: { s: StudyDetail }) {
                   </td>
                   <td className="pr-2 text-xs">{v.tools.map((t) => `${t.assetTag} (${t.statusAtReading.replace(/_/g, " ")})`).join(", ")}</td>
                   <td className="text-xs">
-                    {new Date(v.takenAt).toLocaleString()}
+                    {formatDateTime(v.takenAt)}
                     {v.supersedeReason && <span className="block no-underline">Correction: {v.supersedeReason}</span>}
                   </td>
                 </tr>

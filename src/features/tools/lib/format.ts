@@ -30,11 +30,8 @@ export function signedLen(value: number | null | undefined, unit: LengthUnit, de
   return value > 0 && !/^0\.?0*$/.test(text) ? `+${text}` : text;
 }
 
-/** Calendar date as written in the records (YYYY-MM-DD stays as is: it is already the shop's date). */
-export function day(value: string | null | undefined): string {
-  if (!value) return "—";
-  return value.length === 10 ? value : new Date(value).toLocaleDateString(undefined, { year: "numeric", month: "short", day: "numeric" });
-}
+/** Calendar date, YYYY-MM-DD (the one client formatter). */
+export { formatDate as day } from "../../../lib/format";
 
 /** An instant as a short local date and time. */
-export { shortInstant as when } from "../../../lib/format";
+export { formatDateTime as when } from "../../../lib/format";
