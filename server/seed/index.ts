@@ -8,6 +8,10 @@ import { seedInspection } from "./inspection.seed";
 import { seedInvestigations } from "./investigations.seed";
 import { seedReminders } from "./reminders.seed";
 import { seedStudies } from "./studies.seed";
+import { updateSettings } from "../modules/settings/settings.service";
+
+/** The invented demo shop's name, as Settings, e-mails and labels show it (README "Demo sign-ins"). */
+export const DEMO_SHOP_NAME = "Harrow Flats Engine Works, demo shop";
 
 const MARK = "demo_seeded_at";
 
@@ -30,6 +34,8 @@ export async function seedDemoOnce(ctx: Omit<SeedContext, "users" | "people" | "
     users: { admin: people.admin, quality: people.quality, inspector: people.inspector, crib: people.crib, mechanic: people.mechanic, auditor: people.auditor },
     shared: {},
   };
+  // The shop's name first: e-mails, labels and pages the later parts produce carry it.
+  await db.transaction((tx) => updateSettings(tx, ctx.config.SHOP_TIME_ZONE, { shopName: DEMO_SHOP_NAME }, people.admin.id));
   await seedRegister(full);
   await seedCrib(full);
   await seedInspection(full);
