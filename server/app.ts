@@ -7,6 +7,7 @@ import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import { pino } from "pino";
 import { OpenApiRegistry } from "./openapi/registry";
+import { requestLog } from "./http/request-log";
 import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
 import { authRoutes, configurePassport } from "./auth/auth.routes";
 import { csrfProtection } from "./auth/csrf";
@@ -33,13 +34,10 @@ export function createApp(services: AppServices) {
       strictTransportSecurity: services.config.COOKIE_SECURE,
     }),
   );
-  app.use(
-    pinoHttp({
-      logger,
-      redact: ["req.headers.cookie", 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'],
-      autoLogging: { ignore: (req) => !req.url?.startsWith("/api") },
-    }),
-  );
+  // req.log: a child logger with the request's id. The request line itself is requestLog's: one line
+  // at info (method, path, status, ms, user), the headers only at debug.
+  app.use(pinoHttp({ logger, quietReqLogger: true, quietResLogger: true, autoLogging: false }));
+  app.use(requestLog());
   app.use(express.json({ limit: "5mb" }));
 
   const PgStore = connectPgSimple(session);
