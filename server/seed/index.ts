@@ -13,7 +13,8 @@ import { updateSettings } from "../modules/settings/settings.service";
 /** The invented demo shop's name, as Settings, e-mails and labels show it (README "Demo sign-ins"). */
 export const DEMO_SHOP_NAME = "Harrow Flats Engine Works, demo shop";
 
-const MARK = "demo_seeded_at";
+/** The settings key the demo seed writes when it has run; demo:reset drops only a database carrying it. */
+export const DEMO_MARK = "demo_seeded_at";
 
 /**
  * Seeds the invented demo shop once. A marker row in settings records that it
@@ -22,7 +23,7 @@ const MARK = "demo_seeded_at";
  */
 export async function seedDemoOnce(ctx: Omit<SeedContext, "users" | "people" | "shared">, password: string): Promise<boolean> {
   const { db } = ctx;
-  const marked = await db.query.settings.findFirst({ where: eq(settings.key, MARK) });
+  const marked = await db.query.settings.findFirst({ where: eq(settings.key, DEMO_MARK) });
   if (marked) return false;
   const anyone = await db.query.users.findFirst();
   if (anyone) return false;
@@ -42,6 +43,6 @@ export async function seedDemoOnce(ctx: Omit<SeedContext, "users" | "people" | "
   await seedInvestigations(full);
   await seedStudies(full);
   await seedReminders(full);
-  await db.insert(settings).values({ key: MARK, value: { at: ctx.clock.now().toISOString() } });
+  await db.insert(settings).values({ key: DEMO_MARK, value: { at: ctx.clock.now().toISOString() } });
   return true;
 }
