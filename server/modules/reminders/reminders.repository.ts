@@ -19,10 +19,13 @@ export const remindersRepository = {
    * or out past the time they were due back. A superset; the status derivation decides.
    */
   async candidateToolIds(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
+    // In service: the tool's current lifecycle, as the register shows it.
     const res = await db.execute(sql`
-      select s.tool_id from tool_states s where s.base_status = 'calibrated' and s.cal_next_due <= ${horizon}::date
+      select s.tool_id from tool_states s join tools t on t.id = s.tool_id
+      where s.base_status = 'calibrated' and s.cal_next_due <= ${horizon}::date and t.lifecycle = 'active'
       union
-      select s.tool_id from tool_states s where (s.usage_exhausted or s.usage_warn) and s.base_status = 'calibrated'
+      select s.tool_id from tool_states s join tools t on t.id = s.tool_id
+      where (s.usage_exhausted or s.usage_warn) and s.base_status = 'calibrated' and t.lifecycle = 'active'
       union
       select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
     return (res.rows as { tool_id: string }[]).map((r) => String(r.tool_id));
@@ -32,7 +35,7 @@ export const remindersRepository = {
   async candidateToolIdsFromRecords(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
     const res = await db.execute(sql`
       select t.id as tool_id from tools t
-      where t.calibration_required
+      where t.lifecycle = 'active' and t.calibration_required
         and (t.usage_limit is not null or exists (select 1 from calibrations c where c.tool_id = t.id and c.next_due_at <= ${horizon}))
       union
       select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
