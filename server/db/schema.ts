@@ -4,6 +4,7 @@ export * from "../modules/settings/settings.table";
 export * from "../modules/audit/audit.table";
 export * from "../modules/families/families.table";
 export * from "../modules/tools/tools.table";
+export * from "../modules/tools/tool-states.table";
 export * from "../modules/labs/labs.table";
 export * from "../modules/standards/standards.table";
 export * from "../modules/calibrations/calibrations.table";

@@ -148,6 +148,8 @@ export const ToolListQuerySchema = PageQuerySchema.extend({
   /** Due on or before this calendar date. */
   dueTo: QueryDateSchema.optional(),
   sort: ToolSortSchema.default("assetTag"),
+  /** Keyset paging: the nextCursor of the page before (same filters and sort); page is then ignored. */
+  after: z.string().trim().max(600).regex(/^[A-Za-z0-9_-]*$/, "Not a cursor from this list.").optional().transform((v) => (v ? v : undefined)),
   format: z.enum(["json", "csv"]).default("json"),
 }).refine((v) => !v.dueFrom || !v.dueTo || v.dueFrom <= v.dueTo, { message: "The start of the due-date range is after its end.", path: ["dueTo"] });
 export type ToolListQuery = z.infer<typeof ToolListQuerySchema>;
@@ -211,6 +213,10 @@ export const ToolSummarySchema = z.object({
   ...statusFields,
 });
 export type ToolSummary = z.infer<typeof ToolSummarySchema>;
+
+/** A page of the register; nextCursor (when more rows follow) asks for the next page by ?after= without counting rows to skip. */
+export const ToolPageSchema = z.object({ items: z.array(ToolSummarySchema), total: z.number().int(), nextCursor: z.string().nullable().optional() });
+export type ToolPage = z.infer<typeof ToolPageSchema>;
 
 export const SetElementSchema = z.object({
   id: z.string(),

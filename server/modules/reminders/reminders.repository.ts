@@ -14,18 +14,44 @@ const chunks = <T>(xs: T[], n = CHUNK) => Array.from({ length: Math.ceil(xs.leng
 
 export const remindersRepository = {
   /**
-   * Tools that may need a reminder at `at`: in service with a calibration due
-   * by the horizon or a usage limit, or out past the time they were due back.
-   * A superset; the status derivation decides.
+   * Tools that may need a reminder at `at`, from tool_states' indexed due dates (docs/decisions/013):
+   * calibrated with a due date by the horizon (overdue ones included) or a usage limit running low,
+   * or out past the time they were due back. A superset; the status derivation decides.
    */
   async candidateToolIds(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
+    // In service: the tool's current lifecycle, as the register shows it.
     const res = await db.execute(sql`
-      select t.id from tools t
+      select s.tool_id from tool_states s join tools t on t.id = s.tool_id
+      where s.base_status = 'calibrated' and s.cal_next_due <= ${horizon}::date and t.lifecycle = 'active'
+      union
+      select s.tool_id from tool_states s join tools t on t.id = s.tool_id
+      where (s.usage_exhausted or s.usage_warn) and s.base_status = 'calibrated' and t.lifecycle = 'active'
+      union
+      select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
+    return (res.rows as { tool_id: string }[]).map((r) => String(r.tool_id));
+  },
+
+  /** The same superset from the records themselves, for a run whose instant is before some recorded event (a clock set back). */
+  async candidateToolIdsFromRecords(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
+    const res = await db.execute(sql`
+      select t.id as tool_id from tools t
       where t.lifecycle = 'active' and t.calibration_required
         and (t.usage_limit is not null or exists (select 1 from calibrations c where c.tool_id = t.id and c.next_due_at <= ${horizon}))
       union
       select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
-    return (res.rows as { id?: string; tool_id?: string }[]).map((r) => String(r.id ?? r.tool_id));
+    return (res.rows as { tool_id: string }[]).map((r) => String(r.tool_id));
+  },
+
+  /** Keys (tool|due date|stage|recipient) of the reminders already sent about these tools: they are never sent again. */
+  async sentKeys(db: DbOrTx, toolIds: string[]): Promise<Set<string>> {
+    const out = new Set<string>();
+    for (const part of chunks(toolIds, 5000)) {
+      const res = await db.execute(sql`
+        select l.tool_id, l.due_at::text as due_at, l.stage, l.recipient_id from reminder_log l
+        where l.status = 'sent' and l.tool_id = any(${`{${part.join(",")}}`}::uuid[])`);
+      for (const r of res.rows as Record<string, unknown>[]) out.add(`${String(r.tool_id)}|${String(r.due_at)}|${String(r.stage)}|${String(r.recipient_id)}`);
+    }
+    return out;
   },
 
   async toolFacts(db: DbOrTx, ids: string[]) {

@@ -6,7 +6,8 @@ import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
 import type { Config } from "../../config";
 import { getSettings } from "../settings/settings.service";
-import { statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { statusesFor } from "../tools/tool-status.service";
+import { eventsAfter } from "../tools/tool-states.sql";
 import { recordAudit } from "../audit/audit.repository";
 import { remindersRepository as repo, type ReminderLogRow } from "./reminders.repository";
 import { renderDigest, type DigestLine } from "./reminder-digest";
@@ -50,8 +51,6 @@ export interface RunOptions {
 // One application-wide key for pg_try_advisory_lock: every instance of Tenthwise
 // on the same database competes for it, so only one run sends at a time.
 const RUN_LOCK_KEY = "7301455120";
-
-const STATUS_CHUNK = 500;
 
 /** Base of the links in mail: PUBLIC_URL when the shop set one, else the loopback address of this server. */
 export function publicBaseUrl(config: Pick<Config, "PUBLIC_URL" | "PORT">): string {
@@ -98,15 +97,22 @@ async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date)
   try {
     const world = await gatherWorld(deps, startedAt);
     const planned = world.planned;
+    // Reminders sent by an earlier run are left out before claiming; the claim still refuses any a run sent meanwhile.
+    const sentBefore = await repo.sentKeys(db, [...new Set(planned.map((p) => p.toolId))]);
+    const toClaim = planned.filter((p) => !sentBefore.has(`${p.toolId}|${p.dueAt}|${p.stage}|${p.recipientId}`));
     const claimed = await db.transaction(async (tx) => {
-      const rows = await repo.claim(tx, run.id, startedAt, planned);
+      const rows = toClaim.length ? await repo.claim(tx, run.id, startedAt, toClaim) : [];
       await repo.updateRun(tx, run.id, { skipped: planned.length - rows.length });
       return rows;
     });
     await opts.hooks?.afterClaim?.();
 
     const byRecipient = new Map<string, ReminderLogRow[]>();
-    for (const r of claimed) byRecipient.set(r.recipientId, [...(byRecipient.get(r.recipientId) ?? []), r]);
+    for (const r of claimed) {
+      const list = byRecipient.get(r.recipientId);
+      if (list) list.push(r);
+      else byRecipient.set(r.recipientId, [r]);
+    }
     let sent = 0;
     let failed = 0;
     for (const [recipientId, rows] of byRecipient) {
@@ -182,13 +188,11 @@ async function gatherWorld(deps: RemindersDeps, at: Date) {
   const settings = await getSettings(db, config.SHOP_TIME_ZONE);
   const tz = settings.shopTimeZone;
   const today = calendarDate(at, tz);
-  const ids = await repo.candidateToolIds(db, at, addDays(today, Math.max(...settings.reminderStages)));
+  const horizon = addDays(today, Math.max(...settings.reminderStages));
+  const ids = (await eventsAfter(db, at)) ? await repo.candidateToolIdsFromRecords(db, at, horizon) : await repo.candidateToolIds(db, at, horizon);
   const ctx = { timeZone: tz, dueSoonDays: settings.dueSoonDays };
-  const statuses = new Map<string, ToolStatusView>();
-  for (let i = 0; i < ids.length; i += STATUS_CHUNK) {
-    for (const [id, v] of await statusesFor(db, ids.slice(i, i + STATUS_CHUNK), at, ctx)) statuses.set(id, v);
-  }
-  const facts = new Map((await repo.toolFacts(db, ids)).map((f) => [f.id, f]));
+  const [statuses, factRows] = await Promise.all([statusesFor(db, ids, at, ctx), repo.toolFacts(db, ids)]);
+  const facts = new Map(factRows.map((f) => [f.id, f]));
 
   const holderIds = new Set<string>();
   for (const f of facts.values()) if (f.ownerType === "personal" && f.ownerUserId) holderIds.add(f.ownerUserId);

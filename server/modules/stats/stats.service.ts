@@ -2,7 +2,8 @@ import type { Db } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import { statsRepository } from "./stats.repository";
 import { intervalsRepository } from "../intervals/intervals.repository";
-import { statusContext, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { gatherStatusesAt, statusContext, statusesFor, type StatusContext, type ToolStatusView } from "../tools/tool-status.service";
+import { countByStatus, eventsAfter, statusNow } from "../tools/tool-states.sql";
 import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
 import { addDays, calendarDate } from "../../../shared/common/dates";
 import type { StatsDashboard, StatsInspection, StatsMine, StatsOverview } from "../../../shared/stats/stats.schemas";
@@ -14,16 +15,38 @@ const CHUNK = 5000;
 const IN_CALIBRATION: ReadonlySet<ToolStatus> = new Set(["in_calibration", "due_soon", "limited"]);
 
 export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; timeZone: string }) {
-  /** Every tool's status now, from the one derivation, in chunks. */
-  async function allStatuses(at: Date) {
-    const ctx = await statusContext(db, timeZone);
+  /** Every tool's status at `at` from the records as they stood then, in chunks (a clock set back; see summary). */
+  async function allStatuses(at: Date, ctx: StatusContext) {
     const ids = await statsRepository.allToolIds(db);
     const views: ToolStatusView[] = [];
     for (let i = 0; i < ids.length; i += CHUNK) {
-      const m = await statusesFor(db, ids.slice(i, i + CHUNK), at, ctx);
+      const m = await gatherStatusesAt(db, ids.slice(i, i + CHUNK), at, ctx);
       views.push(...m.values());
     }
-    return { views, ctx };
+    return views;
+  }
+
+  /**
+   * Counts by status now, tools still in calibration due within 7 and 30 days and in each of the next
+   * twelve weeks: index scans on tool_states (docs/decisions/013). When some record is dated after now
+   * (a clock set back), every status is derived in full instead.
+   */
+  async function summary(at: Date) {
+    const ctx = await statusContext(db, timeZone);
+    const today = calendarDate(at, ctx.timeZone);
+    if (await eventsAfter(db, at)) {
+      const views = await allStatuses(at, ctx);
+      const dueByWeek = Array.from({ length: 12 }, () => 0);
+      for (const v of views) {
+        if (!IN_CALIBRATION.has(v.status) || v.daysToDue == null || v.daysToDue < 0) continue;
+        const w = Math.floor(v.daysToDue / 7);
+        if (w < 12) dueByWeek[w]++;
+      }
+      return { ...counts(views), totalTools: views.length, dueByWeek, today };
+    }
+    const now = statusNow(at, ctx);
+    const [c, weeks] = await Promise.all([countByStatus(db, now, [7, 30]), statsRepository.dueByWeek(db, now.today, 12)]);
+    return { byStatus: c.byStatus, dueWithin7Days: c.dueWithin[0], dueWithin30Days: c.dueWithin[1], overdue: c.byStatus.overdue, totalTools: c.total, dueByWeek: weeks, today };
   }
 
   function counts(views: ToolStatusView[]) {
@@ -43,35 +66,31 @@ export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; ti
   return {
     async overview(): Promise<StatsOverview> {
       const now = clock.now();
-      const [{ views }, openInvestigations] = await Promise.all([allStatuses(now), statsRepository.openInvestigations(db)]);
-      const c = counts(views);
+      const [c, openInvestigations] = await Promise.all([summary(now), statsRepository.openInvestigations(db)]);
       return { byStatus: c.byStatus, dueWithin30Days: c.dueWithin30Days, overdue: c.overdue, openInvestigations };
     },
 
     async dashboard(): Promise<StatsDashboard> {
       const now = clock.now();
-      const [{ views, ctx }, openInvestigations, notReturned, sheets, needing, rates] = await Promise.all([
-        allStatuses(now),
+      const [c, openInvestigations, notReturned, sheets, needing, rates] = await Promise.all([
+        summary(now),
         statsRepository.openInvestigations(db),
         statsRepository.notReturned(db, now),
         statsRepository.sheetsAwaitingSignature(db, 1),
         statsRepository.investigationsNeedingDisposition(db, 1),
         intervalsRepository.familyRates(db),
       ]);
-      const c = counts(views);
-      const today = calendarDate(now, ctx.timeZone);
+      const today = c.today;
       // Twelve weeks counted from today (a shop's week start varies; "the next seven days" does not).
-      const dueByWeek = Array.from({ length: 12 }, (_, w) => ({ weekStart: addDays(today, 7 * w), weekEnd: addDays(today, 7 * w + 6), count: 0 }));
-      for (const v of views) {
-        if (!IN_CALIBRATION.has(v.status) || v.daysToDue == null || v.daysToDue < 0) continue;
-        const w = Math.floor(v.daysToDue / 7);
-        if (w < 12) dueByWeek[w].count++;
-      }
+      const dueByWeek = c.dueByWeek.map((count, w) => ({ weekStart: addDays(today, 7 * w), weekEnd: addDays(today, 7 * w + 6), count }));
       return {
-        ...c,
+        byStatus: c.byStatus,
+        dueWithin30Days: c.dueWithin30Days,
+        dueWithin7Days: c.dueWithin7Days,
+        overdue: c.overdue,
         openInvestigations,
         today,
-        totalTools: views.length,
+        totalTools: c.totalTools,
         notReturned,
         sheetsAwaitingSignature: sheets.total,
         investigationsNeedingDisposition: needing.total,

@@ -36,12 +36,83 @@ const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : v == null ? n
 const dateOnly = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString().slice(0, 10) : String(v).slice(0, 10));
 
 /**
- * Gathers, for many tools at once, what the one status derivation needs at
- * instant `at` (lifecycle, the calibration that counts, pending review, uses,
- * failed checks, holds, lab trips, custody) and derives each status.
- * Six set-based queries, whatever the number of tools.
+ * Each tool's status at instant `at`, from the one derivation (shared/tools/tool-status.ts).
+ * The inputs come from the tool's row in tool_states (kept by database triggers, one query for
+ * any number of tools) whenever `at` is at or after every event that row has read — the present,
+ * and any later instant. A tool asked about at an earlier instant has its inputs gathered from
+ * the records as they stood then (gatherStatusesAt).
  */
 export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
+  const out = new Map<string, ToolStatusView>();
+  if (toolIds.length === 0) return out;
+  const ids = sql`${`{${toolIds.join(",")}}`}::uuid[]`;
+  const atTs = at.toISOString();
+  const res = await db.execute(sql`
+    select t.id, t.asset_tag, t.unit, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
+    from tools t
+    left join tool_states s on s.tool_id = t.id
+    left join users u on u.id = s.custody_user_id
+    where t.id = any(${ids})`);
+  const past: string[] = [];
+  for (const r of res.rows as Row[]) {
+    const id = String(r.id);
+    if (!r.has_state || (r.settled_at != null && Date.parse(iso(r.settled_at)!) > at.getTime())) {
+      past.push(id);
+      continue;
+    }
+    out.set(id, fromState(r, atTs, ctx));
+  }
+  if (past.length) for (const [id, v] of await gatherStatusesAt(db, past, at, ctx)) out.set(id, v);
+  return out;
+}
+
+/** The derivation's inputs from a tool_states row (with the tool's tag and unit and the custodian's name), derived at `at`. */
+function fromState(r: Row, atTs: string, ctx: StatusContext): ToolStatusView {
+  const lastCalibration =
+    r.cal_id != null
+      ? {
+          id: String(r.cal_id),
+          performedAt: iso(r.cal_performed_at)!,
+          result: r.cal_result as "pass" | "adjusted" | "fail" | "limited",
+          nextDueAt: dateOnly(r.cal_next_due)!,
+          limitedRange:
+            r.cal_limited_min != null && r.cal_limited_max != null
+              ? { min: Number(r.cal_limited_min), max: Number(r.cal_limited_max), unit: r.unit as "in" | "mm", note: (r.cal_limited_note as string) ?? null }
+              : null,
+        }
+      : null;
+  const input: ToolStatusInput = {
+    at: atTs,
+    timeZone: ctx.timeZone,
+    dueSoonDays: ctx.dueSoonDays,
+    tool: { calibrationRequired: Boolean(r.calibration_required), lifecycle: r.lifecycle as ToolStatusInput["tool"]["lifecycle"], usageLimit: r.usage_limit == null ? null : Number(r.usage_limit) },
+    lastCalibration,
+    pendingReview: r.pending_performed_at != null ? { performedAt: iso(r.pending_performed_at)!, lab: String(r.pending_lab) } : null,
+    usesSinceCalibration: Number(r.uses_since_cal ?? 0),
+    failedCheckSinceCalibration: r.failed_check_at != null ? { performedAt: iso(r.failed_check_at)!, deviation: Number(r.failed_check_deviation) } : null,
+    hold: r.hold_since != null ? { reason: String(r.hold_reason), since: iso(r.hold_since)! } : null,
+    atLab: r.lab_since != null ? { since: iso(r.lab_since)!, lab: String(r.lab_name), expectedBackAt: dateOnly(r.lab_expected_back) } : null,
+  };
+  return {
+    ...deriveToolStatus(input),
+    toolId: String(r.id),
+    assetTag: String(r.asset_tag),
+    lastCalibration,
+    custodian:
+      r.custody_checkout_id != null
+        ? { checkoutId: String(r.custody_checkout_id), userId: String(r.custody_user_id), name: String(r.custody_name), email: String(r.custody_email), since: iso(r.custody_since)!, dueBackAt: iso(r.custody_due_back)! }
+        : null,
+  };
+}
+
+/**
+ * Gathers, for many tools at once, what the one status derivation needs at
+ * instant `at` (lifecycle, the calibration that counts, pending review, uses,
+ * failed checks, holds, lab trips, custody) from the records as they stood
+ * then, and derives each status. Seven set-based queries, whatever the number
+ * of tools. The definition tool_states is tested against.
+ */
+export async function gatherStatusesAt(db: DbOrTx, toolIds: string[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
   const out = new Map<string, ToolStatusView>();
   if (toolIds.length === 0) return out;
   // One array parameter, however many tools: no parameter-count limit and one plan.

@@ -7,6 +7,10 @@ import { checkouts } from "../checkouts/checkouts.table";
 import { intermediateChecks } from "../checks/checks.table";
 import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
+import { alias } from "drizzle-orm/pg-core";
+import { toolStates } from "./tool-states.table";
+import { statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
+import type { ToolStatus } from "../../../shared/tools/tool-status";
 
 export type ToolRow = typeof tools.$inferSelect;
 export type SetElementRow = typeof setElements.$inferSelect;
@@ -25,6 +29,9 @@ export const SQL_SORTS = {
 } as const;
 export type SqlSortKey = keyof typeof SQL_SORTS;
 
+/** The text the register's free-text search looks in: one trigram-indexed expression (tools_search_trgm_idx). */
+const searchText = sql`tenthwise_tool_search_text(${tools.assetTag}, ${tools.description}, ${tools.serialNumber}, ${tools.maker}, ${tools.model}, ${tools.location}, ${tools.ownerName})`;
+
 function whereOf(f: ToolSqlFilters): SQL | undefined {
   const like = f.q ? `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : null;
   return and(
@@ -33,17 +40,8 @@ function whereOf(f: ToolSqlFilters): SQL | undefined {
     f.ownerType ? eq(tools.ownerType, f.ownerType) : undefined,
     f.ownerUserId ? eq(tools.ownerUserId, f.ownerUserId) : undefined,
     f.location ? sql`lower(${tools.location}) = lower(${f.location})` : undefined,
-    like
-      ? or(
-          ilike(tools.assetTag, like),
-          ilike(tools.description, like),
-          ilike(tools.serialNumber, like),
-          ilike(tools.maker, like),
-          ilike(tools.model, like),
-          ilike(tools.location, like),
-          ilike(tools.ownerName, like),
-        )
-      : undefined,
+    // The columns are joined by U+001F, which a search for text never matches across.
+    like ? (like.includes("\u001f") ? sql`false` : sql`${searchText} ilike ${like}`) : undefined,
     // Current custody: the open checkout (one per tool, partial unique index).
     f.custodianId
       ? sql`exists (select 1 from ${checkouts} where ${checkouts.toolId} = ${tools.id} and ${checkouts.userId} = ${f.custodianId} and ${checkouts.returnedAt} is null)`
@@ -57,6 +55,49 @@ function orderOf(sort: { key: SqlSortKey; desc: boolean }) {
 }
 
 const listColumns = { tool: tools, familyName: families.name, kind: families.kind };
+
+/** The state row of each tool (tool_states, alias s) and its custodian (cu), for status filters and sorts. */
+const s = alias(toolStates, "s");
+const cu = alias(users, "cu");
+
+/** Filters on the indexed status (docs/decisions/013). */
+export interface StatusFilters {
+  statuses?: readonly ToolStatus[];
+  dueWithin?: { days: number; stillIn: readonly ToolStatus[] };
+  dueFrom?: string;
+  dueTo?: string;
+}
+
+/** Sort keys of the register, each with its SQL value and type (the type reads a cursor's value back exactly). */
+function sortOf(key: string, now: StatusNow): { value: SQL; type: "text" | "date" | "timestamptz" | "int" } {
+  switch (key) {
+    case "dueAt":
+      return { value: sql`s.cal_next_due`, type: "date" };
+    case "status":
+      return { value: statusOrder(now), type: "int" };
+    case "custodian":
+      // Code-point order of the lower-cased name, as the register always sorted custodians.
+      return { value: sql`(lower(cu.name) collate "C")`, type: "text" };
+    case "createdAt":
+      return { value: sql`${tools.createdAt}`, type: "timestamptz" };
+    default:
+      return { value: sql`${SQL_SORTS[key as SqlSortKey]}`, type: "text" };
+  }
+}
+
+/** An opaque keyset cursor: the sort value (as text) and asset tag of the last row of a page. */
+export const cursorCodec = {
+  encode: (v: string | null, tag: string) => Buffer.from(JSON.stringify([v, tag]), "utf8").toString("base64url"),
+  decode(c: string): { v: string | null; tag: string } | null {
+    try {
+      const x = JSON.parse(Buffer.from(c, "base64url").toString("utf8"));
+      if (Array.isArray(x) && x.length === 2 && (x[0] === null || typeof x[0] === "string") && typeof x[1] === "string") return { v: x[0], tag: x[1] };
+    } catch {
+      /* not a cursor */
+    }
+    return null;
+  },
+};
 
 export const toolsRepository = {
   async findByTag(db: DbOrTx, tag: string) {
@@ -94,6 +135,59 @@ export const toolsRepository = {
       .innerJoin(families, eq(families.id, tools.familyId))
       .where(whereOf(f))
       .orderBy(orderOf(sort), asc(tools.assetTag))) as ToolListRow[];
+  },
+
+  /**
+   * The register filtered, sorted and paged in one SQL statement (and a count), status read from
+   * tool_states on the shop's date: blanks last either way, ties in asset-tag order. A cursor
+   * (the last row's sort value and tag) pages by keyset; otherwise page and size give an offset;
+   * no limit at all for the whole view (CSV).
+   */
+  async registerPage(
+    db: DbOrTx,
+    f: ToolSqlFilters & StatusFilters,
+    sort: { key: string; desc: boolean },
+    now: StatusNow,
+    paging: { page: number; pageSize: number; after?: { v: string | null; tag: string } } | null,
+  ) {
+    const { value, type } = sortOf(sort.key, now);
+    const today = now.today;
+    const where = and(
+      whereOf(f),
+      f.statuses ? statusIn(f.statuses, now) : undefined,
+      f.dueWithin
+        ? and(statusIn(f.dueWithin.stillIn, now), sql`s.cal_next_due >= ${today} and s.cal_next_due <= ${today} + ${f.dueWithin.days}::int`)
+        : undefined,
+      f.dueFrom ? sql`s.cal_next_due >= ${f.dueFrom}::date` : undefined,
+      f.dueTo ? sql`s.cal_next_due <= ${f.dueTo}::date` : undefined,
+    );
+    const after = paging?.after;
+    const cmp = sort.desc ? sql`<` : sql`>`;
+    const cv = after?.v == null ? null : sql`${after.v}::${sql.raw(type)}`;
+    const keyset = after
+      ? cv
+        ? sql`((${value}) is null or (${value}) ${cmp} ${cv} or ((${value}) = ${cv} and ${tools.assetTag} > ${after.tag}))`
+        : sql`((${value}) is null and ${tools.assetTag} > ${after.tag})`
+      : undefined;
+    const base = () =>
+      db
+        .select({ ...listColumns, sortValue: sql<string | null>`(${value})::text` })
+        .from(tools)
+        .innerJoin(families, eq(families.id, tools.familyId))
+        .leftJoin(s, eq(s.toolId, tools.id))
+        .leftJoin(cu, eq(cu.id, s.custodyUserId))
+        .where(and(where, keyset))
+        .orderBy(sql`(${value}) is null`, sort.desc ? sql`(${value}) desc` : sql`(${value}) asc`, asc(tools.assetTag))
+        .$dynamic();
+    const rowsQ = paging ? base().limit(paging.pageSize).offset(after ? 0 : pageOffset(paging.page, paging.pageSize)) : base();
+    const countQ = db
+      .select({ total: count() })
+      .from(tools)
+      .innerJoin(families, eq(families.id, tools.familyId))
+      .leftJoin(s, eq(s.toolId, tools.id))
+      .where(where);
+    const [rows, [{ total }]] = await Promise.all([rowsQ, paging ? countQ : Promise.resolve([{ total: -1 }])]);
+    return { rows: rows as (ToolListRow & { sortValue: string | null })[], total: paging ? total : rows.length };
   },
 
   /** Distinct non-blank locations, sorted case-insensitively (tools_location_idx). */

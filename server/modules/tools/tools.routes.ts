@@ -2,7 +2,6 @@ import { Router } from "express";
 import { z } from "zod";
 import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
-import { pageOf } from "../../../shared/common/lists.schemas";
 import {
   CreateToolSchema,
   LifecycleChangeSchema,
@@ -16,7 +15,7 @@ import {
   ToolLocationsSchema,
   ToolStatusQuerySchema,
   ToolStatusResponseSchema,
-  ToolSummarySchema,
+  ToolPageSchema,
   UpdateToolSchema,
 } from "../../../shared/tools/tools.schemas";
 import { toolsService } from "./tools.service";
@@ -35,7 +34,7 @@ export function toolsRoutes(deps: AppDeps) {
       summary: "The register: filter (status, family, kind, q, custodian, location, owner, dueWithinDays, dueFrom/dueTo), sort, page; ?format=csv exports the current view (all pages)",
       access: "signedIn",
       query: ToolListQuerySchema,
-      response: pageOf(ToolSummarySchema),
+      response: ToolPageSchema,
     },
     async ({ query, res }) => {
       if (query.format !== "csv") return service.list(query);

@@ -1,13 +1,14 @@
 import Papa from "papaparse";
-import { toolsRepository, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
-import { statusContext, statusesFor, statusOf, type ToolStatusView } from "./tool-status.service";
+import { toolsRepository, cursorCodec, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
+import { gatherStatusesAt, statusContext, statusesFor, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
+import { eventsAfter, statusNow } from "./tool-states.sql";
 import { changeLifecycle, lockTool, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound, refused } from "../../http/errors";
 import { recordStoredFile } from "../files/files.repository";
 import { getFamilyRow, toFamily } from "../families/families.service";
 import { familiesRepository } from "../families/families.repository";
-import { TOOL_STATUSES } from "../../../shared/tools/tool-status";
+import { TOOL_STATUSES, isUsableStatus } from "../../../shared/tools/tool-status";
 import {
   STILL_IN_CALIBRATION,
   TOOL_CSV_COLUMNS,
@@ -17,6 +18,7 @@ import {
   type ToolActionResult,
   type ToolDetail,
   type ToolListQuery,
+  type ToolPage,
   type ToolStatusResponse,
   type ToolSummary,
   type UpdateTool,
@@ -167,31 +169,54 @@ export function toolsService(deps: RegisterDeps) {
   }
 
   /**
-   * The register, filtered, sorted and paged on the server. Filters SQL can
-   * apply narrow the candidates first. Status is derived, never stored
-   * (docs/decisions/002): when the list is filtered by status/usability or
-   * sorted by a derived key (status, dueAt, custodian), statuses are computed
-   * for the whole candidate set with the batched statusesFor (a fixed number
-   * of set-based queries), then filtered, sorted and paged in memory.
-   * Otherwise SQL sorts and pages, and statuses are computed for the page only.
+   * The register, filtered, sorted and paged on the server: one SQL statement and a count, with the
+   * status read from tool_states on the shop's date (docs/decisions/013), so "overdue, by due date,
+   * page 50" is an index scan; the page's statuses and reasons then come from the one derivation.
+   * ?after= pages by keyset. When some tool has a record dated after now (a clock set back), the
+   * statuses of the candidates are derived in full instead (listDerived).
    */
-  async function list(query: ToolListQuery, opts: { all?: boolean } = {}): Promise<Page<ToolSummary>> {
+  async function list(query: ToolListQuery, opts: { all?: boolean } = {}): Promise<ToolPage> {
     const now = clock.now();
     const c = await ctx();
+    if (await eventsAfter(db, now)) return listDerived(query, now, c, opts);
+    const desc = query.sort.startsWith("-");
+    const key = desc ? query.sort.slice(1) : query.sort;
+    const wantUsable = query.usable === undefined ? null : TOOL_STATUSES.filter((st) => isUsableStatus(st) === query.usable);
+    const statuses = query.status?.length ? (wantUsable ? query.status.filter((st) => wantUsable.includes(st)) : query.status) : wantUsable ?? undefined;
+    const after = query.after ? cursorCodec.decode(query.after) : undefined;
+    if (after === null) throw new AppError("bad_cursor", 400, "This page link is not from this list; start again from the first page.");
+    const { rows, total } = await toolsRepository.registerPage(
+      db,
+      {
+        ...query,
+        statuses,
+        dueWithin: query.dueWithinDays === undefined ? undefined : { days: query.dueWithinDays, stillIn: STILL_IN_CALIBRATION },
+        dueFrom: query.dueFrom,
+        dueTo: query.dueTo,
+      },
+      { key, desc },
+      statusNow(now, c),
+      opts.all ? null : { page: query.page, pageSize: query.pageSize, after },
+    );
+    const views = await statusesFor(db, rows.map((r) => r.tool.id), now, c);
+    const items = rows.map((r) => toToolSummary(r, views.get(r.tool.id)!));
+    const last = rows.at(-1);
+    const nextCursor = !opts.all && last && rows.length === query.pageSize ? cursorCodec.encode(last.sortValue, last.tool.assetTag) : null;
+    return { items, total, nextCursor };
+  }
+
+  /**
+   * The register with every candidate's status derived at `now` from the records as they stood then:
+   * filters SQL can apply narrow the candidates, statuses are computed for the whole candidate set,
+   * then filtered, sorted and paged in memory.
+   */
+  async function listDerived(query: ToolListQuery, now: Date, c: StatusContext, opts: { all?: boolean }): Promise<ToolPage> {
     const desc = query.sort.startsWith("-");
     const key = (desc ? query.sort.slice(1) : query.sort) as keyof typeof DERIVED_SORTS | SqlSortKey;
     const dueFilter = dueFilterOf(query, calendarDate(now, c.timeZone));
-    const derived = !!query.status?.length || query.usable !== undefined || !!dueFilter || !(key in SQL_SORTS);
-
-    if (!derived && !opts.all) {
-      const { items, total } = await toolsRepository.page(db, query, { key: key as SqlSortKey, desc }, query.page, query.pageSize);
-      const statuses = await statusesFor(db, items.map((r) => r.tool.id), now, c);
-      return { items: items.map((r) => toToolSummary(r, statuses.get(r.tool.id)!)), total };
-    }
-
     const sqlKey = key in SQL_SORTS ? (key as SqlSortKey) : null;
     let rows = await toolsRepository.candidates(db, query, sqlKey ? { key: sqlKey, desc } : undefined);
-    const statuses = await statusesFor(db, rows.map((r) => r.tool.id), now, c);
+    const statuses = await gatherStatusesAt(db, rows.map((r) => r.tool.id), now, c);
     let items = rows.map((r) => toToolSummary(r, statuses.get(r.tool.id)!));
     rows = [];
     if (query.status?.length) items = items.filter((t) => query.status!.includes(t.status));
@@ -204,7 +229,7 @@ export function toolsService(deps: RegisterDeps) {
     }
     const total = items.length;
     if (!opts.all) items = items.slice((query.page - 1) * query.pageSize, query.page * query.pageSize);
-    return { items, total };
+    return { items, total, nextCursor: null };
   }
 
   return {

@@ -1,0 +1,93 @@
+// The date-dependent part of a tool's status, in SQL, over tool_states (alias `s`):
+// docs/decisions/013-indexed-status.md. The same rules as shared/tools/tool-status.ts
+// (the definition; tests/api/tool-states-property.api.test.ts holds them equal), written so
+// that a filter by status or a count by status is a range scan on (base_status, cal_next_due).
+import { sql, type SQL } from "drizzle-orm";
+import type { DbOrTx } from "../../db/client";
+import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
+import type { StatusContext } from "./tool-status.service";
+
+/** Statuses that the date never changes: tool_states.base_status holds them as they are. */
+export const FIXED_STATUSES = ["out_of_tolerance", "quarantined", "at_calibration", "never_calibrated", "inactive", "lost", "retired", "reference_only"] as const satisfies readonly ToolStatus[];
+
+/** "Now" for a status question: the instant, its calendar date in the shop's zone (computed by PostgreSQL), the warning window. */
+export interface StatusNow {
+  today: SQL;
+  window: number;
+}
+
+/** Today's date in the shop's zone at instant `now`, as SQL. */
+export function statusNow(now: Date, ctx: StatusContext): StatusNow {
+  return { today: sql`((${now.toISOString()}::timestamptz at time zone ${ctx.timeZone})::date)`, window: ctx.dueSoonDays };
+}
+
+/** The status of the tool_states row `s` on that date. */
+export function statusCase({ today, window }: StatusNow): SQL {
+  return sql`(case
+    when s.base_status <> 'calibrated' then s.base_status
+    when s.cal_next_due < ${today} or s.usage_exhausted then 'overdue'
+    when s.cal_result = 'limited' then 'limited'
+    when s.cal_next_due <= ${today} + ${window}::int or s.usage_warn then 'due_soon'
+    else 'in_calibration' end)`;
+}
+
+/** The position of the status in TOOL_STATUSES (the register's "sort by status"). */
+export function statusOrder(now: StatusNow): SQL {
+  return sql`(array_position(array[${sql.raw(TOOL_STATUSES.map((s) => `'${s}'`).join(","))}]::text[], ${statusCase(now)}) - 1)`;
+}
+
+/** One status as a predicate on `s` that an index on (base_status, cal_next_due) can answer. */
+function statusIs(status: ToolStatus, { today, window }: StatusNow): SQL {
+  const calibrated = sql`s.base_status = 'calibrated'`;
+  const notOverdue = sql`s.cal_next_due >= ${today} and not s.usage_exhausted`;
+  switch (status) {
+    case "overdue":
+      return sql`(${calibrated} and (s.cal_next_due < ${today} or s.usage_exhausted))`;
+    case "limited":
+      return sql`(${calibrated} and s.cal_result = 'limited' and ${notOverdue})`;
+    case "due_soon":
+      return sql`(${calibrated} and s.cal_result <> 'limited' and ${notOverdue} and (s.cal_next_due <= ${today} + ${window}::int or s.usage_warn))`;
+    case "in_calibration":
+      return sql`(${calibrated} and s.cal_result <> 'limited' and s.cal_next_due > ${today} + ${window}::int and not s.usage_exhausted and not s.usage_warn)`;
+    default:
+      return sql`s.base_status = ${status}`;
+  }
+}
+
+/** The row `s` has one of these statuses on that date. */
+export function statusIn(statuses: readonly ToolStatus[], now: StatusNow): SQL {
+  const wanted = [...new Set(statuses)];
+  if (wanted.length === 0) return sql`false`;
+  const fixed = wanted.filter((x) => (FIXED_STATUSES as readonly string[]).includes(x));
+  const parts = wanted.filter((x) => !fixed.includes(x)).map((x) => statusIs(x, now));
+  if (fixed.length) parts.push(sql`s.base_status = any(${`{${fixed.join(",")}}`}::text[])`);
+  return sql`(${sql.join(parts, sql` or `)})`;
+}
+
+/** Count of tools by status, and of tools still in calibration due within each of some numbers of days: index scans on tool_states. */
+export async function countByStatus(db: DbOrTx, now: StatusNow, dueWithin: number[] = []) {
+  const { today } = now;
+  const inCal = sql`s.base_status = 'calibrated' and s.cal_next_due >= ${today} and not s.usage_exhausted`;
+  const res = await db.execute(sql`
+    select coalesce(jsonb_object_agg(k, n), '{}'::jsonb) as by_status,
+      (select count(*)::int from tool_states) as total
+      ${sql.join(
+        dueWithin.map((d, i) => sql`, (select count(*)::int from tool_states s where ${inCal} and s.cal_next_due <= ${today} + ${d}::int) as ${sql.raw(`due_${i}`)}`),
+        sql``,
+      )}
+    from (
+      select s.base_status as k, count(*)::int as n from tool_states s where s.base_status <> 'calibrated' group by s.base_status
+      union all
+      select x.k, count(*)::int from (select ${statusCase(now)} as k from tool_states s where s.base_status = 'calibrated') x group by x.k
+    ) c`);
+  const row = res.rows[0] as Record<string, unknown>;
+  const raw = (typeof row.by_status === "string" ? JSON.parse(row.by_status) : row.by_status) as Record<string, number>;
+  const byStatus = Object.fromEntries(TOOL_STATUSES.map((st) => [st, Number(raw[st] ?? 0)])) as Record<ToolStatus, number>;
+  return { byStatus, total: Number(row.total), dueWithin: dueWithin.map((_, i) => Number(row[`due_${i}`])) };
+}
+
+/** True when some tool has a recorded event after `now` (a clock set back, a record dated ahead): lists then use the full derivation. */
+export async function eventsAfter(db: DbOrTx, now: Date): Promise<boolean> {
+  const r = await db.execute(sql`select exists (select 1 from tool_states where settled_at > ${now.toISOString()}::timestamptz) as x`);
+  return Boolean((r.rows[0] as Record<string, unknown>).x);
+}
