@@ -3,7 +3,7 @@ import type { SeedContext } from "./seed-context";
 import { standards } from "../db/schema";
 import { calibrationsService } from "../modules/calibrations/calibrations.service";
 import { deliverPendingNotices } from "../modules/investigations/investigations.notify";
-import { addDispositions, getInvestigation } from "../modules/investigations/investigations.service";
+import { addDispositions, listItems } from "../modules/investigations/investigations.service";
 import { CreateCalibrationSchema } from "../../shared/calibrations/calibrations.schemas";
 import { CreateDispositionSchema } from "../../shared/investigations/investigations.schemas";
 
@@ -40,14 +40,14 @@ export async function seedInvestigations(ctx: SeedContext): Promise<void> {
 
   // One reading whose verdict holds over the whole error band is already answered by the quality manager; the rest
   // wait for the demo user.
-  const inv = await getInvestigation(db, investigationId);
-  const first = inv.items.find((i) => !i.verdictCouldChange);
+  const holding = await listItems(db, investigationId, { couldChange: false, pageSize: 1 });
+  const first = holding.items[0];
   if (!first) throw new Error("Investigations seed: expected one reading of MIC-0104 whose verdict holds over its error band");
   {
     await addDispositions(
       db,
       ctx.clock,
-      inv.id,
+      investigationId,
       CreateDispositionSchema.parse({
         itemIds: [first.id],
         kind: "no_impact",
@@ -57,5 +57,5 @@ export async function seedInvestigations(ctx: SeedContext): Promise<void> {
       { id: quality.id, name: quality.name },
     );
   }
-  ctx.shared.investigationId = inv.id;
+  ctx.shared.investigationId = investigationId;
 }

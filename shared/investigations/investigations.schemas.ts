@@ -15,6 +15,16 @@ export const TRIGGER_LABELS: Record<InvestigationTrigger, string> = {
 export const INVESTIGATION_STATUSES = ["open", "closed"] as const;
 export type InvestigationStatus = (typeof INVESTIGATION_STATUSES)[number];
 
+/** One name per investigation state, wherever it is shown (lists, the page, filters, the report). */
+export const INVESTIGATION_STATUS_LABELS: Record<InvestigationStatus, string> = { open: "Open", closed: "Closed" };
+
+/** The verdict a reading was recorded with, in words (the check sheet's words). */
+export const READING_VERDICT_LABELS: Record<"within_limits" | "outside_limits" | "pending", string> = {
+  within_limits: "Within limits",
+  outside_limits: "Outside limits",
+  pending: "Pending",
+};
+
 export const DISPOSITION_KINDS = ["no_impact", "remeasure", "notify_owner", "recall"] as const;
 export type DispositionKind = (typeof DISPOSITION_KINDS)[number];
 
@@ -78,6 +88,8 @@ export const DispositionSchema = z.object({
   notifiedHow: z.string().nullable(),
   notifiedAt: z.string().nullable(),
   remeasureReadingId: z.string().nullable(),
+  /** The disposition this one replaced (a change of mind is a new row; the old one stays as evidence). */
+  supersedesId: z.string().nullable(),
 });
 export type Disposition = z.infer<typeof DispositionSchema>;
 
@@ -125,6 +137,9 @@ export const InvestigationItemSchema = z.object({
   takenAt: z.string().nullable(),
   takenBy: z.string().nullable(),
   override: z.boolean(),
+  /** The disposition in force (the latest, superseding any earlier one), or null while none is recorded. */
+  disposition: DispositionSchema.nullable(),
+  /** Every disposition recorded for the item, oldest first (superseded ones included). */
   dispositions: z.array(DispositionSchema),
 });
 export type InvestigationItem = z.infer<typeof InvestigationItemSchema>;
@@ -143,7 +158,19 @@ export const NotificationRecordSchema = z.object({
   error: z.string().nullable().optional(),
 });
 
-export const InvestigationDetailSchema = InvestigationSummarySchema.extend({
+/** Counts of affected items: by whether the verdict could change, by the verdict recorded, and still undisposed. */
+export const AffectedTotalsSchema = z.object({
+  items: z.number().int(),
+  readings: z.number().int(),
+  calibrations: z.number().int(),
+  couldChange: z.number().int(),
+  holds: z.number().int(),
+  undisposed: z.number().int(),
+  byVerdict: z.object({ within_limits: z.number().int(), outside_limits: z.number().int(), pending: z.number().int() }),
+});
+export type AffectedTotals = z.infer<typeof AffectedTotalsSchema>;
+
+export const InvestigationDetailSchema = InvestigationSummarySchema.omit({ affectedReadings: true }).extend({
   tool: z.object({ assetTag: z.string(), description: z.string(), unit: UnitSchema }).nullable(),
   standard: z.object({ assetTag: z.string(), name: z.string(), unit: UnitSchema }).nullable(),
   calibrationId: z.string().nullable(),
@@ -161,13 +188,58 @@ export const InvestigationDetailSchema = InvestigationSummarySchema.extend({
     note: z.string().nullable(),
     notifications: NotificationRecordSchema.nullable(),
   }),
-  items: z.array(InvestigationItemSchema),
+  /** Counts over every affected item (the items themselves are paged: GET /api/investigations/:id/items). */
+  totals: AffectedTotalsSchema,
+  /** The check sheets the affected readings belong to, for the table's filter. */
+  jobs: z.array(z.object({ id: uuid, engineSerial: z.string(), workOrder: z.string().nullable(), count: z.number().int() })),
 });
 export type InvestigationDetail = z.infer<typeof InvestigationDetailSchema>;
 
+
+/** Columns the affected-items table sorts on ("-" first: descending). Without one: could-change first, then sheet, then time. */
+export const AFFECTED_SORTS = ["couldChange", "sheet", "takenAt", "item", "tool", "verdict", "margin", "disposition"] as const;
+export type AffectedSort = (typeof AFFECTED_SORTS)[number];
+
+const boolParam = z.union([z.boolean(), z.enum(["true", "false"]).transform((v) => v === "true")]);
+
+/** GET /api/investigations/:id/items: one page of affected items, sorted and filtered on the server. */
+export const AffectedItemsQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(50),
+  sort: z.enum([...AFFECTED_SORTS, ...AFFECTED_SORTS.map((x) => `-${x}` as const)] as [string, ...string[]]).optional(),
+  couldChange: boolParam.optional(),
+  verdict: z.enum(["within_limits", "outside_limits", "pending"]).optional(),
+  /** "none": only items still waiting for a disposition. */
+  disposition: z.enum([...DISPOSITION_KINDS, "none"]).optional(),
+  jobId: uuid.optional(),
+  /** Free text over the place, the engine serial, the work order and the tool's tag. */
+  q: optionalText(80),
+});
+export type AffectedItemsQuery = z.input<typeof AffectedItemsQuerySchema>;
+export type AffectedItemsQueryParsed = z.output<typeof AffectedItemsQuerySchema>;
+
+export const AffectedItemsPageSchema = z.object({ items: z.array(InvestigationItemSchema), total: z.number().int(), totals: AffectedTotalsSchema });
+export type AffectedItemsPage = z.infer<typeof AffectedItemsPageSchema>;
+
+/** A later reading of the same place on the same check sheet, offered as the remeasurement of an affected reading. */
+export const RemeasureCandidateSchema = z.object({
+  id: uuid,
+  takenAt: z.string(),
+  takenBy: z.string().nullable(),
+  values: z.array(z.number()),
+  unit: UnitSchema,
+  size: z.number().nullable(),
+  verdict: z.enum(["within_limits", "outside_limits", "pending"]),
+  toolAssetTags: z.array(z.string()),
+  /** True when it was recorded as a correction of the affected reading (directly or through later corrections). */
+  correctsAffected: z.boolean(),
+});
+export type RemeasureCandidate = z.infer<typeof RemeasureCandidateSchema>;
+export const RemeasureCandidatesSchema = z.array(RemeasureCandidateSchema);
+
 /**
  * A disposition for some items of one investigation: either `itemIds` or a whole `jobId`. Every kind needs a
- * rationale; `notify_owner` records whom and how; `remeasure` names the new reading that supersedes.
+ * rationale; `notify_owner` records whom and how; `remeasure` names the new reading of the same place (a later reading on the same check sheet).
  */
 export const CreateDispositionSchema = z
   .object({
@@ -178,7 +250,9 @@ export const CreateDispositionSchema = z
     notifiedWhom: optionalText(200),
     notifiedHow: optionalText(200),
     notifiedAt: InstantSchema.optional(),
-    remeasureReadingId: uuid.optional(),
+    // A form sends "" for a field left blank (or left behind when the kind changed): blank means absent.
+    // Checked only for a remeasurement; a form switched from "Remeasured" to another kind may still carry it.
+    remeasureReadingId: z.string().trim().max(100).optional(),
   })
   .superRefine((v, ctx) => {
     if (!!v.itemIds === !!v.jobId) ctx.addIssue({ code: "custom", path: ["itemIds"], message: "Name the affected items, or a whole job — one of the two." });
@@ -187,10 +261,19 @@ export const CreateDispositionSchema = z
       if (!v.notifiedHow) ctx.addIssue({ code: "custom", path: ["notifiedHow"], message: "Say how they were notified." });
     }
     if (v.kind === "remeasure") {
-      if (!v.remeasureReadingId) ctx.addIssue({ code: "custom", path: ["remeasureReadingId"], message: "Name the new reading that supersedes the affected one." });
+      if (!v.remeasureReadingId) ctx.addIssue({ code: "custom", path: ["remeasureReadingId"], message: "Pick the new reading of this place from the check sheet." });
+      else if (!uuid.safeParse(v.remeasureReadingId).success) ctx.addIssue({ code: "custom", path: ["remeasureReadingId"], message: "Not a valid id." });
       if (v.jobId || (v.itemIds && v.itemIds.length !== 1)) ctx.addIssue({ code: "custom", path: ["itemIds"], message: "A remeasurement answers one affected reading." });
     }
-  });
+  })
+  // What belongs to another kind is dropped, so a form switched from one kind to another records only what it shows.
+  .transform((v) => ({
+    ...v,
+    notifiedWhom: v.kind === "notify_owner" ? v.notifiedWhom : undefined,
+    notifiedHow: v.kind === "notify_owner" ? v.notifiedHow : undefined,
+    notifiedAt: v.kind === "notify_owner" ? v.notifiedAt : undefined,
+    remeasureReadingId: v.kind === "remeasure" ? v.remeasureReadingId : undefined,
+  }));
 export type CreateDispositionInput = z.input<typeof CreateDispositionSchema>;
 export type CreateDisposition = z.output<typeof CreateDispositionSchema>;
 

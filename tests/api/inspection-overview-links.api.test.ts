@@ -127,9 +127,9 @@ describe("open investigations", () => {
     expect(await listed()).toBe(before);
     expect((await quality.get("/api/investigations?status=open&awaitingDisposition=true")).body.map((v: { id: string }) => v.id)).toContain(lost.investigationId);
 
-    const detail = (await quality.get(`/api/investigations/${lost.investigationId}`)).body;
+    const affected = (await quality.get(`/api/investigations/${lost.investigationId}/items`)).body;
     const decided = await quality.post(`/api/investigations/${lost.investigationId}/dispositions`, {
-      itemIds: detail.items.map((i: { id: string }) => i.id),
+      itemIds: affected.items.map((i: { id: string }) => i.id),
       kind: "no_impact",
       rationale: "Stem read 0.0003 in inside both limits; the part was also checked with a second micrometer in calibration.",
     });

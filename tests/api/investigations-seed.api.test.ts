@@ -41,8 +41,11 @@ describe("the demo investigation", () => {
     expect(new Set(inv.affectedReadings.map((r: { jobId: string }) => r.jobId)).size).toBe(2);
     const detail = (await a.get(`/api/investigations/${inv.id}`)).body;
     expect(detail.finding.errors.find((e: { nominal: number }) => e.nominal === 0.5).error).toBe(0.0003);
-    expect(detail.items.filter((i: { dispositions: unknown[] }) => i.dispositions.length > 0)).toHaveLength(1);
+    const answered = (await a.get(`/api/investigations/${inv.id}/items?disposition=no_impact`)).body;
+    expect(answered.items).toHaveLength(1);
+    expect(answered.items[0].dispositions).toHaveLength(1);
     expect(detail.undisposedCount).toBe(detail.affectedCount - 1);
+    expect(detail.totals.undisposed).toBe(detail.totals.items - 1);
     expect(detail.finding.notifications.status).toBe("sent");
     expect(mailer.sent.some((m) => m.subject.includes("MIC-0104") && m.to === "quality@tenthwise.test")).toBe(true);
   });

@@ -34,10 +34,20 @@ async function find(finding: Finding) {
   return out!.investigationId;
 }
 
+/** The investigation with every affected item, read page by page as the page and the report read them. */
 async function detail(id: string) {
-  const res = await (await t.agent("auditor")).get(`/api/investigations/${id}`);
+  const a = await t.agent("auditor");
+  const res = await a.get(`/api/investigations/${id}`);
   expect(res.status).toBe(200);
-  return res.body;
+  const items: unknown[] = [];
+  for (let page = 1; ; page++) {
+    const p = await a.get(`/api/investigations/${id}/items?page=${page}&pageSize=2`);
+    expect(p.status).toBe(200);
+    items.push(...p.body.items);
+    if (p.body.items.length === 0 || items.length >= p.body.total) break;
+  }
+  expect(items).toHaveLength(res.body.totals.items);
+  return { ...res.body, items } as Record<string, any>;
 }
 
 /** A micrometer with one good calibration in January and an as-found failure (+0.0003 in at 0.500 in) today. */
@@ -395,13 +405,13 @@ describe("dispositions and close-out", () => {
     expect(await dispositionCount()).toBe(before);
   });
 
-  it("a remeasurement must be a new reading that supersedes the affected one; the investigation links it", async () => {
+  it("a remeasurement must be a later reading of the same place on the same sheet; the investigation links it", async () => {
     const o = await openWithTwoJobs();
     const q = await t.agent("quality");
     const unrelated = await makeReading(t.db, { jobId: o.job1.id, itemKey: "pin", index: 2, kind: "journal", values: ["0.1006"], takenAt: "2026-06-15T14:50:00Z", toolIds: [] });
     const refusedRes = await q.post(`/api/investigations/${o.id}/dispositions`, { itemIds: [o.item2], kind: "remeasure", rationale: "Remeasured", remeasureReadingId: unrelated.id });
     expect(refusedRes.status).toBe(409);
-    expect(refusedRes.body.error.code).toBe("remeasure_not_superseding");
+    expect(refusedRes.body.error.code).toBe("remeasure_not_later_reading");
     const again = await makeReading(t.db, { jobId: o.job1.id, itemKey: "pin", kind: "journal", values: ["0.1004"], takenAt: "2026-06-15T14:55:00Z", toolIds: [], supersedesId: o.r2.id });
     const ok = await q.post(`/api/investigations/${o.id}/dispositions`, { itemIds: [o.item2], kind: "remeasure", rationale: "Remeasured with MIC in calibration: 0.1004, within limits.", remeasureReadingId: again.id });
     expect(ok.status).toBe(201);

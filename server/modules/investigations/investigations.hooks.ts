@@ -1,21 +1,11 @@
+// The one place other modules reach investigations from (calibrations, checks and the crib open them; the check
+// sheet asks which readings are suspect). Imports run one way: hooks → service → notify → repository.
 import type { DbOrTx, Tx } from "../../db/client";
-import type { Clock } from "../../platform/clock";
-import type { Mailer } from "../../platform/mailer";
 import { openToolInvestigation } from "./investigations.service";
 import { openInvestigationReadingIds } from "./investigations.repository";
+import type { Finding, FindingDeps } from "./investigations.types";
 
-/** What opened an investigation; each is linked to the record that found it. */
-export type Finding =
-  | { kind: "as_found_failure"; toolId: string; calibrationId: string; at: Date; actorId: string | null }
-  | { kind: "check_failure"; toolId: string; checkId: string; at: Date; actorId: string | null }
-  | { kind: "lost"; toolId: string; at: Date; actorId: string | null }
-  | { kind: "damaged"; toolId: string; checkoutId: string; at: Date; actorId: string | null };
-
-export interface FindingDeps {
-  clock: Clock;
-  mailer?: Mailer;
-  timeZone: string;
-}
+export type { Finding, FindingDeps } from "./investigations.types";
 
 /**
  * Opens the out-of-tolerance investigation for a finding, inside the caller's

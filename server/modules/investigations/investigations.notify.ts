@@ -1,4 +1,3 @@
-import { and, eq, sql } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import type pg from "pg";
 import * as schema from "../../db/schema";
@@ -7,15 +6,8 @@ import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
 import { recordAudit } from "../audit/audit.repository";
 import { INVESTIGATION_CAUTIONS } from "../../../shared/investigations/investigations.schemas";
-import { investigations } from "./investigations.table";
-import { itemSummaries, noticeRecipients, pendingNoticeIds } from "./investigations.repository";
-import type { StoredFinding } from "./investigations.service";
-
-export interface Recipient {
-  email: string;
-  name: string;
-  reasons: string[];
-}
+import { claimPendingNotices, itemTotals, noticeRecipients, pendingNoticeIds, setFinding } from "./investigations.repository";
+import type { Recipient, StoredFinding } from "./investigations.types";
 
 /**
  * Works out who is told that an investigation opened (quality, and for every affected job the inspector who
@@ -34,7 +26,7 @@ export async function recordNotices(tx: Tx, investigationId: string, finding: St
   for (const u of signed) add(u, `signed the check sheet of engine ${u.engineSerial}`);
   for (const u of measured) add(u, `measured on engine ${u.engineSerial}`);
   const next: StoredFinding = { ...finding, notifications: { status: "pending", recipients: [...byEmail.values()], sentAt: null } };
-  await tx.update(investigations).set({ finding: next }).where(eq(investigations.id, investigationId));
+  await setFinding(tx, investigationId, next);
   return next;
 }
 
@@ -70,20 +62,13 @@ export async function deliverPendingNotices(db: Db, mailer: Mailer, clock: Clock
   return sent;
 }
 
-const isPending = sql`${investigations.finding}->'notifications'->>'status' = 'pending'`;
-
 /** Claims the pending notices of one investigation (exactly once), sends them, and records who was told. */
 export async function deliverNotices(db: Db, mailer: Mailer, clock: Clock, investigationId: string): Promise<number> {
-  const [claimed] = await db
-    .update(investigations)
-    .set({ finding: sql`jsonb_set(${investigations.finding}, '{notifications,status}', '"sending"')` })
-    .where(and(eq(investigations.id, investigationId), isPending))
-    .returning();
+  const claimed = await claimPendingNotices(db, investigationId);
   if (!claimed) return 0;
   const finding = claimed.finding as StoredFinding;
   const recipients = finding.notifications?.recipients ?? [];
-  const { counts } = await itemSummaries(db, [investigationId]);
-  const c = counts.get(investigationId) ?? { items: 0, couldChange: 0, undisposed: 0 };
+  const c = await itemTotals(db, investigationId);
   let error: string | null = null;
   let sent = 0;
   for (const r of recipients) {
@@ -96,7 +81,7 @@ export async function deliverNotices(db: Db, mailer: Mailer, clock: Clock, inves
   }
   const at = clock.now();
   const notifications = { ...finding.notifications!, status: error ? ("failed" as const) : ("sent" as const), sentAt: at.toISOString(), error };
-  await db.update(investigations).set({ finding: { ...finding, notifications } }).where(eq(investigations.id, investigationId));
+  await setFinding(db, investigationId, { ...finding, notifications });
   await recordAudit(db, {
     actorId: null,
     action: "investigation.notified",

@@ -18,7 +18,7 @@ function itemTitle(i: InvestigationItem): string {
  * disposition, the closing summary, and the cautions (the flags prompt a qualified evaluation; they are not
  * determinations).
  */
-export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date, tz: string): Promise<Buffer> {
+export async function writeInvestigationPdf(inv: InvestigationDetail, pages: AsyncIterable<InvestigationItem[]>, printedAt: Date, tz: string): Promise<Buffer> {
   const { doc, done } = newPdf(`Investigation ${inv.toolAssetTag ?? ""}`, { margin: 48 });
 
   const heading = (text: string) => doc.moveDown(0.6).font("bold").fontSize(12).text(text).font("body").fontSize(9.5);
@@ -51,8 +51,10 @@ export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date,
   doc.text(inv.finding.windowRule);
 
   heading(`Affected items (${inv.affectedCount}; ${inv.couldChangeCount} could have had a different verdict)`);
-  if (inv.items.length === 0) doc.text("No reading was taken with the tool in the window.");
-  for (const i of inv.items) {
+  if (inv.totals.items === 0) doc.text("No reading was taken with the tool in the window.");
+  // Every item, read a page at a time (could-change first, then by check sheet and time), so a large investigation is
+  // never held in memory at once.
+  for await (const page of pages) for (const i of page) {
     if (doc.y > doc.page.height - 160) doc.addPage();
     doc.moveDown(0.4).font("bold").text(itemTitle(i));
     doc.font("body");
@@ -77,8 +79,9 @@ export function writeInvestigationPdf(inv: InvestigationDetail, printedAt: Date,
     doc.fontSize(8.5).fillColor("#333").text(i.basis).fillColor("black").fontSize(9.5);
     if (i.dispositions.length === 0) doc.fillColor("#a33").text("Disposition: none yet").fillColor("black");
     for (const d of i.dispositions) {
+      const replaced = d.id !== i.disposition?.id;
       doc.text(
-        `Disposition: ${DISPOSITION_LABELS[d.kind]} — ${d.rationale} (${d.decidedBy.name}, ${when(d.decidedAt, tz)})` +
+        `${replaced ? "Disposition (replaced by a later one)" : "Disposition"}: ${DISPOSITION_LABELS[d.kind]} — ${d.rationale} (${d.decidedBy.name}, ${when(d.decidedAt, tz)})` +
           (d.notifiedWhom ? `; notified ${d.notifiedWhom} by ${d.notifiedHow ?? "—"} at ${when(d.notifiedAt, tz)}` : "") +
           (d.remeasureReadingId ? `; remeasured as reading ${d.remeasureReadingId}` : ""),
       );

@@ -86,24 +86,35 @@ export async function readingsWithTool(tx: DbOrTx, toolId: string, start: Date |
     .then((rows) => rows.map((r) => r.reading));
 }
 
-/**
- * What re-judging a batch of readings needs: their jobs and limits tables with the items, the current readings of those
- * jobs (the other sides of clearances and stations of tapers) and the tools each of them named.
- */
-export async function rejudgeContext(tx: DbOrTx, rs: ReadingRow[]) {
-  const jobIds = [...new Set(rs.map((r) => r.jobId))];
+/** The jobs of some readings with their limits tables and every item of those tables (in sheet order). */
+export async function jobsWithTables(tx: DbOrTx, jobIds: string[]) {
   const jobRows = jobIds.length ? await tx.select().from(jobs).where(inArray(jobs.id, jobIds)) : [];
   const tableIds = [...new Set(jobRows.map((j) => j.limitTableId))];
   const tables = tableIds.length ? await tx.select().from(limitTables).where(inArray(limitTables.id, tableIds)) : [];
   const items = tableIds.length ? await tx.select().from(limitItems).where(inArray(limitItems.limitTableId, tableIds)).orderBy(asc(limitItems.seq)) : [];
-  const siblings = jobIds.length
-    ? await tx.select().from(readings).where(and(inArray(readings.jobId, jobIds), readingNotSuperseded)).orderBy(asc(readings.takenAt))
-    : [];
-  const ids = [...new Set([...rs, ...siblings].map((r) => r.id))];
-  const toolRows = ids.length ? await tx.select({ readingId: readingTools.readingId, toolId: readingTools.toolId }).from(readingTools).where(inArray(readingTools.readingId, ids)) : [];
+  return { jobs: jobRows, tables, items };
+}
+
+/**
+ * The current readings of some check sheets (the other sides of clearances and stations of tapers an affected
+ * reading is judged with), each with the tools it named: one query for the readings, one for their tools.
+ */
+export async function currentReadingsOfJobs(tx: DbOrTx, jobIds: string[]) {
+  if (jobIds.length === 0) return { readings: [] as ReadingRow[], toolsOf: new Map<string, string[]>() };
+  const rows = await tx.select().from(readings).where(and(inArray(readings.jobId, jobIds), readingNotSuperseded)).orderBy(asc(readings.takenAt));
+  const toolRows = await tx
+    .select({ readingId: readingTools.readingId, toolId: readingTools.toolId })
+    .from(readingTools)
+    .innerJoin(readings, eq(readings.id, readingTools.readingId))
+    .where(inArray(readings.jobId, jobIds))
+    .orderBy(asc(readingTools.position));
   const toolsOf = new Map<string, string[]>();
-  for (const t of toolRows) toolsOf.set(t.readingId, [...(toolsOf.get(t.readingId) ?? []), t.toolId]);
-  return { jobs: jobRows, tables, items, siblings, toolsOf };
+  for (const t of toolRows) {
+    const list = toolsOf.get(t.readingId);
+    if (list) list.push(t.toolId);
+    else toolsOf.set(t.readingId, [t.toolId]);
+  }
+  return { readings: rows, toolsOf };
 }
 
 export async function calibrationPointsOf(tx: DbOrTx, calibrationId: string) {
@@ -174,9 +185,56 @@ export async function insertInvestigation(tx: DbOrTx, values: typeof investigati
   return row;
 }
 
-export async function insertItems(tx: DbOrTx, values: (typeof investigationItems.$inferInsert)[]) {
-  // Batches keep each statement well under PostgreSQL's parameter limit.
-  for (let i = 0; i < values.length; i += 1000) await tx.insert(investigationItems).values(values.slice(i, i + 1000));
+/** An affected item as computed when the investigation opens (numbers as exact decimal strings). */
+export interface ItemValues {
+  readingId?: string | null;
+  calibrationId?: string | null;
+  toolId: string | null;
+  verdictCouldChange: boolean;
+  basis: string;
+  marginBefore: string | null;
+  marginAfter: string | null;
+  correctedValue: string | null;
+  rejudged?: unknown;
+}
+
+/**
+ * Inserts the affected items of an investigation set-based: one INSERT … SELECT over the computed rows per batch
+ * (jsonb_to_recordset), never a statement per item.
+ */
+export async function insertItems(tx: DbOrTx, investigationId: string, values: ItemValues[]) {
+  for (let i = 0; i < values.length; i += 2000) {
+    const batch = values.slice(i, i + 2000).map((v) => ({
+      reading_id: v.readingId ?? null,
+      calibration_id: v.calibrationId ?? null,
+      tool_id: v.toolId,
+      verdict_could_change: v.verdictCouldChange,
+      basis: v.basis,
+      margin_before: v.marginBefore,
+      margin_after: v.marginAfter,
+      corrected_value: v.correctedValue,
+      rejudged: v.rejudged ?? null,
+    }));
+    await tx.execute(sql`
+      insert into investigation_items (investigation_id, reading_id, calibration_id, tool_id, verdict_could_change, basis, margin_before, margin_after, corrected_value, rejudged)
+      select ${investigationId}::uuid, x.reading_id, x.calibration_id, x.tool_id, x.verdict_could_change, x.basis, x.margin_before, x.margin_after, x.corrected_value, x.rejudged
+      from jsonb_to_recordset(${JSON.stringify(batch)}::jsonb)
+        as x(reading_id uuid, calibration_id uuid, tool_id uuid, verdict_could_change boolean, basis text, margin_before numeric, margin_after numeric, corrected_value numeric, rejudged jsonb)`);
+  }
+}
+
+export async function setFinding(tx: DbOrTx, investigationId: string, finding: unknown) {
+  await tx.update(investigations).set({ finding }).where(eq(investigations.id, investigationId));
+}
+
+/** Claims an investigation's pending notices (exactly once: only one caller sees them pending). */
+export async function claimPendingNotices(tx: DbOrTx, investigationId: string) {
+  const [claimed] = await tx
+    .update(investigations)
+    .set({ finding: sql`jsonb_set(${investigations.finding}, '{notifications,status}', '"sending"')` })
+    .where(and(eq(investigations.id, investigationId), sql`${investigations.finding}->'notifications'->>'status' = 'pending'`))
+    .returning();
+  return claimed ?? null;
 }
 
 /** People to tell when an investigation opens: quality users, and for each affected job the inspector who signed it and whoever measured. */
@@ -326,40 +384,195 @@ export async function itemSummaries(tx: DbOrTx, investigationIds: string[]) {
   return { readingsOf, counts: new Map(countRows.map((c) => [c.investigationId, c])) };
 }
 
-/** Everything the investigation page and the report show about its items. */
-export async function itemDetails(tx: DbOrTx, investigationId: string) {
+/** The disposition in force for an item: the latest one no later one supersedes. */
+const currentDispositionKind = sql<string | null>`(select cd.kind from dispositions cd
+  where cd.investigation_item_id = investigation_items.id and not exists (select 1 from dispositions cs where cs.supersedes_id = cd.id)
+  order by cd.decided_at desc, cd.id desc limit 1)`;
+
+export interface ItemFilter {
+  couldChange?: boolean;
+  verdict?: "within_limits" | "outside_limits" | "pending";
+  disposition?: "no_impact" | "remeasure" | "notify_owner" | "recall" | "none";
+  jobId?: string;
+  q?: string;
+}
+
+function itemConditions(investigationId: string, f: ItemFilter): SQL {
+  const conds: (SQL | undefined)[] = [eq(investigationItems.investigationId, investigationId)];
+  if (f.couldChange !== undefined) conds.push(eq(investigationItems.verdictCouldChange, f.couldChange));
+  if (f.verdict) conds.push(eq(readings.verdict, f.verdict));
+  if (f.disposition === "none") conds.push(itemWithoutDisposition);
+  else if (f.disposition) conds.push(sql`${currentDispositionKind} = ${f.disposition}`);
+  if (f.jobId) conds.push(eq(readings.jobId, f.jobId));
+  if (f.q) {
+    const like = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    conds.push(
+      sql`(coalesce(${limitItems.label}, ${readings.itemKey}) ilike ${like} or ${jobs.engineSerial} ilike ${like} or ${jobs.workOrder} ilike ${like} or ${tools.assetTag} ilike ${like})`,
+    );
+  }
+  return and(...conds)!;
+}
+
+const takenAtOf = sql`coalesce(${readings.takenAt}, ${calibrations.performedAt})`;
+/** Could-change first, then by check sheet (a cascade's calibrations before any sheet), then by time. */
+const DEFAULT_ORDER = [sql`${investigationItems.verdictCouldChange} desc`, sql`${jobs.engineSerial} asc nulls first`, sql`${takenAtOf} asc`, sql`${readings.index} asc nulls first`, sql`${investigationItems.id} asc`];
+const SORT_COLUMNS: Record<string, SQL> = {
+  couldChange: sql`${investigationItems.verdictCouldChange}`,
+  sheet: sql`${jobs.engineSerial}`,
+  takenAt: takenAtOf,
+  item: sql`coalesce(${limitItems.label}, ${readings.itemKey})`,
+  tool: sql`${tools.assetTag}`,
+  verdict: sql`${readings.verdict}`,
+  margin: sql`${investigationItems.marginAfter}`,
+  disposition: currentDispositionKind,
+};
+
+/** The joins every item query shares: tool, reading, its sheet and place, the cascade's calibration. */
+function itemsFrom<T extends Record<string, unknown>>(tx: DbOrTx, fields: T) {
   const taker = alias(users, "taker");
-  const rows = await tx
-    .select({
-      item: investigationItems,
-      toolAssetTag: tools.assetTag,
-      reading: readings,
-      job: jobs,
-      takenByName: taker.name,
-      calibration: calibrations,
-    })
+  return tx
+    .select(fields as never)
     .from(investigationItems)
     .leftJoin(tools, eq(tools.id, investigationItems.toolId))
     .leftJoin(readings, eq(readings.id, investigationItems.readingId))
     .leftJoin(jobs, eq(jobs.id, readings.jobId))
+    .leftJoin(limitItems, and(eq(limitItems.limitTableId, jobs.limitTableId), eq(limitItems.key, readings.itemKey)))
     .leftJoin(taker, eq(taker.id, readings.takenBy))
-    .leftJoin(calibrations, eq(calibrations.id, investigationItems.calibrationId))
+    .leftJoin(calibrations, eq(calibrations.id, investigationItems.calibrationId));
+}
+
+/** One page of an investigation's affected items, filtered and sorted in the database. */
+export async function itemPage(tx: DbOrTx, investigationId: string, f: ItemFilter & { sort?: string; page: number; pageSize: number }) {
+  const taker = alias(users, "taker");
+  const order: SQL[] = [];
+  if (f.sort) {
+    const desc = f.sort.startsWith("-");
+    const col = SORT_COLUMNS[f.sort.replace(/^-/, "")];
+    if (col) order.push(desc ? sql`${col} desc nulls last` : sql`${col} asc nulls first`);
+  }
+  order.push(...DEFAULT_ORDER);
+  const rows = (await itemsFrom(tx, {
+    item: investigationItems,
+    toolAssetTag: tools.assetTag,
+    reading: readings,
+    job: jobs,
+    itemLabel: limitItems.label,
+    takenByName: taker.name,
+    calibration: calibrations,
+  })
+    .where(itemConditions(investigationId, f))
+    .orderBy(...order)
+    .limit(f.pageSize)
+    .offset(pageOffset(f.page, f.pageSize))) as unknown as {
+    item: InvestigationItemRow;
+    toolAssetTag: string | null;
+    reading: ReadingRow | null;
+    job: typeof jobs.$inferSelect | null;
+    itemLabel: string | null;
+    takenByName: string | null;
+    calibration: typeof calibrations.$inferSelect | null;
+  }[];
+  return rows;
+}
+
+/** Counts over an investigation's items (or those a filter keeps): could change or hold, by recorded verdict, undisposed. */
+export async function itemTotals(tx: DbOrTx, investigationId: string, f: ItemFilter = {}) {
+  const [row] = (await itemsFrom(tx, {
+    items: sql<number>`count(*)::int`,
+    readings: sql<number>`count(${investigationItems.readingId})::int`,
+    calibrations: sql<number>`count(${investigationItems.calibrationId})::int`,
+    couldChange: sql<number>`count(*) filter (where ${investigationItems.verdictCouldChange})::int`,
+    undisposed: sql<number>`count(*) filter (where ${itemWithoutDisposition})::int`,
+    within: sql<number>`count(*) filter (where ${readings.verdict} = 'within_limits')::int`,
+    outside: sql<number>`count(*) filter (where ${readings.verdict} = 'outside_limits')::int`,
+    pending: sql<number>`count(*) filter (where ${readings.verdict} = 'pending')::int`,
+  }).where(itemConditions(investigationId, f))) as unknown as {
+    items: number;
+    readings: number;
+    calibrations: number;
+    couldChange: number;
+    undisposed: number;
+    within: number;
+    outside: number;
+    pending: number;
+  }[];
+  return {
+    items: row.items,
+    readings: row.readings,
+    calibrations: row.calibrations,
+    couldChange: row.couldChange,
+    holds: row.items - row.couldChange,
+    undisposed: row.undisposed,
+    byVerdict: { within_limits: row.within, outside_limits: row.outside, pending: row.pending },
+  };
+}
+
+/** The check sheets an investigation's readings belong to, with how many affected items each holds. */
+export async function itemJobs(tx: DbOrTx, investigationId: string) {
+  return tx
+    .select({ id: jobs.id, engineSerial: jobs.engineSerial, workOrder: jobs.workOrder, count: sql<number>`count(*)::int` })
+    .from(investigationItems)
+    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
+    .innerJoin(jobs, eq(jobs.id, readings.jobId))
     .where(eq(investigationItems.investigationId, investigationId))
-    .orderBy(asc(jobs.engineSerial), asc(readings.takenAt), asc(calibrations.performedAt), asc(investigationItems.id));
-  const tableIds = [...new Set(rows.map((r) => r.job?.limitTableId).filter((x): x is string => !!x))];
-  const labels = tableIds.length
-    ? await tx.select({ limitTableId: limitItems.limitTableId, key: limitItems.key, label: limitItems.label, seq: limitItems.seq }).from(limitItems).where(inArray(limitItems.limitTableId, tableIds))
+    .groupBy(jobs.id, jobs.engineSerial, jobs.workOrder)
+    .orderBy(asc(jobs.engineSerial));
+}
+
+/** Every disposition of some items, oldest first, with who decided. */
+export async function dispositionsOfItems(tx: DbOrTx, itemIds: string[]) {
+  if (itemIds.length === 0) return [];
+  return tx
+    .select({ d: dispositions, byName: users.name })
+    .from(dispositions)
+    .innerJoin(users, eq(users.id, dispositions.decidedBy))
+    .where(inArray(dispositions.investigationItemId, itemIds))
+    .orderBy(asc(dispositions.decidedAt), asc(dispositions.id));
+}
+
+/** The disposition in force for each of some items (none superseding it), by item. */
+export async function currentDispositions(tx: DbOrTx, itemIds: string[]) {
+  if (itemIds.length === 0) return new Map<string, typeof dispositions.$inferSelect>();
+  const rows = await tx
+    .selectDistinctOn([dispositions.investigationItemId])
+    .from(dispositions)
+    .where(and(inArray(dispositions.investigationItemId, itemIds), sql.raw("not exists (select 1 from dispositions cs where cs.supersedes_id = dispositions.id)")))
+    .orderBy(dispositions.investigationItemId, desc(dispositions.decidedAt), desc(dispositions.id));
+  return new Map(rows.map((r) => [r.investigationItemId, r]));
+}
+
+/**
+ * Later readings of one place on one check sheet (same job, item and index, taken after `after`), current ones
+ * only, with their tools: what a remeasurement of an affected reading can be.
+ */
+export async function laterReadingsOfPlace(tx: DbOrTx, place: { jobId: string; itemKey: string; index: number; after: Date; excludeId: string }) {
+  const taker = alias(users, "taker");
+  const rows = await tx
+    .select({ reading: readings, takenByName: taker.name })
+    .from(readings)
+    .leftJoin(taker, eq(taker.id, readings.takenBy))
+    .where(
+      and(
+        eq(readings.jobId, place.jobId),
+        eq(readings.itemKey, place.itemKey),
+        eq(readings.index, place.index),
+        sql`${readings.takenAt} > ${place.after.toISOString()}`,
+        ne(readings.id, place.excludeId),
+        readingNotSuperseded,
+      ),
+    )
+    .orderBy(desc(readings.takenAt))
+    .limit(200);
+  const ids = rows.map((r) => r.reading.id);
+  const tags = ids.length
+    ? await tx.select({ readingId: readingTools.readingId, tag: tools.assetTag }).from(readingTools).innerJoin(tools, eq(tools.id, readingTools.toolId)).where(inArray(readingTools.readingId, ids)).orderBy(asc(readingTools.position))
     : [];
-  const itemIds = rows.map((r) => r.item.id);
-  const disp = itemIds.length
-    ? await tx
-        .select({ d: dispositions, byName: users.name })
-        .from(dispositions)
-        .innerJoin(users, eq(users.id, dispositions.decidedBy))
-        .where(inArray(dispositions.investigationItemId, itemIds))
-        .orderBy(asc(dispositions.decidedAt))
-    : [];
-  return { rows, labels, dispositions: disp };
+  return rows.map((r) => ({ ...r, toolAssetTags: tags.filter((t) => t.readingId === r.reading.id).map((t) => t.tag) }));
+}
+
+export async function findItem(tx: DbOrTx, investigationId: string, itemId: string) {
+  const [row] = await tx.select().from(investigationItems).where(and(eq(investigationItems.id, itemId), eq(investigationItems.investigationId, investigationId)));
+  return row ?? null;
 }
 
 export async function userName(tx: DbOrTx, id: string | null) {

@@ -4,7 +4,10 @@ import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
 import { getSettings } from "../settings/settings.service";
 import {
+  AffectedItemsPageSchema,
+  AffectedItemsQuerySchema,
   CloseInvestigationSchema,
+  RemeasureCandidatesSchema,
   CreateDispositionResultSchema,
   CreateDispositionSchema,
   InvestigationDetailSchema,
@@ -13,7 +16,7 @@ import {
   StandardFindingResultSchema,
   StandardFindingSchema,
 } from "../../../shared/investigations/investigations.schemas";
-import { addDispositions, closeInvestigation, getInvestigation, listInvestigations, openStandardInvestigation } from "./investigations.service";
+import { addDispositions, allItems, closeInvestigation, getInvestigation, listInvestigations, listItems, openStandardInvestigation, remeasureCandidates } from "./investigations.service";
 import { writeInvestigationPdf } from "./investigations.pdf";
 
 const Id = z.string().uuid("Not a valid id.");
@@ -42,8 +45,39 @@ export function investigationsRoutes(deps: AppDeps) {
   );
 
   route(
-    { method: "get", path: "/api/investigations/:id", summary: "One investigation: the finding, the window, every affected item re-judged, with dispositions", access: "signedIn", response: InvestigationDetailSchema },
+    {
+      method: "get",
+      path: "/api/investigations/:id",
+      summary: "One investigation: the finding, the window, totals of its affected items by verdict and the check sheets they belong to (the items are paged: /items)",
+      access: "signedIn",
+      response: InvestigationDetailSchema,
+    },
     async ({ params }) => getInvestigation(deps.db, Id.parse(params.id)),
+  );
+
+  route(
+    {
+      method: "get",
+      path: "/api/investigations/:id/items",
+      summary:
+        "A page of an investigation's affected items, each re-judged with its dispositions. Sorted on the server (sort=couldChange|sheet|takenAt|item|tool|verdict|margin|disposition, '-' for descending; " +
+        "by default could-change first, then by check sheet and time); filters couldChange, verdict, disposition (a kind, or none), jobId and q (place, engine, work order, tool); totals by verdict over the filter.",
+      access: "signedIn",
+      query: AffectedItemsQuerySchema,
+      response: AffectedItemsPageSchema,
+    },
+    async ({ params, query }) => listItems(deps.db, Id.parse(params.id), query),
+  );
+
+  route(
+    {
+      method: "get",
+      path: "/api/investigations/:id/items/:itemId/remeasure-candidates",
+      summary: "The later readings of an affected reading's place on the same check sheet, newest first: what its remeasurement can be",
+      access: "signedIn",
+      response: RemeasureCandidatesSchema,
+    },
+    async ({ params }) => remeasureCandidates(deps.db, Id.parse(params.id), Id.parse(params.itemId)),
   );
 
   route(
@@ -51,7 +85,7 @@ export function investigationsRoutes(deps: AppDeps) {
     async ({ params, res }) => {
       const inv = await getInvestigation(deps.db, Id.parse(params.id));
       const settings = await getSettings(deps.db, deps.config.SHOP_TIME_ZONE);
-      const pdf = await writeInvestigationPdf(inv, deps.clock.now(), settings.shopTimeZone);
+      const pdf = await writeInvestigationPdf(inv, allItems(deps.db, inv.id), deps.clock.now(), settings.shopTimeZone);
       res.setHeader("Content-Type", "application/pdf");
       res.setHeader("Content-Disposition", `inline; filename="investigation-${inv.toolAssetTag ?? inv.id}-${inv.openedAt.slice(0, 10)}.pdf"`);
       res.status(200).end(pdf);
@@ -62,7 +96,9 @@ export function investigationsRoutes(deps: AppDeps) {
     {
       method: "post",
       path: "/api/investigations/:id/dispositions",
-      summary: "Record a disposition (no_impact, remeasure, notify_owner, recall) with its rationale for some affected items or a whole job",
+      summary:
+        "Record a disposition (no_impact, remeasure, notify_owner, recall) with its rationale for some affected items (the table's selected rows) or a whole job, all or none. " +
+        "An item that already has one gets a new disposition superseding it; the old one is kept. A remeasurement names a later reading of the same place on the same sheet.",
       access: "dispositions.write",
       body: CreateDispositionSchema,
       response: CreateDispositionResultSchema,

@@ -4,41 +4,32 @@ import { AppError, notFound, refused } from "../../http/errors";
 import { recordAudit } from "../audit/audit.repository";
 import { getSettings } from "../settings/settings.service";
 import { dec, num } from "../../../shared/common/decimal";
-import { convertLength, type LengthUnit } from "../../../shared/common/units";
+import { convertLength } from "../../../shared/common/units";
 import { rejudgeAffectedReading, type ReviewedReading, type ToolErrorPoint, type ToolErrors } from "../../../shared/investigations/affected-reading";
 import { toItemView } from "../limit-tables/limit-tables.service";
 import { evidenceOfRows } from "../readings/reading-evidence";
-import type { ReadingEvidence } from "../../../shared/inspection/judging";
+import type { ItemRules, ReadingEvidence } from "../../../shared/inspection/judging";
 import { rejudgeCalibration, type StandardError } from "../../../shared/investigations/cascade";
 import type {
+  AffectedItemsPage,
+  AffectedItemsQuery,
   CreateDisposition,
   Disposition,
   InvestigationDetail,
   InvestigationItem,
   InvestigationListQuery,
   InvestigationSummary,
+  RemeasureCandidate,
 } from "../../../shared/investigations/investigations.schemas";
-import { InvestigationListQuerySchema } from "../../../shared/investigations/investigations.schemas";
-import { investigationItems, type dispositions } from "./investigations.table";
+import { AffectedItemsQuerySchema, InvestigationListQuerySchema } from "../../../shared/investigations/investigations.schemas";
+import type { dispositions } from "./investigations.table";
 import * as repo from "./investigations.repository";
-import { recordNotices, sendAfterCommit, type Recipient } from "./investigations.notify";
-import type { Finding, FindingDeps } from "./investigations.hooks";
+import { recordNotices, sendAfterCommit } from "./investigations.notify";
+import type { Finding, FindingDeps, StoredFinding } from "./investigations.types";
 
-/** The `finding` JSON of an investigation. */
-export interface StoredFinding {
-  /** A short name for mail subjects, e.g. "MIC-0104 (as-found out of tolerance)". */
-  subject: string;
-  summary: string;
-  unit: LengthUnit | null;
-  errors: { nominal: number; error: number; uncertainty: number | null; mpe: number | null }[] | null;
-  windowRule: string;
-  note: string | null;
-  checkoutId: string | null;
-  knownGood: { source: "calibration" | "check" | "certificate"; id: string | null; at: string } | null;
-  notifications: { status: "pending" | "sending" | "sent" | "failed"; recipients: Recipient[]; sentAt: string | null; error?: string | null } | null;
-}
+export type { StoredFinding } from "./investigations.types";
 
-type ItemInsert = Omit<typeof investigationItems.$inferInsert, "investigationId">;
+type ItemInsert = repo.ItemValues;
 
 const n = (x: string | null | undefined) => (x == null ? null : Number(x));
 const s = (x: number | null | undefined) => (x == null ? null : dec(x).toString());
@@ -48,49 +39,82 @@ const WINDOW_RULE =
   "From the last time the tool was known good (its last calibration before the finding that left it in tolerance — as-found in tolerance, or adjusted so that its as-left is — " +
   "or, where the shop's setting says so, its last passing intermediate check), inclusive, up to the finding, inclusive. Never known good: every reading before the finding.";
 
+/** How many check sheets are loaded at a time while re-judging: bounded memory, a fixed number of queries per chunk. */
+const JOBS_PER_CHUNK = 200;
+
 /**
  * Re-judges readings taken with one tool whose error is `errors`, under the check sheet's rules: one item per reading.
- * Each reading goes through the pure shared function with its siblings (the other current readings of its job and
- * index), so the same function can serve a streaming pass.
+ * One streaming pass over the check sheets they belong to: each sheet's current readings (the siblings a clearance or
+ * taper is judged with) are loaded once, grouped by place index, and every affected reading of that sheet goes through
+ * the same pure shared function as the sheet itself (shared/investigations/affected-reading.ts).
  */
 async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolErrors, toolId: string): Promise<ItemInsert[]> {
   if (rs.length === 0) return [];
-  const ctx = await repo.rejudgeContext(tx, rs);
+  const byJob = new Map<string, repo.ReadingRow[]>();
+  for (const r of rs) {
+    const list = byJob.get(r.jobId);
+    if (list) list.push(r);
+    else byJob.set(r.jobId, [r]);
+  }
+  const jobIds = [...byJob.keys()];
+  const ctx = await repo.jobsWithTables(tx, jobIds);
   const jobById = new Map(ctx.jobs.map((j) => [j.id, j]));
   const tableById = new Map(ctx.tables.map((t) => [t.id, t]));
-  // Evidence per table unit (a legacy feeler reading's leaves are converted into its table's unit).
-  const evidence = new Map<string, ReadingEvidence>();
-  for (const t of ctx.tables) {
-    const jobIds = new Set(ctx.jobs.filter((j) => j.limitTableId === t.id).map((j) => j.id));
-    const rows = [...rs, ...ctx.siblings].filter((r) => jobIds.has(r.jobId));
-    for (const [id, e] of await evidenceOfRows(tx, rows, t.unit)) evidence.set(id, e);
+  // Each table's items as the judging rules read them, once per table.
+  const rulesOf = new Map<string, ItemRules[]>();
+  for (const it of ctx.items) {
+    const list = rulesOf.get(it.limitTableId);
+    if (list) list.push(toItemView(it));
+    else rulesOf.set(it.limitTableId, [toItemView(it)]);
   }
-  const reviewed = (r: repo.ReadingRow): ReviewedReading => ({ ...evidence.get(r.id)!, id: r.id, toolIds: ctx.toolsOf.get(r.id) ?? [], recordedVerdict: r.verdict });
-  return rs.map((r) => {
-    const job = jobById.get(r.jobId)!;
-    const table = tableById.get(job.limitTableId)!;
-    const items = ctx.items.filter((i) => i.limitTableId === job.limitTableId).map(toItemView);
-    const siblings = ctx.siblings.filter((x) => x.jobId === r.jobId && x.index === r.index && x.id !== r.id).map(reviewed);
-    const j = rejudgeAffectedReading({
-      reading: reviewed(r),
-      toolId,
-      errors,
-      siblings,
-      items,
-      ctx: { tableUnit: table.unit, tableExpansionPerK: n(table.expansionPerK) },
-      label: (it, index) => `${it.label}${it.repeat > 1 ? ` no. ${index}` : ""}`,
-    });
-    return {
-      readingId: r.id,
-      toolId,
-      verdictCouldChange: j.verdictCouldChange,
-      basis: j.basis,
-      marginBefore: s(j.marginBefore),
-      marginAfter: s(j.marginAfter),
-      correctedValue: s(j.correctedValue),
-      rejudged: { quantity: j.quantity, measuredValue: j.measuredValue, bandLow: j.bandLow, bandHigh: j.bandHigh, verdictNow: j.verdictNow, places: j.places },
-    };
-  });
+  const label = (it: ItemRules, index: number) => `${it.label}${it.repeat > 1 ? ` no. ${index}` : ""}`;
+  const out = new Map<string, ItemInsert>();
+
+  for (let c = 0; c < jobIds.length; c += JOBS_PER_CHUNK) {
+    const chunk = jobIds.slice(c, c + JOBS_PER_CHUNK);
+    const sheet = await repo.currentReadingsOfJobs(tx, chunk);
+    // Evidence per table unit (a legacy feeler reading's leaves are converted into its table's unit).
+    const evidence = new Map<string, ReadingEvidence>();
+    const rowsByTable = new Map<string, repo.ReadingRow[]>();
+    for (const r of [...sheet.readings, ...chunk.flatMap((j) => byJob.get(j)!)]) {
+      const tableId = jobById.get(r.jobId)!.limitTableId;
+      const list = rowsByTable.get(tableId);
+      if (list) list.push(r);
+      else rowsByTable.set(tableId, [r]);
+    }
+    for (const [tableId, rows] of rowsByTable) for (const [id, e] of await evidenceOfRows(tx, rows, tableById.get(tableId)!.unit)) evidence.set(id, e);
+    const reviewed = (r: repo.ReadingRow): ReviewedReading => ({ ...evidence.get(r.id)!, id: r.id, toolIds: sheet.toolsOf.get(r.id) ?? [], recordedVerdict: r.verdict });
+    // The sheet's readings by place index: the siblings of a reading are the other readings of its job and index.
+    const atIndex = new Map<string, ReviewedReading[]>();
+    for (const r of sheet.readings) {
+      const key = `${r.jobId}:${r.index}`;
+      const list = atIndex.get(key);
+      if (list) list.push(reviewed(r));
+      else atIndex.set(key, [reviewed(r)]);
+    }
+    for (const jobId of chunk) {
+      const job = jobById.get(jobId)!;
+      const table = tableById.get(job.limitTableId)!;
+      const items = rulesOf.get(job.limitTableId) ?? [];
+      const judgingCtx = { tableUnit: table.unit, tableExpansionPerK: n(table.expansionPerK) };
+      for (const r of byJob.get(jobId)!) {
+        const siblings = (atIndex.get(`${r.jobId}:${r.index}`) ?? []).filter((x) => x.id !== r.id);
+        const j = rejudgeAffectedReading({ reading: reviewed(r), toolId, errors, siblings, items, ctx: judgingCtx, label });
+        out.set(r.id, {
+          readingId: r.id,
+          toolId,
+          verdictCouldChange: j.verdictCouldChange,
+          basis: j.basis,
+          marginBefore: s(j.marginBefore),
+          marginAfter: s(j.marginAfter),
+          correctedValue: s(j.correctedValue),
+          rejudged: { quantity: j.quantity, measuredValue: j.measuredValue, bandLow: j.bandLow, bandHigh: j.bandHigh, verdictNow: j.verdictNow, places: j.places },
+        });
+      }
+    }
+  }
+  // In the order the readings were taken, as before.
+  return rs.map((r) => out.get(r.id)!);
 }
 
 function pointsOf(rows: { nominal: string; errorAsFound: string; uncertainty: string | null; elementId: string | null }[]): ToolErrorPoint[] {
@@ -174,7 +198,7 @@ export async function openToolInvestigation(tx: Tx, deps: FindingDeps, finding: 
 }
 
 async function finishOpening(tx: Tx, deps: FindingDeps, inv: repo.InvestigationRow, items: ItemInsert[], actorId: string | null) {
-  await repo.insertItems(tx, items.map((i) => ({ ...i, investigationId: inv.id })));
+  await repo.insertItems(tx, inv.id, items);
   await recordAudit(tx, {
     actorId,
     action: "investigation.open",
@@ -304,54 +328,18 @@ function summaryOf(
   };
 }
 
-/** One investigation with its finding, window and every item re-judged, with dispositions. */
+/** One investigation: its finding, window and totals by verdict; its items are read a page at a time (listItems). */
 export async function getInvestigation(db: DbOrTx, id: string): Promise<InvestigationDetail> {
   const inv = await repo.findInvestigation(db, id);
   if (!inv) throw notFound("investigation", id);
   const tool = inv.toolId ? await repo.findTool(db, inv.toolId) : null;
   const std = inv.standardId ? await repo.findStandard(db, inv.standardId) : null;
-  const { readingsOf, counts } = await repo.itemSummaries(db, [id]);
-  const summary = summaryOf(
+  const totals = await repo.itemTotals(db, id);
+  const { affectedReadings: _omitted, ...summary } = summaryOf(
     { inv, toolAssetTag: tool?.assetTag ?? null, toolDescription: tool?.description ?? null, standardAssetTag: std?.assetTag ?? null, standardName: std?.name ?? null },
-    readingsOf.get(id) ?? [],
-    counts.get(id),
+    [],
+    totals,
   );
-  const d = await repo.itemDetails(db, id);
-  const labelOf = new Map(d.labels.map((l) => [`${l.limitTableId}:${l.key}`, l.label]));
-  const dispOf = new Map<string, Disposition[]>();
-  for (const { d: x, byName } of d.dispositions) {
-    const list = dispOf.get(x.investigationItemId) ?? [];
-    list.push(dispositionView(x, byName));
-    dispOf.set(x.investigationItemId, list);
-  }
-  const items: InvestigationItem[] = d.rows.map(({ item, toolAssetTag, reading, job, takenByName, calibration }) => ({
-    id: item.id,
-    kind: item.readingId ? "reading" : "calibration",
-    toolAssetTag,
-    readingId: item.readingId,
-    calibrationId: item.calibrationId,
-    job: job ? { id: job.id, engineSerial: job.engineSerial, engineModel: job.engineModel, workOrder: job.workOrder } : null,
-    itemKey: reading?.itemKey ?? null,
-    itemLabel: reading && job ? (labelOf.get(`${job.limitTableId}:${reading.itemKey}`) ?? reading.itemKey) : calibration ? "Calibration (as-found error)" : null,
-    index: reading?.index ?? null,
-    unit: reading?.unit ?? null,
-    values: (reading?.values ?? []).map(Number),
-    quantity: rejudgedOf(item).quantity ?? (reading ? "size" : null),
-    measuredValue: rejudgedOf(item).measuredValue ?? (reading ? n(reading.size) : null),
-    bandLow: rejudgedOf(item).bandLow ?? null,
-    bandHigh: rejudgedOf(item).bandHigh ?? null,
-    places: rejudgedOf(item).places ?? [],
-    originalVerdict: reading?.verdict ?? (calibration ? calibration.result : null),
-    correctedValue: n(item.correctedValue),
-    marginBefore: n(item.marginBefore),
-    marginAfter: n(item.marginAfter),
-    verdictCouldChange: item.verdictCouldChange,
-    basis: item.basis,
-    takenAt: reading ? reading.takenAt.toISOString() : calibration ? calibration.performedAt.toISOString() : null,
-    takenBy: takenByName ?? calibration?.performedByName ?? null,
-    override: !!reading?.overrideReason,
-    dispositions: dispOf.get(item.id) ?? [],
-  }));
   const f = inv.finding as StoredFinding;
   return {
     ...summary,
@@ -364,8 +352,71 @@ export async function getInvestigation(db: DbOrTx, id: string): Promise<Investig
     closedBy: await repo.userName(db, inv.closedBy),
     closingSummary: inv.closingSummary,
     finding: { summary: f.summary, unit: f.unit, errors: f.errors, windowRule: f.windowRule, note: f.note, notifications: f.notifications },
-    items,
+    totals,
+    jobs: await repo.itemJobs(db, id),
   };
+}
+
+/** One page of an investigation's affected items, sorted and filtered in the database, with totals over the filter. */
+export async function listItems(db: DbOrTx, id: string, query: AffectedItemsQuery): Promise<AffectedItemsPage> {
+  const q = AffectedItemsQuerySchema.parse(query);
+  if (!(await repo.findInvestigation(db, id))) throw notFound("investigation", id);
+  const rows = await repo.itemPage(db, id, q);
+  const totals = await repo.itemTotals(db, id, q);
+  return { items: await itemViews(db, rows), total: totals.items, totals };
+}
+
+/** Every affected item, a page at a time in the table's default order (for the report). */
+export async function* allItems(db: DbOrTx, id: string, pageSize = 500): AsyncGenerator<InvestigationItem[]> {
+  for (let page = 1; ; page++) {
+    const rows = await repo.itemPage(db, id, { page, pageSize });
+    if (rows.length === 0) return;
+    yield await itemViews(db, rows);
+    if (rows.length < pageSize) return;
+  }
+}
+
+async function itemViews(db: DbOrTx, rows: Awaited<ReturnType<typeof repo.itemPage>>): Promise<InvestigationItem[]> {
+  const dispOf = new Map<string, Disposition[]>();
+  for (const { d: x, byName } of await repo.dispositionsOfItems(db, rows.map((r) => r.item.id))) {
+    const list = dispOf.get(x.investigationItemId) ?? [];
+    list.push(dispositionView(x, byName));
+    dispOf.set(x.investigationItemId, list);
+  }
+  return rows.map(({ item, toolAssetTag, reading, job, itemLabel, takenByName, calibration }) => {
+    const history = dispOf.get(item.id) ?? [];
+    const superseded = new Set(history.map((d) => d.supersedesId).filter((x): x is string => !!x));
+    const current = [...history].reverse().find((d) => !superseded.has(d.id)) ?? null;
+    return {
+      id: item.id,
+      kind: item.readingId ? "reading" : "calibration",
+      toolAssetTag,
+      readingId: item.readingId,
+      calibrationId: item.calibrationId,
+      job: job ? { id: job.id, engineSerial: job.engineSerial, engineModel: job.engineModel, workOrder: job.workOrder } : null,
+      itemKey: reading?.itemKey ?? null,
+      itemLabel: reading ? (itemLabel ?? reading.itemKey) : calibration ? "Calibration (as-found error)" : null,
+      index: reading?.index ?? null,
+      unit: reading?.unit ?? null,
+      values: (reading?.values ?? []).map(Number),
+      quantity: rejudgedOf(item).quantity ?? (reading ? "size" : null),
+      measuredValue: rejudgedOf(item).measuredValue ?? (reading ? n(reading.size) : null),
+      bandLow: rejudgedOf(item).bandLow ?? null,
+      bandHigh: rejudgedOf(item).bandHigh ?? null,
+      places: rejudgedOf(item).places ?? [],
+      originalVerdict: reading?.verdict ?? (calibration ? calibration.result : null),
+      correctedValue: n(item.correctedValue),
+      marginBefore: n(item.marginBefore),
+      marginAfter: n(item.marginAfter),
+      verdictCouldChange: item.verdictCouldChange,
+      basis: item.basis,
+      takenAt: reading ? reading.takenAt.toISOString() : calibration ? calibration.performedAt.toISOString() : null,
+      takenBy: takenByName ?? calibration?.performedByName ?? null,
+      override: !!reading?.overrideReason,
+      disposition: current,
+      dispositions: history,
+    };
+  });
 }
 
 /** What an item's re-judging kept (items opened before it was kept have none). */
@@ -394,6 +445,7 @@ function dispositionView(x: typeof dispositions.$inferSelect, byName: string): D
     notifiedHow: x.notifiedHow,
     notifiedAt: iso(x.notifiedAt),
     remeasureReadingId: x.remeasureReadingId,
+    supersedesId: x.supersedesId,
   };
 }
 
@@ -401,8 +453,8 @@ function assertOpen(inv: repo.InvestigationRow) {
   if (inv.status === "closed") throw refused("investigation_closed", "This investigation is closed; a closed investigation is kept as it was and takes no more dispositions.");
 }
 
-/** True when `newer` supersedes `older`, directly or through a chain of corrections. */
-async function supersedes(tx: DbOrTx, newer: repo.ReadingRow, olderId: string): Promise<boolean> {
+/** True when `newer` corrects `older`, directly or through a chain of corrections. */
+async function corrects(tx: DbOrTx, newer: repo.ReadingRow, olderId: string): Promise<boolean> {
   let cur: repo.ReadingRow | null = newer;
   for (let hops = 0; cur && cur.supersedesId && hops < 50; hops++) {
     if (cur.supersedesId === olderId) return true;
@@ -411,7 +463,39 @@ async function supersedes(tx: DbOrTx, newer: repo.ReadingRow, olderId: string): 
   return false;
 }
 
-/** Records a disposition for some items (or every item of one job) of an open investigation. */
+/**
+ * What a remeasurement of an affected reading can be: the later readings of the same place (job, item, index) on
+ * the same check sheet, newest first.
+ */
+export async function remeasureCandidates(db: DbOrTx, id: string, itemId: string): Promise<RemeasureCandidate[]> {
+  const item = await repo.findItem(db, id, itemId);
+  if (!item) throw notFound("investigation item", itemId);
+  if (!item.readingId) return [];
+  const affected = await repo.findReading(db, item.readingId);
+  if (!affected) return [];
+  const rows = await repo.laterReadingsOfPlace(db, { jobId: affected.jobId, itemKey: affected.itemKey, index: affected.index, after: affected.takenAt, excludeId: affected.id });
+  const out: RemeasureCandidate[] = [];
+  for (const { reading: r, takenByName, toolAssetTags } of rows) {
+    out.push({
+      id: r.id,
+      takenAt: r.takenAt.toISOString(),
+      takenBy: takenByName,
+      values: r.values.map(Number),
+      unit: r.unit,
+      size: n(r.size),
+      verdict: r.verdict,
+      toolAssetTags,
+      correctsAffected: await corrects(db, r, affected.id),
+    });
+  }
+  return out;
+}
+
+/**
+ * Records a disposition for some items (or every item of one job) of an open investigation: all of them or none.
+ * Dispositions are evidence: an item that already has one gets a new row superseding it (the old one stays, and the
+ * audit line says what it was).
+ */
 export async function addDispositions(db: Db, clock: Clock, id: string, input: CreateDisposition, actor: { id: string; name: string }) {
   return db.transaction(async (tx) => {
     const inv = await repo.lockInvestigation(tx, id);
@@ -431,14 +515,18 @@ export async function addDispositions(db: Db, clock: Clock, id: string, input: C
       }
     }
     const now = clock.now();
+    const remeasureReadingId = input.kind === "remeasure" ? (input.remeasureReadingId ?? null) : null;
     if (input.kind === "remeasure") {
       const item = items[0];
       if (!item.readingId) throw refused("remeasure_needs_reading", "Only an affected reading can be remeasured; a calibration in a cascade is answered otherwise.");
-      const newer = await repo.findReading(tx, input.remeasureReadingId!);
-      if (!newer || !(await supersedes(tx, newer, item.readingId))) {
-        throw refused("remeasure_not_superseding", "The remeasurement must be a new reading that supersedes the affected one (record it on the check sheet as a correction).");
+      const affected = await repo.findReading(tx, item.readingId);
+      const newer = await repo.findReading(tx, remeasureReadingId!);
+      const samePlace = !!affected && !!newer && newer.jobId === affected.jobId && newer.itemKey === affected.itemKey && newer.index === affected.index;
+      if (!affected || !newer || newer.id === affected.id || !samePlace || newer.takenAt <= affected.takenAt) {
+        throw refused("remeasure_not_later_reading", "The remeasurement must be a later reading of the same place on the same check sheet (record it on the check sheet, then pick it here).");
       }
     }
+    const current = await repo.currentDispositions(tx, items.map((i) => i.id));
     const rows = await repo.insertDispositions(
       tx,
       items.map((i) => ({
@@ -447,18 +535,30 @@ export async function addDispositions(db: Db, clock: Clock, id: string, input: C
         rationale: input.rationale,
         decidedBy: actor.id,
         decidedAt: now,
-        notifiedWhom: input.notifiedWhom ?? null,
-        notifiedHow: input.notifiedHow ?? null,
+        notifiedWhom: input.kind === "notify_owner" ? (input.notifiedWhom ?? null) : null,
+        notifiedHow: input.kind === "notify_owner" ? (input.notifiedHow ?? null) : null,
         notifiedAt: input.kind === "notify_owner" ? (input.notifiedAt ? new Date(input.notifiedAt) : now) : null,
-        remeasureReadingId: input.remeasureReadingId ?? null,
+        remeasureReadingId,
+        supersedesId: current.get(i.id)?.id ?? null,
       })),
     );
+    const replaced = [...current.values()];
     await recordAudit(tx, {
       actorId: actor.id,
       action: "investigation.disposition",
       entityType: "investigation",
       entityId: id,
-      after: { kind: input.kind, rationale: input.rationale, itemIds: items.map((i) => i.id), jobId: input.jobId ?? null, notifiedWhom: input.notifiedWhom ?? null, notifiedHow: input.notifiedHow ?? null, remeasureReadingId: input.remeasureReadingId ?? null },
+      before: replaced.length ? { dispositions: replaced.map((d) => ({ id: d.id, itemId: d.investigationItemId, kind: d.kind, rationale: d.rationale })) } : undefined,
+      after: {
+        kind: input.kind,
+        rationale: input.rationale,
+        itemIds: items.map((i) => i.id),
+        jobId: input.jobId ?? null,
+        notifiedWhom: input.kind === "notify_owner" ? (input.notifiedWhom ?? null) : null,
+        notifiedHow: input.kind === "notify_owner" ? (input.notifiedHow ?? null) : null,
+        remeasureReadingId,
+        supersedes: replaced.map((d) => d.id),
+      },
       at: now,
     });
     return { dispositions: rows.map((r) => dispositionView(r, actor.name)) };

@@ -1,4 +1,4 @@
-import { pgTable, uuid, text, numeric, boolean, jsonb, timestamp, index } from "drizzle-orm/pg-core";
+import { pgTable, uuid, text, numeric, boolean, jsonb, timestamp, index, uniqueIndex, type AnyPgColumn } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
 import { standards } from "../standards/standards.table";
@@ -75,8 +75,12 @@ export const dispositions = pgTable(
     notifiedHow: text("notified_how"),
     notifiedAt: timestamp("notified_at", { withTimezone: true }),
     remeasureReadingId: uuid("remeasure_reading_id").references(() => readings.id),
+    /** The disposition of the same item this one replaces; the old row stays (dispositions are evidence). */
+    supersedesId: uuid("supersedes_id").references((): AnyPgColumn => dispositions.id),
   },
   (t) => [
+    // A disposition is replaced at most once: a later change supersedes the one in force, never an old one again.
+    uniqueIndex("dispositions_supersedes_idx").on(t.supersedesId),
     index("dispositions_item_idx").on(t.investigationItemId),
     index("dispositions_decided_by_idx").on(t.decidedBy),
     index("dispositions_remeasure_idx").on(t.remeasureReadingId),

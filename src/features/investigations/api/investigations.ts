@@ -1,7 +1,9 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
 import type {
+  AffectedItemsPage,
   CloseInvestigationInput,
+  RemeasureCandidate,
   CreateDispositionInput,
   Disposition,
   InvestigationDetail,
@@ -22,7 +24,21 @@ export const investigationKeys = {
   all: ["investigations"] as const,
   list: (p: InvestigationListParams) => ["investigations", "list", p] as const,
   detail: (id: string) => ["investigations", "detail", id] as const,
+  items: (id: string, p: AffectedItemsParams) => ["investigations", "items", id, p] as const,
+  candidates: (id: string, itemId: string) => ["investigations", "candidates", id, itemId] as const,
 };
+
+/** The affected-items table's state, as the server reads it (sorted, filtered and paged there). */
+export interface AffectedItemsParams {
+  page: number;
+  pageSize: number;
+  sort?: string;
+  couldChange?: string;
+  verdict?: string;
+  disposition?: string;
+  jobId?: string;
+  q?: string;
+}
 
 /**
  * GET /api/investigations answers an array (api.md); the total of a paged list travels in X-Total-Count, so
@@ -39,6 +55,21 @@ export const useInvestigations = (p: InvestigationListParams) => useQuery(invest
 export const investigationQueryOptions = (id: string) =>
   queryOptions({ queryKey: investigationKeys.detail(id), queryFn: () => api.get<InvestigationDetail>(`/api/investigations/${id}`) });
 export const useInvestigation = (id: string) => useQuery(investigationQueryOptions(id));
+
+export const useInvestigationItems = (id: string, p: AffectedItemsParams) =>
+  useQuery({
+    queryKey: investigationKeys.items(id, p),
+    queryFn: () => api.get<AffectedItemsPage>(`/api/investigations/${id}/items${qs({ ...p })}`),
+    placeholderData: keepPreviousData,
+  });
+
+/** Later readings of an affected reading's place on its check sheet: what its remeasurement can be. */
+export const useRemeasureCandidates = (id: string, itemId: string, enabled: boolean) =>
+  useQuery({
+    queryKey: investigationKeys.candidates(id, itemId),
+    queryFn: () => api.get<RemeasureCandidate[]>(`/api/investigations/${id}/items/${itemId}/remeasure-candidates`),
+    enabled,
+  });
 
 export const reportUrl = (id: string) => `/api/investigations/${id}/report.pdf`;
 

@@ -1,0 +1,3 @@
+ALTER TABLE "dispositions" ADD COLUMN "supersedes_id" uuid;--> statement-breakpoint
+ALTER TABLE "dispositions" ADD CONSTRAINT "dispositions_supersedes_id_dispositions_id_fk" FOREIGN KEY ("supersedes_id") REFERENCES "public"."dispositions"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
+CREATE UNIQUE INDEX "dispositions_supersedes_idx" ON "dispositions" USING btree ("supersedes_id");
