@@ -1,6 +1,7 @@
 import { useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent, type RefObject } from "react";
 import { useSearchParams } from "react-router-dom";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type ColumnDef } from "@tanstack/react-table";
+import type { ReactNode } from "react";
 import { useRecordReading } from "../api/jobs";
 import { useTool, useToolStatus } from "../../tools/api/tools";
 import { useCan, useCurrentUser } from "../../auth/api/auth";
@@ -406,7 +407,7 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
                 <tr key={row.id} className="border-t border-paper-line align-top" aria-label={`${r.label} no. ${r.index} in the grid`}>
                   {row.getVisibleCells().map((cell) => (
                     <td key={cell.id} className={cx("px-2 py-2", cell.column.id === "place" && "sticky left-0 z-10 max-w-40 bg-paper-raised")}>
-                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                      {renderCell(cell.column.columnDef.cell, cell.getContext())}
                     </td>
                   ))}
                 </tr>,
@@ -425,6 +426,14 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
       </div>
     </div>
   );
+}
+
+/**
+ * A cell's content called as a plain function: the column definitions are rebuilt on each render (they close over the
+ * drafts), and rendering them as components would remount every input on each keystroke and lose the cursor.
+ */
+function renderCell<C>(def: unknown, ctx: C): ReactNode {
+  return typeof def === "function" ? (def as (c: C) => ReactNode)(ctx) : (def as ReactNode);
 }
 
 /** The server's refusal in plain words, with each unusable tool's reason when there are several. */
