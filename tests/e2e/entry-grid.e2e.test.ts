@@ -1,8 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
-import { startBrowserApp, DEMO_PASSWORD, type BrowserApp } from "../support/browser";
+import path from "node:path";
+import { startBrowserApp, DEMO_PASSWORD, SCREENSHOT_DIR, type BrowserApp } from "../support/browser";
 import { seedUsers } from "../../server/seed/users.seed";
 import { makeCheckout } from "../support/factories";
+import { makeHold } from "../support/factories-quality";
 import { makeLimitTable, makeJob, makeToolInCalibration, pinAndBoreItems } from "../support/factories-inspection";
 
 // A check sheet entered through the keyboard grid: the pin-and-bore pair (two pistons) and a barrel measured at two
@@ -13,7 +15,9 @@ const day = (offset: number) => new Date(Date.now() + offset * DAY).toISOString(
 
 let app: BrowserApp;
 let jobId: string;
+let secondJobId: string;
 let tags: { mic: string; tel: string; overdue: string };
+let dropped: { id: string; assetTag: string };
 
 beforeAll(async () => {
   app = await startBrowserApp({ seed: false });
@@ -36,6 +40,9 @@ beforeAll(async () => {
   const overdue = await makeToolInCalibration(app.db, { performedAt: new Date(Date.now() - 400 * DAY).toISOString(), nextDueAt: day(-10), rangeMin: "1", rangeMax: "2" });
   for (const t of [mic, tel, overdue]) await makeCheckout(app.db, t.id, people.mechanic.id, { issuedAt: new Date(Date.now() - 3600_000), dueBackAt: new Date(Date.now() + 8 * 3600_000) });
   tags = { mic: mic.assetTag, tel: tel.assetTag, overdue: overdue.assetTag };
+  secondJobId = (await makeJob(app.db, table.id, people.mechanic.id, { engineSerial: "HF360-GRID-2", engineModel: "Harrow HF-360 (demo, invented)", openedAt: new Date(Date.now() - 3600_000) })).id;
+  dropped = await makeToolInCalibration(app.db, { ...inCal, rangeMin: "1", rangeMax: "2" });
+  await makeCheckout(app.db, dropped.id, people.mechanic.id, { issuedAt: new Date(Date.now() - 3600_000), dueBackAt: new Date(Date.now() + 8 * 3600_000) });
 });
 afterAll(async () => app?.close());
 
@@ -131,7 +138,7 @@ describe("entering a check sheet through the keyboard grid", () => {
     expect(kept.map((k) => k.rows)).toEqual([{}]);
     expect(errors).toEqual([]);
     await page.context().close();
-  });
+  }, 180_000); // a whole sheet typed key by key, two reloads and six saves: longer than one page visit
 
   it("on a phone the grid scrolls inside its own box and adds no sideways scroll to the page", async () => {
     const { page, errors } = await app.newPage({ width: 390, height: 844 });
@@ -149,6 +156,39 @@ describe("entering a check sheet through the keyboard grid", () => {
     expect(wide.out).toEqual([]);
     await expect(grid.evaluate((e) => e.scrollWidth > e.clientWidth)).resolves.toBe(true);
     await app.screenshot(page, "entry-grid-phone");
+    await grid.screenshot({ path: path.join(SCREENSHOT_DIR, "entry-grid-phone-grid.png") });
+    expect(errors).toEqual([]);
+    await page.context().close();
+  });
+
+  it("a place the server refuses stays a draft, with the refusal on its row in plain words", async () => {
+    const { page, errors } = await app.newPage({ width: 1440, height: 900 });
+    await app.signIn(page, "mechanic");
+    await page.goto(`/jobs/${secondJobId}?entry=keyboard`);
+    await page.getByRole("table", { name: "Entry grid" }).waitFor();
+    await expect.poll(() => page.evaluate(() => document.activeElement?.id)).toBe("entry-grid-tool");
+    await gauge(page, dropped.assetTag);
+    await expect.poll(() => focusedName(page)).toBe("Piston pin dia. no. 1, direction 1");
+    // A value sent while the cursor is back in the tool box still lands in the cell it was in.
+    await page.getByLabel("Tool in hand: scan or type its tag, then Enter").focus();
+    await gauge(page, "1.1249");
+    await expect(page.getByLabel("Piston pin dia. no. 1, direction 1").inputValue()).resolves.toBe("1.1249");
+    await expect(focusedName(page)).resolves.toBe("Piston pin dia. no. 1, direction 2");
+    await gauge(page, "1.1248");
+    // Meanwhile the micrometer is put on hold at the crib: the server refuses the reading when it is saved.
+    await makeHold(app.db, dropped.id, new Date(Date.now() - 60_000), "Dropped on the shop floor");
+    await page.getByRole("button", { name: "Save 1 drafted place" }).focus();
+    await page.keyboard.press("Enter");
+    await page.getByRole("status").filter({ hasText: "0 places saved, 1 refused" }).waitFor();
+    const refused = row(page, "Piston pin dia. no. 1");
+    await expect(refused.innerText()).resolves.toContain("Refused");
+    await expect(refused.getByRole("alert").innerText()).resolves.toMatch(new RegExp(`${dropped.assetTag} may not be used now: .*Dropped on the shop floor`));
+    await app.screenshot(page, "entry-grid-refused");
+    // Still there after a reload, for the quality manager or another micrometer.
+    await page.reload();
+    await page.getByRole("table", { name: "Entry grid" }).waitFor();
+    await expect(page.getByLabel("Piston pin dia. no. 1, direction 2").inputValue()).resolves.toBe("1.1248");
+    await expect(row(page, "Piston pin dia. no. 1").getByRole("alert").innerText()).resolves.toContain("Dropped on the shop floor");
     expect(errors).toEqual([]);
     await page.context().close();
   });

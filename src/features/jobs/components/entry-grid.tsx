@@ -171,9 +171,9 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
   const rowOf = useMemo(() => new Map(rows.map((r) => [r.slot, r])), [rows]);
 
   /** Reads what is in a cell (Enter, Tab or leaving it): a value is kept, a tag goes to the tool box, anything else is said plainly. */
-  const commit = (c: CellRef): "moved-on" | "stay" => {
+  const commit = (c: CellRef, typed?: string): "moved-on" | "stay" => {
     const row = rowOf.get(c.slot)!;
-    const text = valueAt(c);
+    const text = typed ?? valueAt(c);
     const fit = toolsForRow(row, box);
     const parsed = parseEntry(text, "tags" in fit ? fit.unit : (box.reader?.unit ?? null));
     if (parsed.kind === "tag") {
@@ -216,6 +216,19 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
       const row = rowOf.get(c.slot)!;
       update((d) => withCell(d, row, c.direction, heldBeforeFocus.current, null));
     }
+  };
+
+  // A gauge that sends while the cursor is in the tool box: the value lands in the active cell (or the first empty one).
+  const activeCell = useRef<CellRef | null>(null);
+  const onToolBoxEntry = (text: string) => {
+    if (/^[A-Za-z]/.test(text)) return setScanning({ tag: text.toUpperCase(), then: null });
+    const c = activeCell.current && cells.some((x) => x.slot === activeCell.current!.slot && x.direction === activeCell.current!.direction) ? activeCell.current : firstEmpty(cells, valueAt);
+    if (!c) return setScanRefusal(`${text} is a value, and no cell is open for it.`);
+    const row = rowOf.get(c.slot)!;
+    const fit = toolsForRow(row, box);
+    update((d) => withCell(d, row, c.direction, text, "tags" in fit ? fit : null));
+    heldBeforeFocus.current = valueAt(c);
+    focusCell(commit(c, text) === "moved-on" ? moveFrom(cells, c, "next") : c);
   };
 
   const onType = (c: CellRef, text: string) => {
@@ -315,6 +328,7 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
                 spellCheck={false}
                 value={draft?.values[direction - 1] ?? ""}
                 onFocus={(e) => {
+                  activeCell.current = c;
                   heldBeforeFocus.current = e.currentTarget.value;
                   e.currentTarget.select();
                 }}
@@ -346,17 +360,23 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
       header: "Saved?",
       cell: ({ row: { original: r } }) => {
         const draft = drafts.rows[r.slot];
+        const stray = !!draft && !draft.savedId && saved.has(r.slot);
         const text =
-          saving === r.slot ? "Saving…" : saved.has(r.slot) || draft?.savedId ? "Saved" : draft?.refusal ? "Refused" : draft ? (completeValues(r, draft) ? "Draft, not saved" : "Draft, incomplete") : "Not measured yet";
+          saving === r.slot ? "Saving…" : stray ? "Saved earlier" : saved.has(r.slot) || draft?.savedId ? "Saved" : draft?.refusal ? "Refused" : draft ? (completeValues(r, draft) ? "Draft, not saved" : "Draft, incomplete") : "Not measured yet";
         return (
           <span className="flex flex-col gap-1">
-            <span className={cx("font-semibold", text === "Refused" && "text-stop", text.startsWith("Draft") && "text-caution")}>{text}</span>
+            <span className={cx("font-semibold", text === "Refused" && "text-stop", text.startsWith("Draft") && "text-brass-dark")}>{text}</span>
             {(notes[r.slot] || draft?.refusal) && (
               <span id={`${r.slot}-note`} role="alert" className="max-w-64 text-sm text-stop">
                 {notes[r.slot] ?? draft?.refusal}
               </span>
             )}
-            {draft && !draft.savedId && (saved.has(r.slot) || draft.refusal) && (
+            {stray && (
+              <span className="max-w-64 text-sm text-brass-dark">
+                Your draft ({draft.values.join(" / ")}) was not saved: this place already has a reading. Correct it with its form below if needed.
+              </span>
+            )}
+            {draft && !draft.savedId && (stray || draft.refusal) && (
               <button type="button" className="self-start text-sm font-semibold text-ink underline" onClick={() => update((d) => withoutRow(d, r.slot))}>
                 Discard this draft
               </button>
@@ -372,7 +392,7 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
   let lastSection = "";
   return (
     <div className="flex min-w-0 flex-col gap-3">
-      <ToolBoxPanel box={box} inputRef={toolInput} onScan={(tag) => setScanning({ tag, then: null })} onPutDown={putDown} refusal={scanRefusal} checking={scanning?.tag ?? null} />
+      <ToolBoxPanel box={box} inputRef={toolInput} onScan={onToolBoxEntry} onPutDown={putDown} refusal={scanRefusal} checking={scanning?.tag ?? null} />
       {scanning && <ScanCheck key={scanning.tag} tag={scanning.tag} onDone={(r) => onScanned(r, scanning.then)} />}
       <p role="status" aria-live="polite" className="min-h-5 text-sm font-semibold">
         {announce}
@@ -449,7 +469,7 @@ function refusalWords(e: unknown): string {
 
 function CellMark({ state }: { state: ReturnType<typeof cellState> }) {
   if (state === "empty") return null;
-  const look = { saved: ["text-go", "✓ saved"], draft: ["text-caution", "not saved"], refused: ["text-stop", "✕ refused"] }[state];
+  const look = { saved: ["text-go", "✓ saved"], draft: ["text-brass-dark", "not saved"], refused: ["text-stop", "✕ refused"] }[state];
   return <span className={cx("text-xs font-semibold", look[0])}>{look[1]}</span>;
 }
 
@@ -547,7 +567,7 @@ function ToolBoxPanel({
           className="min-h-10 w-full max-w-xs rounded-md border border-paper-line bg-paper-raised px-3 py-2 text-base focus:border-brass"
         />
         <p id="entry-grid-tool-hint" className="text-xs text-ink-soft">
-          It stays in hand until you scan another. A bore read through a telescoping or small-hole gauge needs the gauge and the micrometer that reads it.
+          It stays in hand until you scan another. A bore read through a telescoping or small-hole gauge needs the gauge and the micrometer that reads it. A value sent here goes to the cell the cursor was last in.
         </p>
       </div>
       {checking && <p className="text-sm">Checking {checking}…</p>}
