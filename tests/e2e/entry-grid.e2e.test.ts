@@ -183,6 +183,8 @@ describe("entering a check sheet through the keyboard grid", () => {
     const refused = row(page, "Piston pin dia. no. 1");
     await expect(refused.innerText()).resolves.toContain("Refused");
     await expect(refused.getByRole("alert").innerText()).resolves.toMatch(new RegExp(`${dropped.assetTag} may not be used now: .*Dropped on the shop floor`));
+    // The tool box now shows why the micrometer in hand may not be used.
+    await page.getByRole("group", { name: "Tools in hand" }).getByText(/✕ Quarantined.*Readings with it will be refused/).waitFor();
     await app.screenshot(page, "entry-grid-refused");
     // Still there after a reload, for the quality manager or another micrometer.
     await page.reload();

@@ -3,7 +3,7 @@ import { useSearchParams } from "react-router-dom";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type ColumnDef } from "@tanstack/react-table";
 import type { ReactNode } from "react";
 import { useRecordReading } from "../api/jobs";
-import { useTool, useToolStatus } from "../../tools/api/tools";
+import { useTool, useToolInvalidation, useToolStatus } from "../../tools/api/tools";
 import { useCan, useCurrentUser } from "../../auth/api/auth";
 import { Button } from "../../../components/ui/button";
 import { cx } from "../../../components/ui/cx";
@@ -252,6 +252,7 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
 
   // ——— saving, place by place ———
   const record = useRecordReading(sheet.id);
+  const refreshTools = useToolInvalidation();
   const [saving, setSaving] = useState<string | null>(null);
   const ready = readyToSave(rows, drafts, savedOnSheet);
   const drafted = rows.filter((r) => drafts.rows[r.slot] && !drafts.rows[r.slot].savedId && !saved.has(r.slot)).length;
@@ -274,6 +275,8 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
       } catch (e) {
         update((d) => withOutcome(d, row.slot, { refusal: refusalWords(e) }));
         refused++;
+        // A tool refused at saving has changed since it was scanned: show its status now in the tool box.
+        if (e instanceof ApiError && e.code === "tool_not_usable") void refreshTools();
       }
     }
     setSaving(null);
