@@ -546,7 +546,7 @@ function ToolBoxPanel({
 }) {
   const [text, setText] = useState("");
   return (
-    <div className="flex flex-col gap-2 rounded-md bg-paper-sunk p-3" role="group" aria-label="Tools in hand">
+    <div className="flex flex-col gap-2 rounded-md border border-paper-line bg-paper p-3" role="group" aria-label="Tools in hand">
       <div className="flex flex-col gap-1">
         <label htmlFor="entry-grid-tool" className="text-sm font-semibold text-ink-soft">
           Tool in hand: scan or type its tag, then Enter
