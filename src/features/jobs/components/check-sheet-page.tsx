@@ -17,6 +17,7 @@ import { VERIFY_NOTICE } from "../../../../shared/limit-tables/limit-tables.sche
 import type { CheckSheet, SheetItem, SheetRow } from "../../../../shared/jobs/jobs.schemas";
 import type { ToolStatus } from "../../../../shared/tools/tool-status";
 import { ReadingEntry } from "./reading-entry";
+import { EntryGridSection } from "./entry-grid";
 import { VerdictBadge } from "./verdict-badge";
 import { PlaceDetail, rawValue } from "./place-view";
 import { useInvestigations } from "../../investigations/api/investigations";
@@ -102,6 +103,7 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
         </details>
         {s.limitTable.supersededById && <p className="mt-2 text-sm text-caution">The limits table has a newer revision; this job keeps the version it started with.</p>}
       </Card>
+      <EntryGridSection sheet={s} />
       {sections.map(([section, items]) => (
         <section key={section} aria-label={section} className="flex flex-col gap-3">
           <h2 className="text-xl font-bold">{section}</h2>
