@@ -37,8 +37,10 @@ export function DispositionForm({
 }) {
   const add = useAddDisposition(investigationId);
   const allowRemeasure = !!item && item.kind === "reading";
+  const schemaResolver = zodResolver(CreateDispositionSchema);
   const form = useForm<CreateDispositionInput, unknown, CreateDisposition>({
-    resolver: zodResolver(CreateDispositionSchema),
+    // The rows answered are the caller's, not a field of the form: they join the values only to be checked.
+    resolver: (values, context, options) => schemaResolver({ ...values, itemIds, jobId: undefined }, context, options),
     // A field the chosen kind does not show is dropped, so switching from "Remeasured" to "No impact" saves cleanly.
     shouldUnregister: true,
     defaultValues: { itemIds, kind: "no_impact", rationale: "" },
