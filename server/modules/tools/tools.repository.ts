@@ -177,7 +177,8 @@ export const toolsRepository = {
         .leftJoin(s, eq(s.toolId, tools.id))
         .leftJoin(cu, eq(cu.id, s.custodyUserId))
         .where(and(where, keyset))
-        .orderBy(sql`(${value}) is null`, sort.desc ? sql`(${value}) desc` : sql`(${value}) asc`, asc(tools.assetTag))
+        // Blanks last either way (asc puts nulls last already, so an index on the value serves it in order).
+        .orderBy(sort.desc ? sql`(${value}) desc nulls last` : sql`(${value}) asc`, asc(tools.assetTag))
         .$dynamic();
     const rowsQ = paging ? base().limit(paging.pageSize).offset(after ? 0 : pageOffset(paging.page, paging.pageSize)) : base();
     const countQ = db
