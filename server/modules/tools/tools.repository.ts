@@ -181,11 +181,13 @@ export const toolsRepository = {
         .orderBy(sort.desc ? sql`(${value}) desc nulls last` : sql`(${value}) asc`, asc(tools.assetTag))
         .$dynamic();
     const rowsQ = paging ? base().limit(paging.pageSize).offset(after ? 0 : pageOffset(paging.page, paging.pageSize)) : base();
+    // From the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL drops
+    // the left joins, and a count by status is a count on tool_states' indexes alone.
     const countQ = db
       .select({ total: count() })
-      .from(tools)
-      .innerJoin(families, eq(families.id, tools.familyId))
-      .leftJoin(s, eq(s.toolId, tools.id))
+      .from(s)
+      .leftJoin(tools, eq(tools.id, s.toolId))
+      .leftJoin(families, eq(families.id, tools.familyId))
       .where(where);
     const [rows, [{ total }]] = await Promise.all([rowsQ, paging ? countQ : Promise.resolve([{ total: -1 }])]);
     return { rows: rows as (ToolListRow & { sortValue: string | null })[], total: paging ? total : rows.length };
