@@ -57,3 +57,38 @@ describe("tool families", () => {
     expect(count(other.id)).toBe(1);
   });
 });
+
+describe("the audit trail in words", () => {
+  it("names actions, record types, people and records (by tag, linked to their page) instead of codes and ids", async () => {
+    const tool = await makeUsableTool(t.db);
+    const out = await issue(tool.assetTag);
+    const crib = await t.agent("crib");
+    await crib.post(`/api/checkouts/${out.body.id}/return`, { condition: "ok" });
+    expect((await crib.post(`/api/tools/${tool.assetTag}/lost`, { reason: "Not found at the bench after the shift" })).status).toBe(200);
+
+    const auditor = await t.agent("auditor");
+    const checkoutLines = await auditor.get(`/api/audit?entityType=checkout&entityId=${out.body.id}`);
+    expect(checkoutLines.status).toBe(200);
+    const issued = checkoutLines.body.items.find((e: { action: string }) => e.action === "checkout.issue");
+    expect(issued).toMatchObject({
+      actionLabel: "Tool issued",
+      entityTypeLabel: "Checkout",
+      actorName: "Test crib",
+      record: { title: `${tool.assetTag} issued to ${t.people.mechanic.name}`, path: `/tools/${tool.assetTag}` },
+    });
+    expect(checkoutLines.body.items.map((e: { actionLabel: string }) => e.actionLabel)).toContain("Tool returned");
+
+    const toolLines = await auditor.get(`/api/audit?entityType=tool&entityId=${tool.assetTag}`);
+    expect(toolLines.body.items[0]).toMatchObject({ action: "tool.lifecycle.lost", actionLabel: "Tool reported lost", entityTypeLabel: "Tool", record: { title: tool.assetTag, path: `/tools/${tool.assetTag}` } });
+
+    const facets = await auditor.get("/api/audit/facets");
+    expect(facets.body.entityTypeOptions).toEqual(expect.arrayContaining([{ value: "checkout", label: "Checkout" }, { value: "tool", label: "Tool" }]));
+  });
+
+  it("a record type the trail cannot name still reads as words, and a record gone from the register says so", async () => {
+    const { recordAudit } = await import("../../server/modules/audit/audit.repository");
+    await recordAudit(t.db, { actorId: null, action: "tool_hold.note", entityType: "tool_hold", entityId: "00000000-0000-4000-8000-000000000001" });
+    const res = await (await t.agent("auditor")).get("/api/audit?entityType=tool_hold&entityId=00000000-0000-4000-8000-000000000001");
+    expect(res.body.items[0]).toMatchObject({ actionLabel: "Tool hold note", entityTypeLabel: "Quarantine hold", record: null, actorName: null });
+  });
+});
