@@ -4,6 +4,9 @@ import { Button } from "../../../components/ui/button";
 import { TextField, TextAreaField } from "../../../components/ui/field";
 import { StatusBadge } from "../../../components/ui/status-badge";
 import { cx } from "../../../components/ui/cx";
+import { Link } from "react-router-dom";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
 import { ApiError, api, errorMessage, qs } from "../../../lib/api-client";
 import type { Person } from "../../users/api/users";
 import type { Checkout, IssueResult, LostFoundResult, ReturnResult } from "../../../../shared/checkouts/checkouts.schemas";
@@ -24,6 +27,30 @@ const TABS: { key: Tab; label: string }[] = [
 ];
 
 export function CounterPage() {
+  const canWork = useCan("checkouts.write");
+  const roleName = useRoleName();
+  if (!canWork) {
+    return (
+      <div className="mx-auto max-w-4xl">
+        <PageHeader title="Crib counter" subtitle="Issuing and taking back tools at the crib." />
+        <RoleNotice roleName={roleName}>
+          cannot issue or take back tools; the crib attendant does.
+          <Link className="underline" to="/crib/custody">
+            The custody board
+          </Link>{" "}
+          shows who holds each tool, and{" "}
+          <Link className="underline" to="/scan">
+            Scan a tool
+          </Link>{" "}
+          tells whether one may be used.
+        </RoleNotice>
+      </div>
+    );
+  }
+  return <Counter />;
+}
+
+function Counter() {
   const [tab, setTab] = useState<Tab>("issue");
   return (
     <div className="mx-auto max-w-4xl">

@@ -5,6 +5,8 @@ import { ButtonLink } from "../../../components/ui/button";
 import { qs } from "../../../lib/api-client";
 import { calibrationLabelsPdfUrl, doNotUsePdfUrl } from "../api/labels";
 import { TagListPicker } from "./tag-list-picker";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
 import { useQuery } from "@tanstack/react-query";
 import { toolStatusQueryOptions } from "../api/tool-status";
 import { STATUS_LABELS } from "../../../../shared/tools/tool-status";
@@ -14,6 +16,20 @@ const linkClass = "inline-flex min-h-10 items-center rounded-md bg-ink px-4 py-2
 
 /** Choose tools and print their calibration labels, or a do-not-use tag, as PDF or as a print view. */
 export function LabelsPage() {
+  const canPrint = useCan("labels.print");
+  const roleName = useRoleName();
+  if (!canPrint) {
+    return (
+      <div className="mx-auto max-w-4xl">
+        <PageHeader title="Labels and tags" subtitle="Calibration labels and DO NOT USE tags." />
+        <RoleNotice roleName={roleName}>cannot print labels or tags; the crib and quality do.</RoleNotice>
+      </div>
+    );
+  }
+  return <Labels />;
+}
+
+function Labels() {
   const [tags, setTags] = useState<string[]>([]);
   const [skip, setSkip] = useState("0");
   const [dnu, setDnu] = useState("");
