@@ -25,6 +25,11 @@ export const AuditEventSchema = z.object({
   action: z.string(),
   entityType: z.string(),
   entityId: z.string(),
+  /** The action and record type in words (shared/audit/labels.ts). */
+  actionLabel: z.string(),
+  entityTypeLabel: z.string(),
+  /** The record as people know it (tag, engine serial, name) and its page; null when it no longer exists. */
+  record: z.object({ title: z.string(), path: z.string().nullable() }).nullable(),
   before: z.unknown(),
   after: z.unknown(),
 });
@@ -33,4 +38,9 @@ export type AuditEvent = z.infer<typeof AuditEventSchema>;
 export const AuditPageSchema = pageOf(AuditEventSchema);
 
 /** Distinct record types and actions on the trail, for the filter lists. */
-export const AuditFacetsSchema = z.object({ entityTypes: z.array(z.string()), actions: z.array(z.string()) });
+export const AuditFacetsSchema = z.object({
+  entityTypes: z.array(z.string()),
+  actions: z.array(z.string()),
+  /** Each record type with its words, for the filter list. */
+  entityTypeOptions: z.array(z.object({ value: z.string(), label: z.string() })),
+});

@@ -58,7 +58,7 @@ const ToolStatusSchema = z.enum(TOOL_STATUSES);
 
 export const CheckoutSchema = z.object({
   id: z.string(),
-  tool: z.object({ id: z.string(), assetTag: z.string(), description: z.string(), status: ToolStatusSchema, usable: z.boolean(), dueAt: z.string().nullable() }),
+  tool: z.object({ id: z.string(), assetTag: z.string(), description: z.string(), unit: z.enum(["in", "mm"]), rangeMin: z.number(), rangeMax: z.number(), status: ToolStatusSchema, usable: z.boolean(), dueAt: z.string().nullable() }),
   person: z.object({ id: z.string(), name: z.string(), email: z.string() }),
   issuedAt: z.string(),
   issuedBy: z.string().nullable(),

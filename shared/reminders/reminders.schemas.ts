@@ -57,6 +57,8 @@ export const REMINDER_RUN_STATUSES = ["running", "finished", "failed", "skipped_
 export const ReminderRunSchema = z.object({
   id: z.string().uuid(),
   trigger: z.enum(REMINDER_TRIGGERS),
+  /** The person who ran it from the Reminders page; null for the schedule and the shell command. */
+  startedBy: z.string().nullable(),
   startedAt: z.string(),
   finishedAt: z.string().nullable(),
   status: z.enum(REMINDER_RUN_STATUSES),

@@ -24,10 +24,16 @@ function NotFound() {
   );
 }
 
+/** Shown while a page's code loads on a full page load (React Router renders it before the lazy route resolves). */
+function PageLoading() {
+  return <Loading what="Opening the page" />;
+}
+
 export const router = createBrowserRouter([
-  { path: "/sign-in", lazy: async () => ({ Component: (await import("../features/auth/components/sign-in-page")).SignInPage }) },
+  { path: "/sign-in", HydrateFallback: PageLoading, lazy: async () => ({ Component: (await import("../features/auth/components/sign-in-page")).SignInPage }) },
   {
     element: <RequireSignIn />,
+    HydrateFallback: PageLoading,
     children: [
       ...features.flatMap((f) => f.bareRoutes ?? []),
       {

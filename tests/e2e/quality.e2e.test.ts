@@ -112,7 +112,7 @@ describe("the quality overview in the browser", () => {
     await b.screenshot(page, "quality-drift");
 
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Audit trail" }).click();
-    await page.getByRole("table", { name: "Audit trail" }).getByText("family.interval_change").waitFor();
+    await page.getByRole("table", { name: "Audit trail" }).getByText("Family interval changed").waitFor();
     await b.screenshot(page, "quality-audit");
     expect(errors).toEqual([]);
     await context.close();

@@ -5,6 +5,8 @@ import type { AppDeps } from "../../app-deps";
 import { auditRepository } from "./audit.repository";
 import { AuditFacetsSchema, AuditPageSchema, AuditQuerySchema } from "../../../shared/audit/audit.schemas";
 import { getSettings } from "../settings/settings.service";
+import { auditRecordKey, describeAuditRecords } from "./audit-records";
+import { auditActionLabel, auditRecordTypeLabel } from "../../../shared/audit/labels";
 
 export function auditRoutes(deps: AppDeps) {
   const router = Router();
@@ -28,14 +30,24 @@ export function auditRoutes(deps: AppDeps) {
         fromInstant: bound(query.from, false),
         toInstantExclusive: bound(query.to, true),
       });
-      return { items: items.map((e) => ({ ...e, at: e.at.toISOString() })), total };
+      const records = await describeAuditRecords(deps.db, items);
+      return {
+        items: items.map((e) => ({
+          ...e,
+          at: e.at.toISOString(),
+          actionLabel: auditActionLabel(e.action),
+          entityTypeLabel: auditRecordTypeLabel(e.entityType),
+          record: records.get(auditRecordKey(e.entityType, e.entityId)) ?? null,
+        })),
+        total,
+      };
     },
   );
 
-  route({ method: "get", path: "/api/audit/facets", summary: "Record types on the audit trail, for its filters", access: "audit.read", response: AuditFacetsSchema }, async () => ({
-    entityTypes: await auditRepository.entityTypes(deps.db),
-    actions: [],
-  }));
+  route({ method: "get", path: "/api/audit/facets", summary: "Record types on the audit trail, for its filters", access: "audit.read", response: AuditFacetsSchema }, async () => {
+    const entityTypes = await auditRepository.entityTypes(deps.db);
+    return { entityTypes, actions: [], entityTypeOptions: entityTypes.map((value) => ({ value, label: auditRecordTypeLabel(value) })) };
+  });
 
   return router;
 }

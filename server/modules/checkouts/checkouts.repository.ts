@@ -18,14 +18,14 @@ const returner = alias(users, "returner");
 
 const viewColumns = {
   checkout: checkouts,
-  tool: { id: tools.id, assetTag: tools.assetTag, description: tools.description },
+  tool: { id: tools.id, assetTag: tools.assetTag, description: tools.description, unit: tools.unit, rangeMin: tools.rangeMin, rangeMax: tools.rangeMax },
   person: { id: person.id, name: person.name, email: person.email },
   issuedByName: issuer.name,
   returnedByName: returner.name,
 };
 export type CheckoutViewRow = {
   checkout: CheckoutRow;
-  tool: { id: string; assetTag: string; description: string };
+  tool: { id: string; assetTag: string; description: string; unit: "in" | "mm"; rangeMin: string; rangeMax: string };
   person: { id: string; name: string; email: string };
   issuedByName: string | null;
   returnedByName: string | null;

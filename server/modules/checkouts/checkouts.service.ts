@@ -1,3 +1,4 @@
+import { checkPointOutsideRange } from "../../../shared/tools/check-range";
 import type { Db, DbOrTx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { Config } from "../../config";
@@ -70,6 +71,8 @@ export function toCheckout(row: CheckoutViewRow, status: ToolStatusView | undefi
     id: c.id,
     tool: {
       ...row.tool,
+      rangeMin: Number(row.tool.rangeMin),
+      rangeMax: Number(row.tool.rangeMax),
       status: status?.status ?? "never_calibrated",
       usable: status?.usable ?? false,
       dueAt: status?.dueAt ?? null,
@@ -208,6 +211,9 @@ export function checkoutsService(deps: CribDeps) {
       const tool = (await repo.findToolById(db, existing.toolId))!;
       let tolerance: string | null = null;
       if (input.zeroCheck) {
+        // A zero check on a point the tool cannot read (0 on a 1–2 in micrometer) would "pass" on nothing.
+        const outside = checkPointOutsideRange(input.zeroCheck.nominal, tool);
+        if (outside) throw new AppError("check_outside_range", 400, outside, [{ code: "custom", path: ["zeroCheck", "nominal"], message: outside }]);
         tolerance = await repo.checkToleranceOf(db, tool.familyId);
         if (!tolerance) throw refused("no_check_tolerance", `The family of ${tool.assetTag} has no check tolerance or permissible error, so a zero check cannot be judged; set it in the register.`);
         if (input.zeroCheck.standardId && !(await repo.standardExists(db, input.zeroCheck.standardId))) throw notFound("standard", input.zeroCheck.standardId);

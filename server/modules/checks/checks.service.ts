@@ -1,3 +1,4 @@
+import { checkPointOutsideRange } from "../../../shared/tools/check-range";
 import { checksRepository, type CheckRow } from "./checks.repository";
 import { getToolRow } from "../tools/tools.service";
 import { getFamilyRow } from "../families/families.service";
@@ -48,8 +49,8 @@ export function checksService(deps: RegisterDeps) {
       const tool = await getToolRow(db, assetTag);
       if (tool.lifecycle === "retired") throw refused("tool_retired", `${tool.assetTag} is retired; it is not checked any more.`);
       // A check point the tool cannot read (nominal 500 on a 0–1 in micrometer) is a slip of the keyboard.
-      if (dec(input.nominal).lt(dec(tool.rangeMin)) || dec(input.nominal).gt(dec(tool.rangeMax))) {
-        const message = `The check point ${input.nominal} ${tool.unit} is outside the range of ${tool.assetTag} (${tool.rangeMin}–${tool.rangeMax} ${tool.unit}).`;
+      const message = checkPointOutsideRange(input.nominal, tool);
+      if (message) {
         throw new AppError("check_outside_range", 400, message, [{ code: "custom", path: ["nominal"], message }]);
       }
       const family = await getFamilyRow(db, tool.familyId);

@@ -6,7 +6,9 @@ import { listPage, pageOffset } from "../../db/paging";
 
 export type FamilyRow = typeof families.$inferSelect;
 
-const toolCount = sql<number>`(select count(*)::int from ${tools} where ${tools.familyId} = ${families.id})`;
+// Written with table names: in a one-table select Drizzle renders columns bare, and a bare "id" inside the
+// subquery would be the tool's own id (so every family counted 0 tools).
+const toolCount = sql<number>`(select count(*)::int from tools t where t.family_id = families.id)`;
 
 export const familiesRepository = {
   findById: (db: DbOrTx, id: string) => db.query.families.findFirst({ where: eq(families.id, id) }),

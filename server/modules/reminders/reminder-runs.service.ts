@@ -4,9 +4,10 @@ import { remindersRepository as repo, type ReminderRunRow } from "./reminders.re
 import type { ReminderRun, ReminderRunDetail } from "../../../shared/reminders/reminders.schemas";
 import type { Page } from "../../../shared/common/lists.schemas";
 
-const toRun = (r: ReminderRunRow): ReminderRun => ({
+const toRun = ({ run: r, startedByName }: { run: ReminderRunRow; startedByName: string | null }): ReminderRun => ({
   id: r.id,
   trigger: r.trigger,
+  startedBy: startedByName,
   startedAt: r.startedAt.toISOString(),
   finishedAt: r.finishedAt?.toISOString() ?? null,
   status: r.status,

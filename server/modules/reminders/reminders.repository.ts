@@ -10,6 +10,10 @@ export type ReminderRunRow = typeof reminderRuns.$inferSelect;
 export type ReminderLogRow = typeof reminderLog.$inferSelect;
 
 const CHUNK = 1000;
+
+// Who pressed "Run reminders now": the run's audit line names them (entity index); scheduled runs have none.
+const startedByName = sql<string | null>`(select u.name from audit_events a join users u on u.id = a.actor_id
+  where a.entity_type = 'reminder_run' and a.entity_id = reminder_runs.id::text and a.action = 'reminders.run' limit 1)`;
 const chunks = <T>(xs: T[], n = CHUNK) => Array.from({ length: Math.ceil(xs.length / n) }, (_, i) => xs.slice(i * n, (i + 1) * n));
 
 export const remindersRepository = {
@@ -141,12 +145,12 @@ export const remindersRepository = {
 
   async listRuns(db: DbOrTx, page: number, pageSize: number) {
     return listPage(
-      db.select().from(reminderRuns).orderBy(desc(reminderRuns.startedAt), desc(reminderRuns.id)).limit(pageSize).offset(pageOffset(page, pageSize)),
+      db.select({ run: reminderRuns, startedByName }).from(reminderRuns).orderBy(desc(reminderRuns.startedAt), desc(reminderRuns.id)).limit(pageSize).offset(pageOffset(page, pageSize)),
       db.select({ total: count() }).from(reminderRuns),
     );
   },
 
-  findRun: (db: DbOrTx, id: string) => db.query.reminderRuns.findFirst({ where: eq(reminderRuns.id, id) }),
+  findRun: async (db: DbOrTx, id: string) => (await db.select({ run: reminderRuns, startedByName }).from(reminderRuns).where(eq(reminderRuns.id, id)))[0],
 
   async entriesOfRun(db: DbOrTx, runId: string) {
     return db

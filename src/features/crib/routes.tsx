@@ -29,8 +29,9 @@ export const feature: FeatureModule = {
   ],
   nav: [
     { to: "/crib", label: "Crib counter", group: "work", order: 20, permission: "checkouts.write" },
-    { to: "/crib/custody", label: "Custody board", group: "work", order: 21, permission: "checkouts.write" },
-    { to: "/crib/shipments", label: "Lab shipments", group: "work", order: 22, permission: "shipments.write" },
+    // The auditor reads custody and shipments (the API lets every signed-in role read them) but changes nothing.
+    { to: "/crib/custody", label: "Custody board", group: "work", order: 21, permission: "checkouts.write", roles: ["auditor"] },
+    { to: "/crib/shipments", label: "Lab shipments", group: "work", order: 22, permission: "shipments.write", roles: ["auditor"] },
     { to: "/crib/labels", label: "Labels", group: "work", order: 23, permission: "labels.print" },
     { to: "/my-tools", label: "My tools", group: "work", order: 30, roles: TOOL_HOLDERS },
     { to: "/scan", label: "Scan a tool", group: "work", order: 31 },

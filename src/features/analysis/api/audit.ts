@@ -23,4 +23,4 @@ export const auditQueryOptions = (p: AuditParams) =>
   queryOptions({ queryKey: auditKeys.list(p), queryFn: () => api.get<Page<AuditEvent>>(`/api/audit${qs({ ...p })}`), placeholderData: keepPreviousData });
 export const useAudit = (p: AuditParams) => useQuery(auditQueryOptions(p));
 export const useAuditFacets = () =>
-  useQuery({ queryKey: auditKeys.facets, queryFn: () => api.get<{ entityTypes: string[] }>("/api/audit/facets"), staleTime: 5 * 60_000 });
+  useQuery({ queryKey: auditKeys.facets, queryFn: () => api.get<{ entityTypes: string[]; entityTypeOptions: { value: string; label: string }[] }>("/api/audit/facets"), staleTime: 5 * 60_000 });

@@ -1,4 +1,5 @@
 import { useState } from "react";
+import { Link } from "react-router-dom";
 import { createColumnHelper } from "@tanstack/react-table";
 import { useAudit, useAuditFacets } from "../api/audit";
 import { usePeople } from "../../users/api/users";
@@ -19,10 +20,23 @@ const json = (v: unknown) => (v == null ? "" : JSON.stringify(v));
 
 const columns = [
   col.accessor("at", { header: "When", cell: (c) => <span className="whitespace-nowrap">{when(c.getValue())}</span> }),
-  col.accessor("actorName", { header: "Who", cell: (c) => c.getValue() ?? "system" }),
-  col.accessor("action", { header: "What", cell: (c) => <code className="text-xs">{c.getValue()}</code> }),
-  col.accessor("entityType", { header: "Record type" }),
-  col.accessor("entityId", { header: "Record", cell: (c) => <span className="break-all">{c.getValue()}</span> }),
+  col.accessor("actorName", { header: "Who", cell: (c) => c.getValue() ?? (c.row.original.actorId ? "A person no longer on record" : "Tenthwise (scheduled job)") }),
+  col.accessor("actionLabel", { header: "What" }),
+  col.accessor("entityTypeLabel", { header: "Record type" }),
+  col.accessor("record", {
+    header: "Record",
+    cell: (c) => {
+      const r = c.getValue();
+      if (!r) return <span className="text-ink-soft">No longer on record</span>;
+      return r.path ? (
+        <Link className="font-semibold underline" to={r.path}>
+          {r.title}
+        </Link>
+      ) : (
+        r.title
+      );
+    },
+  }),
   col.display({
     id: "change",
     header: "Change",
@@ -69,8 +83,10 @@ export function AuditPage() {
                 { header: "at", value: (e) => e.at },
                 { header: "who", value: (e) => e.actorName },
                 { header: "action", value: (e) => e.action },
+                { header: "what", value: (e) => e.actionLabel },
                 { header: "recordType", value: (e) => e.entityType },
                 { header: "record", value: (e) => e.entityId },
+                { header: "recordName", value: (e) => e.record?.title ?? "" },
                 { header: "before", value: (e) => json(e.before) },
                 { header: "after", value: (e) => json(e.after) },
               ], rows)
@@ -96,9 +112,9 @@ export function AuditPage() {
             <PersonFilter actorId={f.actorId} actorName={f.actorName} onPick={(id, name) => list.update({ actorId: id, actorName: name })} />
             <select aria-label="Record type" className="min-h-10 rounded-md border border-paper-line px-2" value={f.entityType} onChange={(e) => list.setFilter("entityType", e.target.value)}>
               <option value="">Every record type</option>
-              {(facets.data?.entityTypes ?? []).map((t) => (
-                <option key={t} value={t}>
-                  {t}
+              {(facets.data?.entityTypeOptions ?? []).map((t) => (
+                <option key={t.value} value={t.value}>
+                  {t.label}
                 </option>
               ))}
             </select>

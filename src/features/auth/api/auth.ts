@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, ApiError, setCsrfToken } from "../../../lib/api-client";
 import type { LoginInput, User } from "../../../../shared/users/users.schemas";
-import { can, type Permission } from "../../../../shared/auth/roles";
+import { can, ROLE_LABELS, type Permission } from "../../../../shared/auth/roles";
 
 export const authKeys = { me: ["auth", "me"] as const };
 
@@ -34,6 +34,12 @@ export function useCurrentUser(): User {
 export function useCan(permission: Permission): boolean {
   const { data } = useMe();
   return can(data?.role, permission);
+}
+
+/** The signed-in role in words ("Auditor"), for pages that say what the role may not do. */
+export function useRoleName(): string {
+  const { data } = useMe();
+  return data ? ROLE_LABELS[data.role] : "";
 }
 
 export function useLogin() {

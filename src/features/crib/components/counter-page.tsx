@@ -4,6 +4,9 @@ import { Button } from "../../../components/ui/button";
 import { TextField, TextAreaField } from "../../../components/ui/field";
 import { StatusBadge } from "../../../components/ui/status-badge";
 import { cx } from "../../../components/ui/cx";
+import { Link } from "react-router-dom";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
 import { ApiError, api, errorMessage, qs } from "../../../lib/api-client";
 import type { Person } from "../../users/api/users";
 import type { Checkout, IssueResult, LostFoundResult, ReturnResult } from "../../../../shared/checkouts/checkouts.schemas";
@@ -13,6 +16,8 @@ import { ScanField, type ScanFieldHandle } from "./scan-field";
 import { PersonPicker } from "./person-picker";
 import { ResultPanel } from "./result-panel";
 import { shortWhen } from "./format";
+import { useInView } from "./use-in-view";
+import { checkPointOutsideRange } from "../../../../shared/tools/check-range";
 
 type Tab = "issue" | "return" | "lost";
 const TABS: { key: Tab; label: string }[] = [
@@ -22,6 +27,30 @@ const TABS: { key: Tab; label: string }[] = [
 ];
 
 export function CounterPage() {
+  const canWork = useCan("checkouts.write");
+  const roleName = useRoleName();
+  if (!canWork) {
+    return (
+      <div className="mx-auto max-w-4xl">
+        <PageHeader title="Crib counter" subtitle="Issuing and taking back tools at the crib." />
+        <RoleNotice roleName={roleName}>
+          cannot issue or take back tools; the crib attendant does.
+          <Link className="underline" to="/crib/custody">
+            The custody board
+          </Link>{" "}
+          shows who holds each tool, and{" "}
+          <Link className="underline" to="/scan">
+            Scan a tool
+          </Link>{" "}
+          tells whether one may be used.
+        </RoleNotice>
+      </div>
+    );
+  }
+  return <Counter />;
+}
+
+function Counter() {
   const [tab, setTab] = useState<Tab>("issue");
   return (
     <div className="mx-auto max-w-4xl">
@@ -58,6 +87,8 @@ function IssuePanel() {
   const [recent, setRecent] = useState<IssueResult[]>([]);
   const scan = useRef<ScanFieldHandle>(null);
   const issue = useIssueTool();
+  const [answerKey, setAnswerKey] = useState(0);
+  const answer = useInView<HTMLDivElement>(answerKey);
 
   const send = (assetTag: string, referenceUseOnly?: boolean) => {
     if (!person) return;
@@ -79,7 +110,7 @@ function IssuePanel() {
           const confirmable = error instanceof ApiError && (error.details as { confirm?: string } | undefined)?.confirm === "referenceUseOnly";
           setOutcome({ kind: "refused", tag: assetTag, error, retry: confirmable ? () => send(assetTag, true) : undefined });
         },
-        onSettled: () => scan.current?.focus(),
+        onSettled: () => (scan.current?.focus(), setAnswerKey((k) => k + 1)),
       },
     );
   };
@@ -101,36 +132,39 @@ function IssuePanel() {
           <p className="text-ink-faint">Choose the person first.</p>
         )}
         {issue.isPending && <p className="mt-2 text-ink-faint" aria-live="polite">Issuing…</p>}
-      </Card>
-      {outcome?.kind === "issued" && (
-        <ResultPanel tone={outcome.result.warnings.length ? "caution" : "go"} title={`Issued ${outcome.result.tool.assetTag}`}>
-          <p>
-            To <strong>{outcome.result.person.name}</strong>, expected back {shortWhen(outcome.result.dueBackAt)}.
-          </p>
-          {outcome.result.warnings.map((w) => (
-            <p key={w} className="font-semibold text-caution">
-              ! {w}
-            </p>
-          ))}
-        </ResultPanel>
-      )}
-      {outcome?.kind === "refused" && (
-        <ResultPanel tone="stop" title={`Do not issue ${outcome.tag.toUpperCase()}`}>
-          <p className="text-xl font-semibold">{errorMessage(outcome.error)}</p>
-          {outcome.error instanceof ApiError && Array.isArray((outcome.error.details as { reasons?: string[] })?.reasons) && (
-            <ul className="list-disc pl-6">
-              {(outcome.error.details as { reasons: string[] }).reasons.slice(1).map((r) => (
-                <li key={r}>{r}</li>
+        {/* The answer sits right under the scan box and is scrolled into view: on a phone it is never below the fold. */}
+        <div ref={answer} className="mt-3 scroll-mb-4 empty:hidden">
+          {outcome?.kind === "issued" && (
+            <ResultPanel tone={outcome.result.warnings.length ? "caution" : "go"} title={`Issued ${outcome.result.tool.assetTag}`}>
+              <p>
+                To <strong>{outcome.result.person.name}</strong>, expected back {shortWhen(outcome.result.dueBackAt)}.
+              </p>
+              {outcome.result.warnings.map((w) => (
+                <p key={w} className="font-semibold text-caution">
+                  ! {w}
+                </p>
               ))}
-            </ul>
+            </ResultPanel>
           )}
-          {outcome.retry && (
-            <Button className="mt-2" onClick={outcome.retry}>
-              Issue for reference use only
-            </Button>
+          {outcome?.kind === "refused" && (
+            <ResultPanel tone="stop" title={`Do not issue ${outcome.tag.toUpperCase()}`}>
+              <p className="text-xl font-semibold">{errorMessage(outcome.error)}</p>
+              {outcome.error instanceof ApiError && Array.isArray((outcome.error.details as { reasons?: string[] })?.reasons) && (
+                <ul className="list-disc pl-6">
+                  {(outcome.error.details as { reasons: string[] }).reasons.slice(1).map((r) => (
+                    <li key={r}>{r}</li>
+                  ))}
+                </ul>
+              )}
+              {outcome.retry && (
+                <Button className="mt-2" onClick={outcome.retry}>
+                  Issue for reference use only
+                </Button>
+              )}
+            </ResultPanel>
           )}
-        </ResultPanel>
-      )}
+        </div>
+      </Card>
       {recent.length > 0 && (
         <Card title="Issued at this counter">
           <ul className="divide-y divide-paper-line">
@@ -161,6 +195,8 @@ function ReturnPanel() {
   const [done, setDone] = useState<ReturnResult | null>(null);
   const [error, setError] = useState<string | null>(null);
   const ret = useReturnTool();
+  const [answerKey, setAnswerKey] = useState(0);
+  const answer = useInView<HTMLDivElement>(answerKey);
 
   const reset = () => {
     setCondition("ok");
@@ -186,10 +222,16 @@ function ReturnPanel() {
     } catch (e) {
       setLookup({ tag, message: errorMessage(e) });
     }
+    setAnswerKey((k) => k + 1);
   };
 
+  const nominalNumber = zeroNominal.trim() === "" ? null : Number(zeroNominal);
+  const nominalError =
+    nominalNumber === null ? undefined : !Number.isFinite(nominalNumber) ? "Type a number, e.g. 1.0000." : checkout ? (checkPointOutsideRange(nominalNumber, checkout.tool) ?? undefined) : undefined;
+  const readingError = zeroReading.trim() !== "" && !Number.isFinite(Number(zeroReading)) ? "Type a number, e.g. 1.0001." : undefined;
+
   const submit = () => {
-    if (!checkout) return;
+    if (!checkout || nominalError || readingError) return;
     const zeroCheck = zeroNominal !== "" && zeroReading !== "" ? { nominal: Number(zeroNominal), reading: Number(zeroReading) } : undefined;
     ret.mutate(
       { id: checkout.id, condition, note: note || undefined, photo, zeroCheck },
@@ -200,7 +242,7 @@ function ReturnPanel() {
           reset();
         },
         onError: (e) => setError(errorMessage(e)),
-        onSettled: () => scan.current?.focus(),
+        onSettled: () => (scan.current?.focus(), setAnswerKey((k) => k + 1)),
       },
     );
   };
@@ -210,6 +252,7 @@ function ReturnPanel() {
       <Card title="Scan the tool coming back">
         <ScanField ref={scan} label="Asset tag" hint="Scan the label or type the tag, then Enter." onScan={find} />
       </Card>
+      <div ref={answer} className="space-y-4 scroll-mt-4 empty:hidden">
       {lookup && <ResultPanel tone="caution" title={`Not out: ${lookup.tag.toUpperCase()}`}>{lookup.message}</ResultPanel>}
       {checkout && (
         <Card title={`Return ${checkout.tool.assetTag}`}>
@@ -246,13 +289,20 @@ function ReturnPanel() {
           <fieldset className="mt-3">
             <legend className="text-sm font-semibold text-ink-soft">Zero check on return (optional)</legend>
             <div className="grid gap-3 sm:grid-cols-2">
-              <TextField label="Nominal" inputMode="decimal" value={zeroNominal} onChange={(e) => setZeroNominal(e.target.value)} hint="e.g. 0 for a 0–1 in micrometer, or the setting standard's size" />
-              <TextField label="Reading" inputMode="decimal" value={zeroReading} onChange={(e) => setZeroReading(e.target.value)} />
+              <TextField
+                label={`Nominal (${checkout.tool.unit})`}
+                inputMode="decimal"
+                value={zeroNominal}
+                onChange={(e) => setZeroNominal(e.target.value)}
+                error={nominalError}
+                hint={`Inside the tool's range, ${checkout.tool.rangeMin}–${checkout.tool.rangeMax} ${checkout.tool.unit}: ${checkout.tool.rangeMin === 0 ? "0 when it closes to zero" : "the setting standard's size"}.`}
+              />
+              <TextField label={`Reading (${checkout.tool.unit})`} inputMode="decimal" value={zeroReading} onChange={(e) => setZeroReading(e.target.value)} error={readingError} />
             </div>
           </fieldset>
           {error && <p role="alert" className="mt-3 text-stop">{error}</p>}
           <div className="mt-4 flex gap-2">
-            <Button onClick={submit} disabled={ret.isPending} variant={condition === "damaged" ? "danger" : "primary"}>
+            <Button onClick={submit} disabled={ret.isPending || !!nominalError || !!readingError} variant={condition === "damaged" ? "danger" : "primary"}>
               Record return
             </Button>
             <Button variant="ghost" onClick={() => (setCheckout(null), scan.current?.focus())}>
@@ -274,6 +324,7 @@ function ReturnPanel() {
           ))}
         </ResultPanel>
       )}
+      </div>
     </div>
   );
 }

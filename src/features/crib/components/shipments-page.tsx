@@ -10,6 +10,8 @@ import type { Shipment } from "../../../../shared/shipments/shipments.schemas";
 import { useLabs, useReceiveShipment, useShipments, useShipTools } from "../api/shipments";
 import { TagListPicker } from "./tag-list-picker";
 import { shortWhen } from "./format";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
 
 const col = createColumnHelper<Shipment>();
 
@@ -25,6 +27,8 @@ export function ShipmentsPage() {
   const [purchaseOrder, setPurchaseOrder] = useState("");
   const [expectedBackAt, setExpectedBackAt] = useState("");
   const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
+  const canShip = useCan("shipments.write");
+  const roleName = useRoleName();
 
   const columns = [
     col.accessor((s) => s.tool.assetTag, { id: "tool", header: "Tool", cell: (c) => <span className="font-mono font-semibold">{c.getValue()}</span> }),
@@ -33,7 +37,7 @@ export function ShipmentsPage() {
     col.accessor("shippedAt", { header: "Shipped", cell: (c) => shortWhen(c.getValue()) }),
     col.accessor("purchaseOrder", { header: "PO" }),
     col.accessor("expectedBackAt", { header: "Expected back", cell: (c) => (c.row.original.lateBack ? <strong className="text-stop">✕ {c.getValue()} (late)</strong> : (c.getValue() ?? "—")) }),
-    col.display({
+    ...(!canShip ? [] : [col.display({
       id: "receive",
       header: "",
       cell: (c) => (
@@ -50,12 +54,14 @@ export function ShipmentsPage() {
           Receive {c.row.original.tool.assetTag}
         </Button>
       ),
-    }),
+    })]),
   ];
 
   return (
     <div>
       <PageHeader title="Outside lab shipments" subtitle="Tools away for calibration are not available until they come back and their certificate is reviewed." />
+      {!canShip && <RoleNotice roleName={roleName}>can read the tools away at outside labs but not ship or receive them; the crib does.</RoleNotice>}
+      {canShip && (
       <Card title="Ship tools to a lab" className="mb-5">
         <div className="grid gap-3 md:grid-cols-2">
           <div>
@@ -95,6 +101,7 @@ export function ShipmentsPage() {
           Ship {tags.length || ""} tool{tags.length === 1 ? "" : "s"}
         </Button>
       </Card>
+      )}
       {message && (message.ok ? <p role="status" className="mb-3 rounded-md bg-go-light px-3 py-2 font-semibold text-go">{message.text}</p> : <ErrorNote>{message.text}</ErrorNote>)}
       <DataTable
         label="Tools away at outside labs"

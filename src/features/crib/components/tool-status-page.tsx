@@ -1,5 +1,5 @@
 import { Link, useParams } from "react-router-dom";
-import { STATUS_LABELS } from "../../../../shared/tools/tool-status";
+import { isUsableForAcceptanceStatus, STATUS_LABELS } from "../../../../shared/tools/tool-status";
 import { Cautions } from "../../../components/ui/cautions";
 import { cx } from "../../../components/ui/cx";
 import { ApiError, errorMessage } from "../../../lib/api-client";
@@ -13,8 +13,11 @@ export function ToolStatusPage() {
   const { assetTag = "" } = useParams();
   const q = useToolStatus(assetTag);
   const s = q.data;
-  // Usable for acceptance, usable with a notice, or not at all.
+  // Usable for acceptance, usable with a notice, for reference only, or not at all (the shared status rules).
+  const acceptance = !!s && isUsableForAcceptanceStatus(s.status);
+  const referenceOnly = !!s && s.usable && !acceptance;
   const notice = s && s.usable && s.status !== "in_calibration";
+  const verdict = !s ? "" : !s.usable ? "DO NOT USE" : referenceOnly ? "REFERENCE ONLY" : "USABLE";
   const tone = !s ? "bg-paper-sunk text-ink" : !s.usable ? "bg-stop text-white" : notice ? "bg-caution text-white" : "bg-go text-white";
   return (
     <main className="flex min-h-screen flex-col bg-paper">
@@ -30,10 +33,11 @@ export function ToolStatusPage() {
         {s && (
           <>
             <p className="mt-4 text-[3.5rem] font-black leading-none sm:text-7xl" role="status">
-              <span aria-hidden="true">{s.usable ? "✓ " : "✕ "}</span>
-              {s.usable ? "USABLE" : "DO NOT USE"}
+              <span aria-hidden="true">{!s.usable ? "✕ " : referenceOnly ? "! " : "✓ "}</span>
+              {verdict}
             </p>
-            <p className="mt-3 text-2xl font-bold">{STATUS_LABELS[s.status]}</p>
+            <p className="mt-3 text-2xl font-bold">{referenceOnly ? "Not for acceptance readings" : STATUS_LABELS[s.status]}</p>
+            {referenceOnly && <p className="mt-1 text-lg">For setting up and comparison only: no reading taken with it may accept a part.</p>}
           </>
         )}
       </header>

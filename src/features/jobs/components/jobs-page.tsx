@@ -2,7 +2,8 @@ import { Link, useNavigate } from "react-router-dom";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { createColumnHelper } from "@tanstack/react-table";
-import { CreateJobSchema, JOB_LIST_STATUS_LABELS, JOB_LIST_STATUSES, type CreateJobInput, type JobListStatus, type JobSummary } from "../../../../shared/jobs/jobs.schemas";
+import { CreateJobSchema, JOB_LIST_STATUSES, type CreateJobInput, type JobListStatus, type JobSummary } from "../../../../shared/jobs/jobs.schemas";
+import { JOB_LIST_FILTER_LABELS, JOB_STATE_LABELS, jobStateOfSummary } from "../../../../shared/jobs/labels";
 import { useJobs, useOpenJob } from "../api/jobs";
 import { useLimitTables } from "../../limit-tables/api/limit-tables";
 import { PageHeader, Card, ErrorNote } from "../../../components/ui/layout";
@@ -17,7 +18,7 @@ import { FilterSelect } from "../../../components/ui/filter-select";
 
 const FILTER_KEYS = ["engineSerial", "status", "mine"] as const;
 const describeFilters = {
-  status: (v: string) => JOB_LIST_STATUS_LABELS[v as JobListStatus] ?? v,
+  status: (v: string) => JOB_LIST_FILTER_LABELS[v as JobListStatus] ?? v,
   mine: () => "Mine",
   engineSerial: (v: string) => `Engine serial contains “${v}”`,
 };
@@ -32,13 +33,10 @@ const columns = [
   col.accessor("status", {
     header: "Status",
     enableSorting: false,
-    // Open with readings on it is the list's "awaiting signature": an inspector has something to sign.
-    cell: (c) =>
-      c.getValue() === "signed" ? (
-        <span className="font-semibold text-go">✓ Signed</span>
-      ) : (
-        JOB_LIST_STATUS_LABELS[c.row.original.readingCount > 0 ? "awaiting_signature" : "open"]
-      ),
+    cell: (c) => {
+      const state = jobStateOfSummary(c.row.original);
+      return state === "signed" ? <span className="font-semibold text-go">✓ {JOB_STATE_LABELS.signed}</span> : JOB_STATE_LABELS[state];
+    },
   }),
   col.accessor("openedAt", { header: "Opened", cell: (c) => `${c.getValue().slice(0, 10)}${c.row.original.openedBy ? ` · ${c.row.original.openedBy.name}` : ""}` }),
 ];
@@ -78,7 +76,7 @@ export function JobsPage() {
             toolbar={
               <>
                 <input aria-label="Engine serial" placeholder="Engine serial" className="rounded-md border border-paper-line px-3 py-1.5" value={list.filters.engineSerial} onChange={(e) => list.setFilter("engineSerial", e.target.value)} />
-                <FilterSelect label="Status" all="Open and signed" options={JOB_LIST_STATUSES} labels={JOB_LIST_STATUS_LABELS} value={list.filters.status} onChange={(v) => list.setFilter("status", v)} />
+                <FilterSelect label="Status" all="Open and signed" options={JOB_LIST_STATUSES} labels={JOB_LIST_FILTER_LABELS} value={list.filters.status} onChange={(v) => list.setFilter("status", v)} />
                 <label className="flex items-center gap-1 text-sm">
                   <input type="checkbox" checked={list.filters.mine === "true"} onChange={(e) => list.setFilter("mine", e.target.checked ? "true" : "")} /> Mine
                 </label>

@@ -4,7 +4,7 @@ import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxi
 import { Card } from "../../../components/ui/layout";
 import { cx } from "../../../components/ui/cx";
 import { StatusBadge } from "../../../components/ui/status-badge";
-import { TOOL_STATUSES, type ToolStatus } from "../../../../shared/tools/tool-status";
+import { STATUS_LABELS, TOOL_STATUSES, type ToolStatus } from "../../../../shared/tools/tool-status";
 import type { FamilyRate, StatsDashboard } from "../../../../shared/stats/stats.schemas";
 import { links } from "./links";
 
@@ -44,7 +44,7 @@ export function StatusCounts({ byStatus }: { byStatus: StatsDashboard["byStatus"
       <ul className="grid gap-1 sm:grid-cols-2">
         {TOOL_STATUSES.map((s: ToolStatus) => (
           <li key={s}>
-            <Link to={links.toolsByStatus(s)} className="flex items-center justify-between gap-2 rounded-md px-2 py-1.5 hover:bg-paper" aria-label={`${byStatus[s] ?? 0} tools ${s.replace(/_/g, " ")}`}>
+            <Link to={links.toolsByStatus(s)} className="flex items-center justify-between gap-2 rounded-md px-2 py-1.5 hover:bg-paper" aria-label={`${byStatus[s] ?? 0} tools ${STATUS_LABELS[s]}`}>
               <StatusBadge status={s} />
               <span className="font-semibold tabular-nums">{byStatus[s] ?? 0}</span>
             </Link>

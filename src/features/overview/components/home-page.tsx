@@ -10,6 +10,7 @@ import { DueByWeekChart, FamilyRates, StatTile, StatusCounts, TileRow } from "./
 import { links } from "./links";
 import { StudyGapsCard } from "../../studies/api/study-cards";
 import { formatDate, formatDateTime } from "../../../lib/format";
+import { TRIGGER_LABELS, type InvestigationTrigger } from "../../../../shared/investigations/investigations.schemas";
 
 const SHOP_VIEW: readonly Role[] = ["quality", "crib", "auditor", "admin"];
 const INSPECTION_VIEW: readonly Role[] = ["inspector", "quality", "auditor", "admin"];
@@ -153,7 +154,7 @@ function InspectionView() {
               {invs.map((v) => (
                 <li key={v.id} className="py-2">
                   <Link to={links.investigation(v.id)} className="font-semibold underline">
-                    {v.toolAssetTag ?? v.standardAssetTag ?? "Investigation"} · {v.trigger.replace(/_/g, " ")}
+                    {v.toolAssetTag ?? v.standardAssetTag ?? "Investigation"} · {TRIGGER_LABELS[v.trigger as InvestigationTrigger] ?? v.trigger}
                   </Link>
                   <p className="text-xs text-ink-faint">
                     Opened {formatDate(v.openedAt)} · {v.itemsAwaitingDisposition} item{v.itemsAwaitingDisposition === 1 ? "" : "s"} without a disposition

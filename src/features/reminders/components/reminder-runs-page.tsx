@@ -9,10 +9,15 @@ import { Button, ButtonLink } from "../../../components/ui/button";
 import { api, errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { cx } from "../../../components/ui/cx";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
 import { formatInstant } from "../../../lib/format";
 import { stageLabel } from "../../../../shared/reminders/reminder-plan";
 import type { ReminderRun, RunRemindersResult } from "../../../../shared/reminders/reminders.schemas";
 import type { Settings } from "../../../../shared/settings/settings.schemas";
+import { describeCron } from "../../../../shared/settings/cron-words";
+
+const lowerFirst = (s: string) => s.charAt(0).toLowerCase() + s.slice(1);
 
 const STATUS: Record<ReminderRun["status"], { label: string; cls: string }> = {
   running: { label: "Running", cls: "bg-caution-light text-caution border-caution/40" },
@@ -20,7 +25,9 @@ const STATUS: Record<ReminderRun["status"], { label: string; cls: string }> = {
   failed: { label: "Failed", cls: "bg-stop-light text-stop border-stop/40" },
   skipped_locked: { label: "Skipped: another run was sending", cls: "bg-paper-sunk text-ink-soft border-paper-line" },
 };
-const TRIGGER: Record<ReminderRun["trigger"], string> = { schedule: "Schedule", manual: "Run now", cli: "Shell command" };
+/** Who started a run: the person who pressed "Run reminders now", else the schedule or the shell command. */
+const TRIGGER: Record<ReminderRun["trigger"], string> = { schedule: "Schedule", manual: "A person (no longer on record)", cli: "Shell command (npm run job:reminders)" };
+const startedBy = (r: ReminderRun) => (r.trigger === "manual" && r.startedBy ? r.startedBy : TRIGGER[r.trigger]);
 
 function RunStatus({ run }: { run: Pick<ReminderRun, "status" | "failed"> }) {
   const s = run.status === "finished" && run.failed > 0 ? { label: "Finished with failures", cls: STATUS.failed.cls } : STATUS[run.status];
@@ -37,7 +44,24 @@ function resultSentence(r: RunRemindersResult): string {
 
 const col = createColumnHelper<ReminderRun>();
 
+/** The runs of the reminder job; only a role that may run reminders sees them (the server keeps them to that role too). */
 export function ReminderRunsPage() {
+  const canRun = useCan("reminders.run");
+  const roleName = useRoleName();
+  if (!canRun) {
+    return (
+      <div>
+        <PageHeader title="Reminders" subtitle="Due-date reminders: coming due, overdue and not returned, each sent once." />
+        <RoleNotice roleName={roleName}>
+          cannot see the reminder runs or send reminders; an administrator runs them. Your own reminders are set in <Link className="underline" to="/me/notifications">My notifications</Link>.
+        </RoleNotice>
+      </div>
+    );
+  }
+  return <ReminderRuns />;
+}
+
+function ReminderRuns() {
   const list = useListParams([] as const);
   const runs = useReminderRuns(list.page);
   const runNow = useRunRemindersNow();
@@ -46,7 +70,7 @@ export function ReminderRunsPage() {
 
   const columns = [
     col.accessor("startedAt", { header: "Started", cell: (c) => <span className="whitespace-nowrap">{formatInstant(c.getValue())}</span> }),
-    col.accessor("trigger", { header: "By", cell: (c) => TRIGGER[c.getValue()] }),
+    col.accessor("trigger", { header: "By", cell: (c) => startedBy(c.row.original) }),
     col.accessor("status", { header: "Result", cell: (c) => <RunStatus run={c.row.original} /> }),
     col.accessor("sent", { header: "E-mails sent" }),
     col.accessor("failed", { header: "E-mails failed", cell: (c) => <span className={c.getValue() ? "font-semibold text-stop" : undefined}>{c.getValue()}</span> }),
@@ -69,7 +93,7 @@ export function ReminderRunsPage() {
         title="Reminders"
         subtitle={
           settings.data
-            ? `Due-date reminders go out on the schedule "${settings.data.reminderCron}" (${settings.data.shopTimeZone}), ${settings.data.reminderStages.join(", ")} days before due, when overdue, and for tools not returned. Each reminder is sent once.`
+            ? `Due-date reminders go out ${lowerFirst(describeCron(settings.data.reminderCron))} (${settings.data.shopTimeZone} time), ${settings.data.reminderStages.join(", ")} days before due, when overdue, and for tools not returned. Each reminder is sent once.`
             : "Due-date reminders: coming due, overdue and not returned, each sent once."
         }
         actions={

@@ -7,6 +7,9 @@ import { api, errorMessage } from "../../../lib/api-client";
 import { PageHeader, Card, ErrorNote, Loading } from "../../../components/ui/layout";
 import { TextField, SelectField } from "../../../components/ui/field";
 import { Button } from "../../../components/ui/button";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
+import { describeCron } from "../../../../shared/settings/cron-words";
 
 export const settingsKeys = { all: ["settings"] as const };
 export const useSettings = () => useQuery({ queryKey: settingsKeys.all, queryFn: () => api.get<Settings>("/api/settings"), staleTime: 60_000 });
@@ -22,6 +25,9 @@ export function SettingsPage() {
   const qc = useQueryClient();
   const save = useMutation({ mutationFn: (s: Settings) => api.patch<Settings>("/api/settings", s), onSuccess: () => qc.invalidateQueries({ queryKey: settingsKeys.all }) });
   const form = useForm<Settings>({ resolver: zodResolver(FormSchema) });
+  const canWrite = useCan("settings.write");
+  const roleName = useRoleName();
+  const cron = form.watch("reminderCron");
   useEffect(() => {
     if (settings.data) form.reset(settings.data);
   }, [settings.data, form]);
@@ -30,7 +36,9 @@ export function SettingsPage() {
   return (
     <div className="max-w-3xl">
       <PageHeader title="Shop settings" subtitle="Time zone, warning windows, reminders and intervals." />
+      {!canWrite && <RoleNotice roleName={roleName}>can read this page but not change settings; an administrator changes them.</RoleNotice>}
       <form noValidate onSubmit={form.handleSubmit((v) => save.mutate(v))} className="flex flex-col gap-4">
+        <fieldset disabled={!canWrite} className="contents">
         <Card title="Shop">
           <div className="grid gap-3 sm:grid-cols-2">
             <TextField label="Shop name" error={e.shopName?.message} {...form.register("shopName")} />
@@ -46,7 +54,12 @@ export function SettingsPage() {
         <Card title="Due dates and reminders">
           <div className="grid gap-3 sm:grid-cols-2">
             <TextField label="Due-soon warning window (days)" type="number" error={e.dueSoonDays?.message} {...form.register("dueSoonDays", { valueAsNumber: true })} />
-            <TextField label="Reminder schedule (cron: minute hour day month weekday)" error={e.reminderCron?.message} {...form.register("reminderCron")} />
+            <TextField
+              label="Reminder schedule (cron: minute hour day month weekday)"
+              error={e.reminderCron?.message}
+              hint={cron ? `${describeCron(cron)}, shop time.` : undefined}
+              {...form.register("reminderCron")}
+            />
             <TextField
               label="Reminder stages (days before due, comma-separated)"
               error={e.reminderStages?.message}
@@ -75,13 +88,16 @@ export function SettingsPage() {
             />
           </div>
         </Card>
+        </fieldset>
         {save.isError && <ErrorNote>{errorMessage(save.error)}</ErrorNote>}
         {save.isSuccess && <p role="status" className="text-go">Settings saved.</p>}
-        <div>
-          <Button type="submit" disabled={save.isPending}>
-            Save settings
-          </Button>
-        </div>
+        {canWrite && (
+          <div>
+            <Button type="submit" disabled={save.isPending}>
+              Save settings
+            </Button>
+          </div>
+        )}
       </form>
     </div>
   );

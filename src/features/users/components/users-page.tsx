@@ -12,10 +12,27 @@ import { Button } from "../../../components/ui/button";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import { FilterSelect } from "../../../components/ui/filter-select";
+import { RoleNotice } from "../../../components/ui/role-notice";
+import { useCan, useRoleName } from "../../auth/api/auth";
 
 const col = createColumnHelper<UserDetail>();
 
+/** People and roles: administrators manage them; any other role opening the page by URL is told so plainly. */
 export function UsersPage() {
+  const canManage = useCan("users.manage");
+  const roleName = useRoleName();
+  if (!canManage) {
+    return (
+      <div>
+        <PageHeader title="People and roles" subtitle="Who may sign in to Tenthwise, and what each may do." />
+        <RoleNotice roleName={roleName}>cannot see or change the list of people; an administrator adds people and sets their roles.</RoleNotice>
+      </div>
+    );
+  }
+  return <ManagePeople />;
+}
+
+function ManagePeople() {
   const list = useListParams(["q", "role"] as const);
   const users = useUsers({ q: list.filters.q, role: list.filters.role, page: list.page });
   const update = useUpdateUser();
@@ -77,7 +94,7 @@ export function UsersPage() {
     <div>
       <PageHeader title="People and roles" subtitle="Who may sign in to Tenthwise, and what each may do." />
       {message && <p className="mb-3 rounded-md bg-brass-light px-3 py-2 text-sm" role="status">{message}</p>}
-      <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
+      <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_22rem]">
         <DataTable
           label="People"
           columns={columns}
