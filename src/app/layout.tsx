@@ -55,7 +55,7 @@ export function AppLayout() {
         <nav aria-label="Main" className="px-3 py-2">
           {groups.map((g) => (
             <div key={g.key} className="mb-3">
-              <p className="px-2 pb-1 text-xs font-semibold uppercase tracking-widest text-brass">{g.label}</p>
+              <p className="px-2 pb-1 text-xs font-semibold uppercase tracking-widest text-brass-bright">{g.label}</p>
               <ul>
                 {g.items.map((item) => (
                   <li key={item.to}>
@@ -95,7 +95,7 @@ export function AppLayout() {
 export function Wordmark() {
   return (
     <span className="inline-flex items-baseline text-lg font-bold tracking-tight">
-      Tenth<span className="text-brass">wise</span>
+      Tenth<span className="text-brass-bright">wise</span>
     </span>
   );
 }

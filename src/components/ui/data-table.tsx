@@ -9,6 +9,7 @@ import {
   type OnChangeFn,
 } from "@tanstack/react-table";
 import { Button } from "./button";
+import { ScrollBox } from "./scroll-box";
 
 interface DataTableProps<T> {
   columns: ColumnDef<T, any>[];
@@ -50,7 +51,7 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
   });
   const pages = Math.max(1, Math.ceil(total / pageSize));
   return (
-    <div className="rounded-card border border-paper-line bg-paper-raised shadow-card">
+    <div className="min-w-0 rounded-card border border-paper-line bg-paper-raised shadow-card">
       <div className="no-print flex flex-wrap items-center justify-between gap-2 border-b border-paper-line p-2">
         <div className="flex flex-wrap items-center gap-2">{toolbar}</div>
         <div className="relative">
@@ -69,7 +70,7 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
           )}
         </div>
       </div>
-      <div className="overflow-x-auto">
+      <ScrollBox label={label}>
         <table className="w-full text-left text-sm" aria-label={label} aria-busy={loading}>
           <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
             {table.getHeaderGroups().map((hg) => (
@@ -106,7 +107,7 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
           </tbody>
         </table>
         {!loading && data.length === 0 && <div className="p-4">{empty ?? <p className="text-center text-ink-faint">Nothing matches.</p>}</div>}
-      </div>
+      </ScrollBox>
       <div className="no-print flex items-center justify-between gap-2 border-t border-paper-line p-2 text-sm">
         <span>
           {total === 0 ? "0" : `${(page - 1) * pageSize + 1}–${Math.min(page * pageSize, total)}`} of {total}

@@ -15,7 +15,7 @@ export function PageHeader({ title, subtitle, actions }: { title: ReactNode; sub
 
 export function Card({ title, children, className, actions }: { title?: ReactNode; children: ReactNode; className?: string; actions?: ReactNode }) {
   return (
-    <section className={cx("rounded-card border border-paper-line bg-paper-raised p-4 shadow-card", className)}>
+    <section className={cx("min-w-0 rounded-card border border-paper-line bg-paper-raised p-4 shadow-card", className)}>
       {(title || actions) && (
         <div className="mb-3 flex items-center justify-between gap-2">
           {title && <h2 className="text-lg font-semibold">{title}</h2>}

@@ -22,7 +22,7 @@ export function SignInPage() {
     <div className="flex min-h-screen items-center justify-center bg-ink px-4">
       <div className="w-full max-w-sm rounded-card bg-paper-raised p-6 shadow-card">
         <p className="text-2xl font-bold tracking-tight">
-          Tenth<span className="text-brass">wise</span>
+          Tenth<span className="text-brass-dark">wise</span>
         </p>
         <p className="mb-5 text-sm text-ink-soft">Measuring tools you can trust, readings you can trace.</p>
         <form

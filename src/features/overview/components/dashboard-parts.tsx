@@ -24,7 +24,8 @@ export function StatTile({ label, value, to, tone = "plain", hint }: { label: st
     <Link
       to={to}
       className={cx("group block rounded-card border-2 bg-paper-raised p-3 shadow-card transition-colors hover:bg-paper focus-visible:outline-2 focus-visible:outline-brass", TONES[value === 0 ? "plain" : tone])}
-      aria-label={`${label}: ${value}. Open the list.`}
+      // The name starts with what the tile shows (number, words, hint), so a voice command naming it works.
+      aria-label={`${value} ${label}${hint ? ` ${hint}` : ""}. Open the list.`}
     >
       <span className={cx("block text-3xl font-bold tabular-nums", NUMBER_TONES[value === 0 ? "plain" : tone])}>{value}</span>
       <span className="block text-sm font-semibold text-ink-soft group-hover:underline">{label}</span>

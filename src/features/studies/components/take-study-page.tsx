@@ -97,7 +97,7 @@ export function TakeStudyPage() {
               {transfer && <TextField label="Micrometer that read it (tag)" value={reader} onChange={(e) => setReader(e.target.value.toUpperCase())} onKeyDown={toValueOnEnter} autoComplete="off" />}
             </div>
             <p className="rounded-md bg-ink px-4 py-3 text-paper" aria-live="assertive" role="status">
-              <span className="block text-xs uppercase tracking-widest text-brass">Next, no. {study.prompt.position} of {study.needed}</span>
+              <span className="block text-xs uppercase tracking-widest text-brass-bright">Next, no. {study.prompt.position} of {study.needed}</span>
               <span className="text-2xl font-bold">
                 Measure {study.prompt.partLabel} — trial {study.prompt.trial}
               </span>

@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { cx } from "../../../components/ui/cx";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 
 /**
  * The compact table of a tool's records (checks, set elements, calibration points): scrolls sideways on a
@@ -7,7 +8,7 @@ import { cx } from "../../../components/ui/cx";
  */
 export function RecordTable({ label, headers, className, children }: { label: string; headers: (string | false)[]; className?: string; children: ReactNode }) {
   return (
-    <div className="overflow-x-auto">
+    <ScrollBox label={label}>
       <table className={cx("w-full text-left text-sm", className)} aria-label={label}>
         <thead className="text-xs uppercase tracking-wide text-ink-faint">
           <tr>
@@ -22,6 +23,6 @@ export function RecordTable({ label, headers, className, children }: { label: st
         </thead>
         <tbody>{children}</tbody>
       </table>
-    </div>
+    </ScrollBox>
   );
 }
