@@ -1,4 +1,4 @@
-import { eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, isNull } from "drizzle-orm";
 import type { SeedContext } from "./seed-context";
 import { fixedClock } from "../platform/clock";
 import { tools, checkouts, setElements } from "../db/schema";
@@ -151,10 +151,11 @@ export async function seedInspection(ctx: SeedContext): Promise<void> {
     quality.id,
   );
 
-  // The past job: the crib had issued the bench tools to the mechanic that morning and took them back at the end of the shift.
+  // The past job: the crib had issued every tool the sheet names to the mechanic that morning, an hour before the first
+  // reading, and took them back at the end of the shift — so none of its readings is flagged "not issued to the reader".
   const shift = { issuedAt: new Date(past.getTime() - 60 * 60_000), dueBackAt: new Date(past.getTime() + 8 * 3600_000), returnedAt: new Date(past.getTime() + 7 * 3600_000) };
   await db.insert(checkouts).values(
-    found.filter((f) => ["MIC-0104", "MIC-0105", "TEL-0101", "FLR-0101"].includes(f.assetTag)).map((f) => ({ toolId: f.id, userId: mechanic.id, issuedBy: ctx.users.crib.id, ...shift, returnedBy: ctx.users.crib.id, returnCondition: "ok" as const, engineSerial: "HF360-D-40217", workOrder: "WO-DEMO-2291" })),
+    found.map((f) => ({ toolId: f.id, userId: mechanic.id, issuedBy: ctx.users.crib.id, ...shift, returnedBy: ctx.users.crib.id, returnCondition: "ok" as const, engineSerial: "HF360-D-40217", workOrder: "WO-DEMO-2291" })),
   );
 
   const pastClock = fixedClock(past);
@@ -190,10 +191,13 @@ export async function seedInspection(ctx: SeedContext): Promise<void> {
     await recordAudit(db, { actorId: mechanic.id, action: "reading.create", entityType: "reading", entityId: row.id, after: { jobId: done.id, itemKey, index, tools: ["FLR-0101"], go: pick.go, noGo: pick.noGo }, at });
   }
   pastClock.set(new Date(past.getTime() + 6 * 3600_000));
+  // The inspector signs with the certificate number on her record, as the sign-off requires.
+  const certificateNumber = ctx.users.inspector.certificateNumber;
+  if (!certificateNumber) throw new Error("Inspection seed: the demo inspector has no certificate number on record");
   await jobsService({ db, clock: pastClock }).sign(
     done.id,
     {
-      certificateNumber: ctx.users.inspector.certificateNumber ?? "IA-DEMO-40817",
+      certificateNumber,
       note:
         "Rejected and replaced under WO-DEMO-2291 (demo): exhaust guide no. 8 (worn beyond serviceable); piston pin no. 2 (over size in one direction) and no. 4 (fit too tight); " +
         "cylinder no. 3 (out of round) and no. 5 (taper); piston no. 6 (pin bore under size at 20 °C); rocker bushing no. 9 (radial clearance under minimum).",
@@ -202,7 +206,26 @@ export async function seedInspection(ctx: SeedContext): Promise<void> {
   );
 
   // Today's job, half measured: pins and some stems so far; MIC-0104 is on the bench but was never issued to the mechanic.
-  const todayClock = fixedClock(new Date(now.getTime() - 3 * 3600_000));
+  // The readings start after the crib issued today's tools to the mechanic (the crib seed's morning issue), so only the
+  // reading taken on the bench micrometer carries "not issued to the reader".
+  const issuedToday = await db
+    .select({ issuedAt: checkouts.issuedAt })
+    .from(checkouts)
+    .where(and(inArray(checkouts.toolId, found.filter((f) => ["MIC-0101", "SHG-0101"].includes(f.assetTag)).map((f) => f.id)), eq(checkouts.userId, mechanic.id), isNull(checkouts.returnedAt)));
+  const lastIssue = Math.max(0, ...issuedToday.map((c) => c.issuedAt.getTime()));
+  // The gauge and the feeler set for today's bores and rings go out with them, so their readings are the mechanic's too.
+  const morningOut = issuedToday.length ? (await db.select().from(checkouts).where(and(eq(checkouts.userId, mechanic.id), isNull(checkouts.returnedAt), eq(checkouts.issuedAt, new Date(lastIssue)))))[0] : undefined;
+  if (morningOut) {
+    await db.insert(checkouts).values(
+      found
+        .filter((f) => ["TEL-0101", "FLR-0101"].includes(f.assetTag))
+        .map((f) => ({ toolId: f.id, userId: mechanic.id, issuedBy: morningOut.issuedBy, issuedAt: morningOut.issuedAt, dueBackAt: morningOut.dueBackAt, workOrder: "WO-DEMO-2307", engineSerial: "HF360-D-40388" })),
+    );
+  }
+  const todayStart = Math.max(now.getTime() - 3 * 3600_000, Math.min(lastIssue + 5 * 60_000, now.getTime() - 30 * 60_000));
+  // Fourteen readings between the start and now, evenly spaced (four minutes apart when there is time for it).
+  const step = Math.min(4 * 60_000, Math.floor((now.getTime() - todayStart) / 16));
+  const todayClock = fixedClock(new Date(todayStart));
   const open = await jobsService({ db, clock: todayClock }).create({ limitTableId: table.id, engineSerial: "HF360-D-40388", workOrder: "WO-DEMO-2307" }, mechanic);
   const todayReadings = readingsService({ db, clock: todayClock, config });
   const todo: [string, number][] = [
@@ -220,7 +243,7 @@ export async function seedInspection(ctx: SeedContext): Promise<void> {
     ["ring_side_top", 1],
   ];
   for (const [key, i] of todo) {
-    todayClock.set(new Date(todayClock.now().getTime() + 4 * 60_000));
+    todayClock.set(new Date(todayClock.now().getTime() + step));
     const input = readingFor(key, i, "open")!;
     // Today the crib has MIC-0101 and SHG-0101 out to the mechanic; pin no. 1 is read on MIC-0104 from the bench (flagged not_in_custody).
     const tagsToday = input.toolAssetTags?.map((t) => (t === "MIC-0104" && !(key === "pin_dia" && i === 1) ? "MIC-0101" : t === "MIC-0105" ? "MIC-0101" : t));
@@ -231,7 +254,7 @@ export async function seedInspection(ctx: SeedContext): Promise<void> {
   if (second.mode !== "measured_gap") throw new Error(`Inspection seed: FLR-0101 was expected to need a measured gap on the second ring: ${JSON.stringify(second)}`);
   const entering = [...second.leaves].filter((l) => l.thickness <= 0.0033).at(-1);
   if (!entering) throw new Error("Inspection seed: FLR-0101 has no leaf thin enough for the second ring");
-  todayClock.set(new Date(todayClock.now().getTime() + 4 * 60_000));
+  todayClock.set(new Date(todayClock.now().getTime() + step));
   await todayReadings.create(open.id, CreateReadingSchema.parse({ itemKey: "ring_side_second", index: 1, toolAssetTags: ["FLR-0101"], gapLeafIds: [entering.id] }), mechanic);
 
   // The readings recorded under judging rules 1 are judged under the current rules, as an upgraded shop's are.

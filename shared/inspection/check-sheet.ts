@@ -22,11 +22,14 @@ export function itemTolerance(item: Pick<ItemRules, "min" | "max">): Decimal | n
   return dec(item.max).minus(dec(item.min));
 }
 
-/** True when a tool's resolution (in its unit) is coarser than a tenth of the item's tolerance (in the table's unit). */
-export function resolutionFlag(item: Pick<ItemRules, "min" | "max">, resolution: DecimalLike, toolUnit: LengthUnit, tableUnit: LengthUnit): boolean {
+/**
+ * True when a tool's resolution (in its unit) is coarser than 1/ratio of the item's tolerance (in the table's unit);
+ * the ratio is the shop's setting (10:1 by default, the common rule of thumb).
+ */
+export function resolutionFlag(item: Pick<ItemRules, "min" | "max">, resolution: DecimalLike, toolUnit: LengthUnit, tableUnit: LengthUnit, ratio: DecimalLike = 10): boolean {
   const tol = itemTolerance(item);
   if (tol == null || tol.lte(0)) return false;
-  return resolutionTooCoarse(convertLength(resolution, toolUnit, tableUnit), tol);
+  return resolutionTooCoarse(convertLength(resolution, toolUnit, tableUnit), tol, ratio);
 }
 
 /** True when every value lies inside a tool's range (both in the tool's unit). */

@@ -413,10 +413,13 @@ export function judgeFit(item: ItemRules, bore: Judged<SizePlace>, journal: Judg
   const jn = journal.view;
   const bSrc = readingSource(b.itemKey, b.index);
   const jSrc = readingSource(jn.itemKey, jn.index);
-  const sens = [
-    { key: bSrc, coef: bore.scale!.negated().times(half) },
-    { key: jSrc, coef: journal.scale!.times(half) },
-  ];
+  // A side known only by its stored view (shown, never re-judged) moves nothing.
+  const sens = bore.scale && journal.scale
+    ? [
+        { key: bSrc, coef: bore.scale.negated().times(half) },
+        { key: jSrc, coef: journal.scale.times(half) },
+      ]
+    : [];
   const basisWord = item.radial ? "radial" : "";
   const loosestD = dec(b.largest).minus(dec(jn.smallest));
   const tightestD = dec(b.smallest).minus(dec(jn.largest));
@@ -483,10 +486,12 @@ export function judgeTaper(item: ItemRules, a: Judged<SizePlace>, b: Judged<Size
       min: lim.max?.negated() ?? null,
       max: lim.max,
       shown: "length",
-      sensitivity: [
-        { key: aSrc, coef: a.scale!.negated() },
-        { key: bSrc, coef: b.scale! },
-      ],
+      sensitivity: a.scale && b.scale
+        ? [
+            { key: aSrc, coef: a.scale.negated() },
+            { key: bSrc, coef: b.scale },
+          ]
+        : [],
     });
   }
   const j = judgeChecks(checks);
@@ -608,8 +613,19 @@ export function judgeReading(item: ItemRules, ev: ReadingEvidence, ctx: JudgingC
 }
 
 /**
+ * A place already judged under the current rules (a stored judgement's view, or one judged moments ago), so a sheet
+ * does not judge a reading twice. Such a place carries no checks: it is for showing, never for re-judging.
+ */
+export type JudgedAt = (itemKey: string, index: number) => Judged | undefined;
+
+/** A stored view of a place as a judged place for showing (no checks, no sensitivity). */
+export const shownOnly = (view: PlaceView): Judged => ({ view, checks: [] });
+
+/**
  * One place of the sheet (item × index), judged from the readings at hand — the one function the sheet, the PDF and a
- * keyboard grid call per row. `evidenceAt` gives the current reading (saved, or typed and not yet saved) of a place.
+ * keyboard grid call per row. `evidenceAt` gives the current reading (saved, or typed and not yet saved) of a place;
+ * `judgedAt`, when given, answers first with a place already judged under the current rules (a saved reading's stored
+ * judgement), so a sheet of a thousand readings judges each once — at recording — and only works out the fits and tapers.
  */
 export function judgeRow(
   items: ItemRules[],
@@ -617,12 +633,16 @@ export function judgeRow(
   index: number,
   evidenceAt: (itemKey: string, index: number) => ReadingEvidence | undefined,
   ctx: JudgingContext,
+  judgedAt?: JudgedAt,
 ): Judged {
   const byKey = (k: string | null | undefined) => (k ? items.find((i) => i.key === k) : undefined);
   const sized = (k: string | null | undefined): Judged<SizePlace> | null => {
     const it = byKey(k);
-    const ev = it ? evidenceAt(it.key, index) : undefined;
-    if (!it || !ev || (it.kind !== "journal" && it.kind !== "bore")) return null;
+    if (!it || (it.kind !== "journal" && it.kind !== "bore")) return null;
+    const pre = judgedAt?.(it.key, index);
+    if (pre) return pre.view.kind === "size" ? (pre as Judged<SizePlace>) : null;
+    const ev = evidenceAt(it.key, index);
+    if (!ev) return null;
     const j = judgeSize(it, ev, ctx);
     return j.view.kind === "size" ? (j as Judged<SizePlace>) : null;
   };
@@ -639,6 +659,8 @@ export function judgeRow(
     if (!a || !b) return pending(item.key, index, "Waiting for both stations");
     return judgeTaper(item, a, b, ctx, index, [byKey(ka)!.label, byKey(kb)!.label]);
   }
+  const pre = judgedAt?.(item.key, index);
+  if (pre) return pre;
   const ev = evidenceAt(item.key, index);
   if (!ev) return pending(item.key, index, "Pending");
   return judgeReading(item, ev, ctx);

@@ -144,4 +144,11 @@ describe("resolution against tolerance", () => {
     expect(resolutionTooCoarse(0.0001, 0.0035)).toBe(false);
     expect(resolutionTooCoarse(0.001, 0.0035)).toBe(true);
   });
+
+  it("at a shop ratio of 4:1 a 0.0001 in micrometer suits a 0.0004 in band but not a 0.0003 in one (shop setting; common practice, no source)", () => {
+    expect(resolutionTooCoarse(0.0001, 0.0004, 4)).toBe(false);
+    expect(resolutionTooCoarse(0.0001, 0.0003, 4)).toBe(true);
+    // The same micrometer on the 0.0004 band fails the default 10:1.
+    expect(resolutionTooCoarse(0.0001, 0.0004)).toBe(true);
+  });
 });

@@ -77,9 +77,12 @@ export function judgeAgainstLimits(args: { value: DecimalLike } & Limits): Limit
   };
 }
 
-/** True when a tool's resolution is coarser than a tenth of the tolerance it checks ("rule of ten", AIAG MSA; NPL "10 % rule"). */
-export function resolutionTooCoarse(resolution: DecimalLike, tolerance: DecimalLike): boolean {
-  return dec(resolution).gt(dec(tolerance).abs().div(10));
+/**
+ * True when a tool's resolution is coarser than 1/ratio of the tolerance it checks. The shop sets the ratio; 10:1 is the
+ * common rule of thumb ("rule of ten", AIAG MSA; NPL "10 % rule").
+ */
+export function resolutionTooCoarse(resolution: DecimalLike, tolerance: DecimalLike, ratio: DecimalLike = 10): boolean {
+  return dec(resolution).gt(dec(tolerance).abs().div(dec(ratio)));
 }
 
 /** Clearance in trade notation: "0.0026 loose", "0.0015 tight", "0.0000 line to line". */

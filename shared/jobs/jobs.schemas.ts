@@ -56,6 +56,10 @@ export const SignJobSchema = z.object({
 });
 export type SignJobInput = z.input<typeof SignJobSchema>;
 
+/** GET /api/me/inspector-certificate — what the sign-off form fills in: the signer's number from their user record. */
+export const SignerCertificateSchema = z.object({ name: z.string(), certificateNumber: z.string().nullable() });
+export type SignerCertificate = z.infer<typeof SignerCertificateSchema>;
+
 export const SignoffSchema = z.object({
   id: z.string().uuid(),
   inspector: PersonRef,
@@ -87,11 +91,16 @@ export const SheetRowSchema = z.object({
   place: PlaceSchema,
   /** A reading recorded under earlier rules that the current rules judge otherwise. */
   judgedDifferently: z.boolean(),
+  /** The place's flags, less those its item shows once (`SheetItem.flags`); the reading keeps all its flags. */
   flags: z.array(z.string()),
 });
 export type SheetRow = z.infer<typeof SheetRowSchema>;
 
-export const SheetItemSchema = LimitItemSchema.extend({ rows: z.array(SheetRowSchema) });
+export const SheetItemSchema = LimitItemSchema.extend({
+  rows: z.array(SheetRowSchema),
+  /** Flags every reading of the item carries (at least two readings, or the item's only place): shown once, on the item. */
+  flags: z.array(z.string()),
+});
 export type SheetItem = z.infer<typeof SheetItemSchema>;
 
 /** GET /api/jobs/:id — the check sheet. */

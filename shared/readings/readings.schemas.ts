@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { LengthSchema, UnitSchema, InstantSchema, optionalText } from "../common/lists.schemas";
+import { UnitSchema, InstantSchema, optionalText } from "../common/lists.schemas";
 import { EXPANSION_COEFFICIENTS, type MaterialKey } from "../common/units";
 import { TOOL_STATUSES } from "../tools/tool-status";
 
@@ -23,7 +23,7 @@ export const FLAG_LABELS: Record<ReadingFlag, string> = {
   tool_out_of_tolerance: "Tool was out of tolerance",
   tool_quarantined: "Tool was quarantined",
   tool_never_calibrated: "Tool was never calibrated",
-  resolution_too_coarse: "Tool resolution coarser than a tenth of the tolerance",
+  resolution_too_coarse: "Tool resolution too coarse for this tolerance (the shop's resolution ratio)",
   outside_tool_range: "Value outside the tool's range",
   not_in_custody: "Tool not issued to the reader",
   suspect: "Suspect: the tool was later found out of tolerance",
@@ -34,7 +34,18 @@ export const FLAG_LABELS: Record<ReadingFlag, string> = {
 export const MATERIAL_KEYS = Object.keys(EXPANSION_COEFFICIENTS) as [MaterialKey, ...MaterialKey[]];
 export const MaterialSchema = z.enum(MATERIAL_KEYS);
 
-const TempSchema = z.number().finite().min(-40, "Below −40 °C is not a shop temperature.").max(80, "Above 80 °C is not a shop temperature.");
+/** What a person is told when a value is not a number ("abc", an empty cell sent as NaN or null): the form and the route say the same. */
+export const ENTER_A_NUMBER = "Enter a number, e.g. 1.1245";
+export const ENTER_A_TEMPERATURE = "Enter the temperature in °C as a number, e.g. 21.5";
+
+/** A value as read on a tool: a length (the bounds of LengthSchema), with a plain message when it is not a number. */
+export const ReadingValueSchema = z
+  .number({ error: ENTER_A_NUMBER })
+  .min(-1e6, "A length this large is not a measurement; check the unit.")
+  .max(1e6, "A length this large is not a measurement; check the unit.")
+  .refine((v) => v === 0 || Math.abs(v) >= 1e-9, "A length this small is below any tool's resolution; enter 0 or check the unit.");
+
+const TempSchema = z.number({ error: ENTER_A_TEMPERATURE }).min(-40, "Below −40 °C is not a shop temperature.").max(80, "Above 80 °C is not a shop temperature.");
 const AssetTagSchema = z.string().trim().min(1, "Scan or type the tool's tag.").max(40);
 
 /**
@@ -45,7 +56,7 @@ const AssetTagSchema = z.string().trim().min(1, "Scan or type the tool's tag.").
 export const CreateReadingSchema = z.object({
   itemKey: z.string().trim().min(1, "Choose the item.").max(60),
   index: z.number().int().min(1).max(64).optional(),
-  values: z.array(LengthSchema).max(12).optional(),
+  values: z.array(ReadingValueSchema, { error: "Give the values as a list of numbers." }).max(12).optional(),
   toolAssetTags: z.array(AssetTagSchema).max(4).default([]),
   temperatureC: TempSchema.optional(),
   toolTemperatureC: TempSchema.optional(),

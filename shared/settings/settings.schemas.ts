@@ -20,6 +20,14 @@ export const SettingsSchema = z.object({
   guardBandMultiplier: z.number().min(0).max(3),
   /** Confidence of the interval test's Clopper-Pearson interval (NCSL RP-1 method A3). */
   intervalConfidence: z.number().min(0.8).max(0.999),
+  /**
+   * Resolution ratio N (N:1): a reading is flagged when its tool's resolution is coarser than 1/N of the item's
+   * tolerance. 10:1 is the common rule of thumb ("rule of ten"; common practice, no source binds a shop to it).
+   */
+  resolutionRatio: z
+    .number({ error: "Give the ratio as a number, e.g. 10 for 10:1." })
+    .min(1, "A ratio below 1:1 would accept a tool coarser than the tolerance itself.")
+    .max(100, "A ratio above 100:1 would flag every tool in the shop."),
 });
 export type Settings = z.infer<typeof SettingsSchema>;
 /** Five cron fields (minute hour day-of-month month weekday); a sixth, seconds, field would mail every second. */
@@ -46,4 +54,5 @@ export const DEFAULT_SETTINGS: Omit<Settings, "shopTimeZone"> = {
   studyPoolingAlpha: 0.25,
   guardBandMultiplier: 1,
   intervalConfidence: 0.95,
+  resolutionRatio: 10,
 };

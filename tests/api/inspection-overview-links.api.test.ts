@@ -3,6 +3,8 @@ import { createTestApp, type TestApp } from "../support/test-app";
 import { makeLimitTable } from "../support/factories-inspection";
 import { makeUsableTool } from "../support/factories-crib";
 import * as inv from "../support/factories-investigations";
+import { users } from "../../server/db/schema";
+import { eq } from "drizzle-orm";
 
 // The counts on the overview lead to filtered lists (src/features/overview/components/links.ts); a count and
 // the list it opens must agree, whatever the sheets and investigations hold.
@@ -10,6 +12,8 @@ import * as inv from "../support/factories-investigations";
 let t: TestApp;
 beforeAll(async () => {
   t = await createTestApp({ now: "2026-06-15T15:00:00Z" });
+  // An inspector signs with the certificate number on her record.
+  await t.db.update(users).set({ certificateNumber: "IA-LINKS" }).where(eq(users.id, t.people.inspector.id));
 });
 afterAll(async () => t?.close());
 
@@ -62,7 +66,7 @@ describe("check sheets awaiting signature", () => {
     const signed = (await m.post("/api/jobs", { limitTableId: table.id, engineSerial: "MINE-SIGNED" })).body;
     for (const j of [corrected, signed]) {
       await m.post(`/api/jobs/${j.id}/readings`, { itemKey: "visual", visualResult: "serviceable" });
-      expect((await i.post(`/api/jobs/${j.id}/sign`, { certificateNumber: "IA-MINE" })).status).toBe(200);
+      expect((await i.post(`/api/jobs/${j.id}/sign`, { certificateNumber: "IA-LINKS" })).status).toBe(200);
     }
     t.clock.set("2026-06-15T17:00:00Z");
     const readingId = (await m.get(`/api/jobs/${corrected.id}`)).body.items[0].rows[0].reading.id;

@@ -4,7 +4,8 @@ import { makeCheckout, makeFamily, makeTool, makeCalibration, makeFeelerSet } fr
 import { seedInspection } from "../../server/seed/inspection.seed";
 import type { SeedContext } from "../../server/seed/seed-context";
 import type { UserRow } from "../../server/modules/users/users.repository";
-import { calibrationPoints } from "../../server/db/schema";
+import { calibrationPoints, users } from "../../server/db/schema";
+import { eq } from "drizzle-orm";
 
 let t: TestApp;
 beforeAll(async () => {
@@ -49,6 +50,8 @@ describe("the demo inspection", () => {
       people: {},
       shared: {},
     };
+    // The demo inspector signs with the number on her record (users.seed gives it; the test app's people have none).
+    await t.db.update(users).set({ certificateNumber: "IA-DEMO-40817" }).where(eq(users.id, t.people.inspector.id));
     await seedInspection(ctx);
     const { signedJobId, openJobId } = ctx.shared as { signedJobId: string; openJobId: string };
     const a = await t.agent("auditor");
@@ -87,5 +90,14 @@ describe("the demo inspection", () => {
     // Today's second ring is a measured gap: FLR-0101 cannot make a go and a no-go inside 0.0030–0.0033.
     expect(place(open, "ring_side_second", 1).place).toMatchObject({ kind: "feeler", mode: "measured_gap", verdict: "within_limits" });
     expect(place(open, "ring_side_top", 1).place).toMatchObject({ mode: "go_no_go", verdict: "within_limits" });
+
+    // Every demo reading was taken after its tools were issued to the mechanic: "not issued to the reader" is on the one
+    // reading deliberately taken with the bench micrometer MIC-0104 (today's pin no. 1), and on no other.
+    const notIssued = (sheet: any) =>
+      sheet.items.flatMap((i: any) => i.rows.filter((r: any) => r.reading?.flags.includes("not_in_custody")).map((r: any) => `${i.key} ${r.index} ${r.reading.tools.map((x: any) => x.assetTag).join("+")}`));
+    expect(notIssued(signed)).toEqual([]);
+    expect(notIssued(open)).toEqual(["pin_dia 1 MIC-0104"]);
+    // The signature carries the number on the inspector's record.
+    expect(signed.signoffs[0]).toMatchObject({ certificateNumber: "IA-DEMO-40817", inspector: { name: "Test inspector" } });
   });
 });

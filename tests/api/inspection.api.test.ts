@@ -3,12 +3,15 @@ import { createTestApp, type TestApp } from "../support/test-app";
 import { roleMatrix } from "../support/role-matrix";
 import { makeCalibration, makeCheckout, makeTool, makeFamily } from "../support/factories";
 import { makeFeelerSetInCalibration, makeJob, makeLimitTable, makeToolInCalibration, pinAndBoreItems } from "../support/factories-inspection";
-import { readings } from "../../server/db/schema";
+import { readings, readingTools, users } from "../../server/db/schema";
 import { eq } from "drizzle-orm";
+import { CreateReadingSchema, ENTER_A_NUMBER } from "../../shared/readings/readings.schemas";
 
 let t: TestApp;
 beforeAll(async () => {
   t = await createTestApp({ now: "2026-06-15T15:00:00Z" });
+  // The test inspector's record holds her certificate number; she signs with it.
+  await t.db.update(users).set({ certificateNumber: "IA-TEST-1" }).where(eq(users.id, t.people.inspector.id));
 });
 afterAll(async () => t.close());
 
@@ -297,6 +300,82 @@ describe("refusals and flags", () => {
     expect(res.body.flags).toEqual(["resolution_too_coarse"]);
   });
 
+  it("the resolution ratio is the shop's setting, 10:1 by default (common rule of thumb, no source): at 20:1 a tenth micrometer on a 0.001 in tolerance is flagged", async () => {
+    const admin = await t.agent("admin");
+    expect((await admin.get("/api/settings")).body.resolutionRatio).toBe(10);
+    const { job, mic } = await pinSheet();
+    const m = await t.agent("mechanic");
+    // 0.0001 in is exactly a tenth of the 1.124–1.125 in tolerance: not coarser at 10:1.
+    expect((await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 1, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] })).body.flags).toEqual([]);
+    expect((await admin.patch("/api/settings", { resolutionRatio: 20 })).status).toBe(200);
+    try {
+      expect((await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 2, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] })).body.flags).toEqual(["resolution_too_coarse"]);
+      const bad = await admin.patch("/api/settings", { resolutionRatio: 0.5 });
+      expect(bad.status).toBe(400);
+      expect(bad.body.error.message).toContain("coarser than the tolerance");
+    } finally {
+      await admin.patch("/api/settings", { resolutionRatio: 10 });
+    }
+  });
+
+  it("a flag every reading of an item carries is shown once, on the item; a flag of one reading stays on its place", async () => {
+    const { job } = await pinSheet();
+    const coarse = await makeToolInCalibration(t.db, { resolution: "0.001", ownerUserId: t.people.mechanic.id });
+    const notIssued = await makeToolInCalibration(t.db, { resolution: "0.001", rangeMin: "1", rangeMax: "2" });
+    const m = await t.agent("mechanic");
+    await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 1, values: [1.125, 1.124], toolAssetTags: [coarse.assetTag] });
+    // One reading so far of two places: its flag stays on its place.
+    let sheet = (await m.get(`/api/jobs/${job.id}`)).body;
+    expect(sheet.items.find((i: { key: string }) => i.key === "pin").flags).toEqual([]);
+    expect(row(sheet, "pin", 1).flags).toEqual(["resolution_too_coarse"]);
+    await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 2, values: [1.125, 1.124], toolAssetTags: [notIssued.assetTag] });
+    sheet = (await m.get(`/api/jobs/${job.id}`)).body;
+    const pin = sheet.items.find((i: { key: string }) => i.key === "pin");
+    expect(pin.flags).toEqual(["resolution_too_coarse"]);
+    expect(row(sheet, "pin", 1).flags).toEqual([]);
+    expect(row(sheet, "pin", 2).flags).toEqual(["not_in_custody"]);
+    // The readings keep every flag they were recorded with.
+    expect(row(sheet, "pin", 2).reading.flags).toEqual(expect.arrayContaining(["resolution_too_coarse", "not_in_custody"]));
+    expect(sheet.summary.flagged).toBe(2);
+  });
+
+  it("a value that is not a number is refused in plain words, the same the form shows", async () => {
+    const { job, mic } = await pinSheet();
+    const m = await t.agent("mechanic");
+    for (const values of [["abc", 1.125], [null, 1.125]]) {
+      const res = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", values, toolAssetTags: [mic.assetTag] });
+      expect(res.status).toBe(400);
+      expect(res.body.error.message).toBe(`${ENTER_A_NUMBER} (values.0)`);
+      expect(res.body.error.message).toBe("Enter a number, e.g. 1.1245 (values.0)");
+    }
+    const warm = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", values: [1.125, 1.1247], toolAssetTags: [mic.assetTag], temperatureC: "warm" });
+    expect(warm.body.error.message).toContain("Enter the temperature in °C as a number");
+    // The form runs the same schema: "abc" typed in a direction reads as NaN there.
+    const parsed = CreateReadingSchema.safeParse({ itemKey: "pin", values: [Number("abc"), 1.125], toolAssetTags: [mic.assetTag] });
+    expect(parsed.success).toBe(false);
+    expect(parsed.error!.issues[0].message).toBe("Enter a number, e.g. 1.1245");
+  });
+
+  it("each tool's status is stored with the reading: a micrometer overdue later still shows in calibration, due 2027-04-30, on the reading it took", async () => {
+    const { job, mic } = await pinSheet();
+    const m = await t.agent("mechanic");
+    const r = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] });
+    const [stored] = await t.db.select().from(readingTools).where(eq(readingTools.readingId, r.body.id));
+    expect(stored).toMatchObject({ statusAtReading: "in_calibration", dueAtReading: "2027-04-30" });
+    t.clock.set("2027-05-10T15:00:00Z");
+    try {
+      // The micrometer is overdue now, and a new reading with it is refused …
+      const now = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 2, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] });
+      expect(now.body.error.code).toBe("tool_not_usable");
+      // … but the sheet shows it as it was when the reading was taken.
+      const sheet = (await m.get(`/api/jobs/${job.id}`)).body;
+      expect(row(sheet, "pin", 1).reading.tools[0]).toMatchObject({ assetTag: mic.assetTag, statusAtReading: "in_calibration", dueAtReading: "2027-04-30" });
+      expect(sheet.tools).toEqual([expect.objectContaining({ assetTag: mic.assetTag, statusAtReading: "in_calibration" })]);
+    } finally {
+      t.clock.set("2026-06-15T15:00:00Z");
+    }
+  });
+
   it("a place already measured takes a correction with a reason, not a second reading; the old reading stays on record", async () => {
     const { job, mic } = await pinSheet();
     const a = await t.agent("mechanic");
@@ -362,6 +441,31 @@ describe("sign-off", () => {
     t.clock.set("2026-06-15T15:00:00Z");
   });
 
+  it("the sign-off form fills in the inspector's own certificate number, and the server refuses a number that is not hers", async () => {
+    const { job, mic, tel } = await pinSheet();
+    const m = await t.agent("mechanic");
+    for (const index of [1, 2]) {
+      await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] });
+      await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin_bore", index, values: [1.1271, 1.1273], toolAssetTags: [tel.assetTag, mic.assetTag] });
+    }
+    const i = await t.agent("inspector");
+    expect((await i.get("/api/me/inspector-certificate")).body).toEqual({ name: "Test inspector", certificateNumber: "IA-TEST-1" });
+    const other = await i.post(`/api/jobs/${job.id}/sign`, { certificateNumber: "IA-OTHER-2" });
+    expect(other.status).toBe(409);
+    expect(other.body.error.code).toBe("certificate_not_yours");
+    expect(other.body.error.message).toContain("IA-OTHER-2");
+    expect((await i.get(`/api/jobs/${job.id}`)).body).toMatchObject({ status: "open", signoffs: [] });
+    // An admin with no number on record cannot sign at all.
+    const noNumber = await (await t.agent("admin")).post(`/api/jobs/${job.id}/sign`, { certificateNumber: "IA-TEST-1" });
+    expect(noNumber.status).toBe(409);
+    expect(noNumber.body.error.code).toBe("certificate_not_on_record");
+    expect((await (await t.agent("admin")).get("/api/me/inspector-certificate")).body.certificateNumber).toBeNull();
+    // Her own number as she might type it (spaces, lower case) signs, recorded as on her record.
+    const ok = await i.post(`/api/jobs/${job.id}/sign`, { certificateNumber: " ia-test-1 " });
+    expect(ok.status).toBe(200);
+    expect(ok.body.signoffs[0].certificateNumber).toBe("IA-TEST-1");
+  });
+
   it("the PDF check sheet names every tool used, with due dates, who measured, who signed, and the cautions", async () => {
     const { job, mic, tel } = await pinSheet();
     const m = await t.agent("mechanic");
@@ -369,7 +473,7 @@ describe("sign-off", () => {
     await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 2, values: [1.1249, 1.1248], toolAssetTags: [mic.assetTag] });
     await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin_bore", index: 1, values: [1.1271, 1.1273], toolAssetTags: [tel.assetTag, mic.assetTag] });
     await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin_bore", index: 2, values: [1.127, 1.1272], toolAssetTags: [tel.assetTag, mic.assetTag] });
-    await (await t.agent("inspector")).post(`/api/jobs/${job.id}/sign`, { certificateNumber: "IA-TEST-77" });
+    await (await t.agent("inspector")).post(`/api/jobs/${job.id}/sign`, { certificateNumber: "IA-TEST-1" });
     const a = await t.agent("auditor");
     const res = await a.raw.get(`/api/jobs/${job.id}/check-sheet.pdf`).buffer(true).parse((r, cb) => {
       const parts: Buffer[] = [];
@@ -385,7 +489,7 @@ describe("sign-off", () => {
     expect(text).toContain(tel.assetTag);
     expect(text).toContain("due 2027-04-30");
     expect(text).toContain("Test mechanic");
-    expect(text).toContain("IA-TEST-77");
+    expect(text).toContain("IA-TEST-1");
     expect(text).toContain("0.0026 loose");
     expect(text).toContain("DEMO DATA");
     expect(text).toContain("appropriately certificated persons");
@@ -455,7 +559,7 @@ describe("jobs list", () => {
     expect(visual.status).toBe(201);
     const reject = await m.post(`/api/jobs/${j2.id}/readings`, { itemKey: "visual", visualResult: "reject" });
     expect(reject.status).toBe(400);
-    await (await t.agent("inspector")).post(`/api/jobs/${j1.id}/sign`, { certificateNumber: "IA-9" });
+    await (await t.agent("inspector")).post(`/api/jobs/${j1.id}/sign`, { certificateNumber: "IA-TEST-1" });
     const bySerial = (await m.get("/api/jobs?engineSerial=LIST-&pageSize=1")).body;
     expect(bySerial.total).toBe(2);
     expect(bySerial.items).toHaveLength(1);
@@ -494,5 +598,6 @@ describe("who may do what", () => {
     { method: "post", path: () => `/api/jobs/${ctx.jobId}/readings`, label: "/api/jobs/:id/readings", body: () => ({ itemKey: "pin", index: 2, values: [1.125, 1.125], toolAssetTags: [ctx.micTag] }), allowed: ["mechanic", "quality", "admin"] },
     { method: "post", path: () => `/api/readings/${ctx.readingId}/supersede`, label: "/api/readings/:id/supersede", body: () => ({ reason: "matrix check", values: [1.125, 1.125], toolAssetTags: [ctx.micTag] }), allowed: ["mechanic", "quality", "admin"] },
     { method: "post", path: () => `/api/jobs/${ctx.jobId}/sign`, label: "/api/jobs/:id/sign", body: { certificateNumber: "IA-1" }, allowed: ["inspector", "admin"] },
+    { method: "get", path: "/api/me/inspector-certificate", allowed: ["inspector", "admin"] },
   ]);
 });

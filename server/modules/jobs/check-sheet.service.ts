@@ -4,9 +4,8 @@ import { jobsRepository, type JobSummaryRow } from "./jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
 import { toItemView } from "../limit-tables/limit-tables.service";
 import { readingsRepository } from "../readings/readings.repository";
-import { suspectReadingIds } from "../investigations/investigations.hooks";
-import { evidenceOfRows } from "../readings/reading-evidence";
-import { JUDGING_RULES_VERSION, judgeReading, judgeRow, slotKey, type Judged, type JudgingContext, type ReadingEvidence } from "../../../shared/inspection/judging";
+import { evidenceOfRow, evidenceOfRows } from "../readings/reading-evidence";
+import { JUDGING_RULES_VERSION, judgeReading, judgeRow, shownOnly, slotKey, type Judged, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../shared/inspection/judging";
 import type { CheckSheet, JobSummary, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
 import type { LeafView, ReadingView } from "../../../shared/readings/readings.schemas";
 import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
@@ -38,26 +37,23 @@ type ReadingRows = Awaited<ReturnType<typeof readingsRepository.ofJob>>;
 
 const stackView = (st: LeafStack | null): LeafView | null => (st ? stackAsLeaf(st) : null);
 
-/** Readings of a job as the sheet shows them: as recorded, and judged under the current rules. */
-async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, LimitItemView>, ctx: JudgingContext): Promise<{ views: ReadingView[]; evidence: Map<string, ReadingEvidence> }> {
-  const ids = rows.map((x) => x.r.id);
-  const toolRows = await readingsRepository.toolsOfReadings(db, ids);
-  const suspect = await suspectReadingIds(db, ids);
-  const evidence = await evidenceOfRows(db, rows.map((x) => x.r), ctx.tableUnit);
-  const judgedAt = new Map((await readingsRepository.judgementsOf(db, ids, JUDGING_RULES_VERSION)).map((j) => [j.readingId, j.judgedAt.toISOString()]));
-  const toolsBy = new Map<string, ReadingView["tools"]>();
-  for (const t of toolRows) {
-    const list = toolsBy.get(t.readingId) ?? [];
-    list.push({ assetTag: t.assetTag, description: t.description, kind: t.kind, unit: t.unit, statusAtReading: t.statusAtReading as ToolStatus, dueAtReading: t.dueAtReading });
-    toolsBy.set(t.readingId, list);
-  }
-  const views = rows.map(({ r, takerName, overriderName, supersededById }): ReadingView => {
+/**
+ * Readings of a job as the sheet shows them: as recorded, with the tools' status stored at the reading, and judged
+ * under the current rules — the stored judgement when there is one (every reading is judged when recorded, and the
+ * re-judging job judges older ones under new rules); only a reading not judged yet is judged here.
+ */
+async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, LimitItemView>, ctx: JudgingContext): Promise<{ views: ReadingView[]; judged: Map<string, Judged> }> {
+  const unjudged = rows.filter((x) => !x.judgedView).map((x) => x.r);
+  const evidence = unjudged.length ? await evidenceOfRows(db, unjudged, ctx.tableUnit) : new Map<string, ReadingEvidence>();
+  const judged = new Map<string, Judged>();
+  const views = rows.map(({ r, takerName, overriderName, supersededById, tools, suspect, judgedAt, judgedView }): ReadingView => {
     const item = items.get(r.itemKey);
-    const ev = evidence.get(r.id)!;
-    const judged: Judged | null = item && item.kind !== "clearance" && item.kind !== "taper" ? judgeReading(item, ev, ctx) : null;
-    const place = judged?.view ?? { kind: "pending" as const, itemKey: r.itemKey, index: r.index, verdict: "pending" as const, band: null, margin: null, text: `The item "${r.itemKey}" is not on this table` };
-    const flags = [...r.flags, ...(suspect.has(r.id) ? ["suspect"] : [])];
-    const f = ev.feeler ?? null;
+    const readable = !!item && item.kind !== "clearance" && item.kind !== "taper";
+    const j: Judged | null = !readable ? null : judgedView ? shownOnly(judgedView as PlaceView) : judgeReading(item, evidence.get(r.id) ?? evidenceOfRow(r), ctx);
+    if (j) judged.set(r.id, j);
+    const place = j?.view ?? { kind: "pending" as const, itemKey: r.itemKey, index: r.index, verdict: "pending" as const, band: null, margin: null, text: `The item "${r.itemKey}" is not on this table` };
+    const flags = [...r.flags, ...(suspect ? ["suspect"] : [])];
+    const f = r.feelerCheck ? { ...r.feelerCheck, goEntered: r.goEntered, noGoEntered: r.noGoEntered } : feelerOfPlace(place);
     return {
       id: r.id,
       itemKey: r.itemKey,
@@ -77,9 +73,9 @@ async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, Li
       verdict: place.verdict,
       verdictText: place.text,
       place,
-      judgedAt: judgedAt.get(r.id) ?? null,
+      judgedAt: judgedAt ? judgedAt.toISOString() : null,
       flags,
-      tools: toolsBy.get(r.id) ?? [],
+      tools: tools.map((t) => ({ ...t, statusAtReading: t.statusAtReading as ToolStatus })),
       takenBy: r.takenBy && takerName ? { id: r.takenBy, name: takerName } : null,
       takenAt: r.takenAt.toISOString(),
       temperatureC: n(r.temperatureC),
@@ -92,7 +88,23 @@ async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, Li
       overrideBy: r.overrideBy && overriderName ? { id: r.overrideBy, name: overriderName } : null,
     };
   });
-  return { views, evidence };
+  return { views, judged };
+}
+
+/** A feeler check recorded before the leaves were kept with the reading (rules 1): the leaves as its judged place names them. */
+function feelerOfPlace(place: PlaceView): ReadingView["feeler"] {
+  if (place.kind !== "feeler") return null;
+  return { mode: place.mode, go: place.go, noGo: place.noGo, goEntered: place.goEntered, noGoEntered: place.noGoEntered, gap: place.gap, why: place.why };
+}
+
+/**
+ * Flags shared by every reading of an item are the item's: shown once on it, not on each place. Needs at least two
+ * readings (or an item with one place), so a lone first reading keeps its flags where it is.
+ */
+export function sharedFlags(flagLists: string[][], places: number): string[] {
+  if (flagLists.length === 0 || (flagLists.length < 2 && places > 1)) return [];
+  const [first, ...rest] = flagLists;
+  return [...new Set(first)].filter((f) => rest.every((l) => l.includes(f)));
 }
 
 /** The judgement object of earlier answers: verdict, band, least margin and the deciding limits. */
@@ -115,12 +127,12 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
   // One after another: inside a transaction these share one connection.
   const table = (await limitTablesRepository.summary(db, summary.job.limitTableId))!;
   const itemRows = await limitTablesRepository.items(db, summary.job.limitTableId);
-  const readingRows = await readingsRepository.ofJob(db, jobId);
+  const readingRows = await readingsRepository.ofJob(db, jobId, JUDGING_RULES_VERSION);
   const signoffRows = await jobsRepository.signoffs(db, jobId);
   const items = itemRows.map(toItemView);
   const byKey = new Map(items.map((i) => [i.key, i]));
   const ctx: JudgingContext = { tableUnit: table.table.unit, tableExpansionPerK: n(table.table.expansionPerK) };
-  const { views, evidence } = await readingViews(db, readingRows, byKey, ctx);
+  const { views, judged } = await readingViews(db, readingRows, byKey, ctx);
 
   const current = new Map<string, ReadingView>();
   const history = new Map<string, ReadingView[]>();
@@ -129,10 +141,12 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
     if (v.supersededById) history.set(k, [...(history.get(k) ?? []), v]);
     else current.set(k, v);
   }
-  const evidenceAt = (itemKey: string, index: number) => {
+  // Fits and tapers are worked out from their sides' judged places; no reading is judged twice.
+  const judgedAt = (itemKey: string, index: number) => {
     const v = current.get(slotKey(itemKey, index));
-    return v ? evidence.get(v.id) : undefined;
+    return v ? judged.get(v.id) : undefined;
   };
+  const noEvidence = () => undefined;
 
   const missing: CheckSheet["summary"]["missing"] = [];
   let places = 0;
@@ -141,13 +155,15 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
   let judgedDifferently = 0;
   const sheetItems: SheetItem[] = items.map((item) => {
     const rows: SheetRow[] = [];
+    const readingFlags: string[][] = [];
     for (let index = 1; index <= item.repeat; index++) {
       const k = slotKey(item.key, index);
       if (item.kind === "clearance" || item.kind === "taper") {
-        const place = judgeRow(items, item, index, evidenceAt, ctx).view;
+        const place = judgeRow(items, item, index, noEvidence, ctx, judgedAt).view;
         const sideKeys = item.kind === "clearance" ? [item.boreKey, item.journalKey] : (item.stationKeys ?? []);
         const sides = sideKeys.map((key) => (key ? current.get(slotKey(key, index)) : undefined));
         const flags = [...new Set(sides.flatMap((s) => (s ? s.flags : [])))];
+        if (sides.some(Boolean)) readingFlags.push(flags);
         rows.push({
           index,
           reading: null,
@@ -168,6 +184,7 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
       if (!reading) missing.push({ itemKey: item.key, index, label: item.label });
       if (reading?.verdict === "outside_limits") outside++;
       if (reading && reading.flags.length) flagged++;
+      if (reading) readingFlags.push(reading.flags);
       const differs = !!reading && reading.recordedVerdict !== "pending" && reading.verdict !== "pending" && reading.recordedVerdict !== reading.verdict;
       if (differs) judgedDifferently++;
       const place = reading?.place ?? { kind: "pending" as const, itemKey: item.key, index, verdict: "pending" as const, band: null, margin: null, text: "Pending" };
@@ -184,7 +201,10 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
         flags: reading?.flags ?? [],
       });
     }
-    return { ...item, rows };
+    // A flag every reading of the item carries is shown once, on the item; the rows keep the rest.
+    const itemFlags = sharedFlags(readingFlags, item.repeat);
+    if (itemFlags.length) for (const row of rows) row.flags = row.flags.filter((f) => !itemFlags.includes(f));
+    return { ...item, flags: itemFlags, rows };
   });
 
   const signoffs = signoffRows.map(({ s, inspectorName }) => ({

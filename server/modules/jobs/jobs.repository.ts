@@ -68,6 +68,20 @@ export const jobsRepository = {
     return res.rows.length > 0;
   },
 
+  /**
+   * Locks a job while a reading is recorded on it and answers what the write needs — the job, its table's unit and
+   * expansion coefficient, and whether it is signed — in one indexed query, whatever the sheet's size.
+   */
+  async lockForReading(db: DbOrTx, id: string) {
+    const [row] = await db
+      .select({ job: jobs, tableUnit: limitTables.unit, tableExpansionPerK: limitTables.expansionPerK, signed: state.signed })
+      .from(jobs)
+      .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
+      .where(eq(jobs.id, id))
+      .for("update", { of: jobs });
+    return row;
+  },
+
   signoffs: (db: DbOrTx, jobId: string) =>
     db
       .select({ s: jobSignoffs, inspectorName: users.name })
@@ -79,3 +93,4 @@ export const jobsRepository = {
   insertSignoff: async (db: DbOrTx, values: typeof jobSignoffs.$inferInsert) => (await db.insert(jobSignoffs).values(values).returning())[0],
 };
 export type JobSummaryRow = NonNullable<Awaited<ReturnType<typeof jobsRepository.summary>>>;
+export type JobForReading = NonNullable<Awaited<ReturnType<typeof jobsRepository.lockForReading>>>;

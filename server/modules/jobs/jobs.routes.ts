@@ -3,7 +3,7 @@ import { z } from "zod";
 import { defineRoutes } from "../../http/route";
 import type { AppDeps } from "../../app-deps";
 import { pageOf } from "../../../shared/common/lists.schemas";
-import { CheckSheetSchema, CreateJobSchema, JobListQuerySchema, JobSummarySchema, SignJobSchema } from "../../../shared/jobs/jobs.schemas";
+import { CheckSheetSchema, CreateJobSchema, JobListQuerySchema, JobSummarySchema, SignerCertificateSchema, SignJobSchema } from "../../../shared/jobs/jobs.schemas";
 import { jobsRepository } from "./jobs.repository";
 import { jobsService } from "./jobs.service";
 import { buildCheckSheet, toJobSummary } from "./check-sheet.service";
@@ -33,7 +33,12 @@ export function jobsRoutes(deps: AppDeps) {
   );
 
   route(
-    { method: "post", path: "/api/jobs/:id/sign", summary: "Inspector sign-off with certificate number; locks the sheet", access: "jobs.sign", body: SignJobSchema, response: CheckSheetSchema, status: 200 },
+    { method: "get", path: "/api/me/inspector-certificate", summary: "My inspector certificate number, from my user record (the sign-off form fills it in)", access: "jobs.sign", response: SignerCertificateSchema },
+    ({ user }) => service.signerCertificate(user),
+  );
+
+  route(
+    { method: "post", path: "/api/jobs/:id/sign", summary: "Inspector sign-off with their own certificate number (409 certificate_not_yours otherwise); locks the sheet", access: "jobs.sign", body: SignJobSchema, response: CheckSheetSchema, status: 200 },
     ({ params, body, user }) => service.sign(Id.parse(params.id), body, user),
   );
 

@@ -6,7 +6,11 @@ import { recordAudit } from "../audit/audit.repository";
 import { jobsRepository } from "./jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
 import { buildCheckSheet, toJobSummary } from "./check-sheet.service";
-import type { JobSummary } from "../../../shared/jobs/jobs.schemas";
+import type { JobSummary, SignerCertificate } from "../../../shared/jobs/jobs.schemas";
+import { usersRepository } from "../users/users.repository";
+
+/** Certificate numbers compared as a person reads them: spaces and letter case do not matter. */
+const normalCertificate = (v: string) => v.replace(/\s+/g, "").toUpperCase();
 
 export function jobsService({ db, clock }: { db: Db; clock: Clock }) {
   return {
@@ -35,21 +39,34 @@ export function jobsService({ db, clock }: { db: Db; clock: Clock }) {
     },
 
     /**
-     * Inspector sign-off with their certificate number. Every place on the sheet must hold a reading (clearances follow
+     * Inspector sign-off with their certificate number, which must be the one on their own user record (refused
+     * `certificate_not_yours` otherwise, `certificate_not_on_record` when the record has none). Every place on the sheet must hold a reading (clearances follow
      * from their pairs); readings outside limits may be signed — the sheet records the finding. A signed sheet is locked.
      */
+    /** The certificate number a signer signs with: the one on their user record (null when none is recorded). */
+    async signerCertificate(user: SessionUser): Promise<SignerCertificate> {
+      const row = await usersRepository.findById(db, user.id);
+      return { name: user.name, certificateNumber: row?.certificateNumber ?? null };
+    },
+
     async sign(jobId: string, input: { certificateNumber: string; note?: string }, user: SessionUser) {
       await db.transaction(async (tx) => {
         if (!(await jobsRepository.lock(tx, jobId))) throw notFound("job", jobId);
         const sheet = await buildCheckSheet(tx, jobId);
         if (sheet.locked) throw refused("sheet_signed", "This check sheet is already signed.");
+        // The number signed with is the signer's own, as their record holds it.
+        const own = (await usersRepository.findById(tx, user.id))?.certificateNumber ?? null;
+        if (!own) throw refused("certificate_not_on_record", "Your user record holds no inspector certificate number; ask an admin to add it under People before signing.");
+        if (normalCertificate(own) !== normalCertificate(input.certificateNumber)) {
+          throw refused("certificate_not_yours", `Certificate ${input.certificateNumber} is not the one on your record; sign with your own certificate number.`);
+        }
         if (sheet.summary.missing.length) {
           const list = sheet.summary.missing.slice(0, 5).map((m) => `${m.label} no. ${m.index}`).join(", ");
           throw refused("sheet_incomplete", `Every item needs a reading before signing; missing: ${list}${sheet.summary.missing.length > 5 ? ", …" : ""}.`, { missing: sheet.summary.missing });
         }
         const at = clock.now();
-        const row = await jobsRepository.insertSignoff(tx, { jobId, inspectorId: user.id, certificateNumber: input.certificateNumber, note: input.note ?? null, signedAt: at });
-        await recordAudit(tx, { actorId: user.id, action: "job.sign", entityType: "job", entityId: jobId, after: { signoffId: row.id, certificateNumber: input.certificateNumber, outside: sheet.summary.outside, flagged: sheet.summary.flagged }, at });
+        const row = await jobsRepository.insertSignoff(tx, { jobId, inspectorId: user.id, certificateNumber: own, note: input.note ?? null, signedAt: at });
+        await recordAudit(tx, { actorId: user.id, action: "job.sign", entityType: "job", entityId: jobId, after: { signoffId: row.id, certificateNumber: own, outside: sheet.summary.outside, flagged: sheet.summary.flagged }, at });
       });
       return buildCheckSheet(db, jobId);
     },

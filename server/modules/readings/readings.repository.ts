@@ -8,6 +8,17 @@ import { calibrationPoints } from "../calibrations/calibrations.table";
 import { users } from "../users/users.table";
 import { jobs } from "../jobs/jobs.table";
 import { limitTables } from "../limit-tables/limit-tables.table";
+import { investigations, investigationItems } from "../investigations/investigations.table";
+
+/** A tool of a reading as the sheet shows it: the status and due date stored when the reading was recorded. */
+export interface ReadingToolOfSheet {
+  assetTag: string;
+  description: string;
+  kind: string;
+  unit: "in" | "mm";
+  statusAtReading: string;
+  dueAtReading: string | null;
+}
 
 export type ReadingRow = typeof readings.$inferSelect;
 export type ReadingJudgementInsert = typeof readingJudgements.$inferInsert;
@@ -15,8 +26,6 @@ export type ReadingInsert = typeof readings.$inferInsert;
 
 const taker = alias(users, "taker");
 const overrider = alias(users, "overrider");
-const goLeaf = alias(setElements, "go_leaf");
-const noGoLeaf = alias(setElements, "no_go_leaf");
 const successor = alias(readings, "successor");
 
 export const readingsRepository = {
@@ -73,37 +82,51 @@ export const readingsRepository = {
     return row;
   },
 
-  /** Every reading of a job (superseded ones too), with the people and leaves named. */
-  ofJob: (db: DbOrTx, jobId: string) =>
-    db
+  /**
+   * Every reading of a job (superseded ones too) in one query, as the check sheet shows them: the people named, the
+   * reading that superseded it, its tools with the status and due date stored at the reading (never derived again),
+   * whether an open investigation holds it, and its stored judgement under `rulesVersion` (null until judged).
+   */
+  ofJob(db: DbOrTx, jobId: string, rulesVersion: number) {
+    // The tools of the job's readings, one row per reading (a join, not a subquery run per reading).
+    const toolsOf = db.$with("tools_of").as(
+      db
+        .select({
+          readingId: readingTools.readingId,
+          tools: sql<ReadingToolOfSheet[]>`json_agg(json_build_object(
+            'assetTag', ${tools.assetTag}, 'description', ${tools.description}, 'kind', ${families.kind}, 'unit', ${tools.unit},
+            'statusAtReading', ${readingTools.statusAtReading}, 'dueAtReading', ${readingTools.dueAtReading}) order by ${readingTools.position})`.as("tools"),
+        })
+        .from(readingTools)
+        .innerJoin(readings, eq(readings.id, readingTools.readingId))
+        .innerJoin(tools, eq(tools.id, readingTools.toolId))
+        .innerJoin(families, eq(families.id, tools.familyId))
+        .where(eq(readings.jobId, jobId))
+        .groupBy(readingTools.readingId),
+    );
+    return db
+      .with(toolsOf)
       .select({
         r: readings,
         takerName: taker.name,
         overriderName: overrider.name,
-        goLeaf: { id: goLeaf.id, label: goLeaf.label, nominal: goLeaf.nominal },
-        noGoLeaf: { id: noGoLeaf.id, label: noGoLeaf.label, nominal: noGoLeaf.nominal },
         supersededById: successor.id,
+        tools: sql<ReadingToolOfSheet[]>`coalesce(${toolsOf.tools}, '[]'::json)`,
+        suspect: sql<boolean>`exists (
+          select 1 from ${investigationItems} ii join ${investigations} i on i.id = ii.investigation_id
+          where ii.reading_id = ${readings.id} and i.status = 'open')`,
+        judgedAt: readingJudgements.judgedAt,
+        judgedView: readingJudgements.detail,
       })
       .from(readings)
       .leftJoin(taker, eq(taker.id, readings.takenBy))
       .leftJoin(overrider, eq(overrider.id, readings.overrideBy))
-      .leftJoin(goLeaf, eq(goLeaf.id, readings.goLeafId))
-      .leftJoin(noGoLeaf, eq(noGoLeaf.id, readings.noGoLeafId))
       .leftJoin(successor, eq(successor.supersedesId, readings.id))
+      .leftJoin(toolsOf, eq(toolsOf.readingId, readings.id))
+      .leftJoin(readingJudgements, and(eq(readingJudgements.readingId, readings.id), eq(readingJudgements.rulesVersion, rulesVersion)))
       .where(eq(readings.jobId, jobId))
-      .orderBy(asc(readings.takenAt)),
-
-  /** The tools of many readings, with their status and due date at the reading. */
-  toolsOfReadings: (db: DbOrTx, readingIds: string[]) =>
-    readingIds.length
-      ? db
-          .select({ readingId: readingTools.readingId, position: readingTools.position, statusAtReading: readingTools.statusAtReading, dueAtReading: readingTools.dueAtReading, assetTag: tools.assetTag, description: tools.description, unit: tools.unit, kind: families.kind })
-          .from(readingTools)
-          .innerJoin(tools, eq(tools.id, readingTools.toolId))
-          .innerJoin(families, eq(families.id, tools.familyId))
-          .where(inArray(readingTools.readingId, readingIds))
-          .orderBy(asc(readingTools.position))
-      : Promise.resolve([]),
+      .orderBy(asc(readings.takenAt));
+  },
 
   /** Records a reading's judgement under a rules version; a second one for the same version is ignored (idempotent). */
   async insertJudgements(db: DbOrTx, rows: ReadingJudgementInsert[]) {

@@ -5,11 +5,12 @@ import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
 import { recordAudit } from "../audit/audit.repository";
 import { statusContext, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
-import { jobsRepository } from "../jobs/jobs.repository";
+import { jobsRepository, type JobForReading } from "../jobs/jobs.repository";
 import { limitTablesRepository, type LimitItemRow } from "../limit-tables/limit-tables.repository";
 import { toItemView } from "../limit-tables/limit-tables.service";
 import { readingsRepository, type ReadingInsert } from "./readings.repository";
 import { studyFlagsForReading } from "../studies/studies.service";
+import { getSettings } from "../settings/settings.service";
 import { can } from "../../../shared/auth/roles";
 import { num } from "../../../shared/common/decimal";
 import { convertLength, type LengthUnit } from "../../../shared/common/units";
@@ -72,12 +73,10 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
    * enough values, tools exist, are usable at this instant (or quality overrides with a reason), suit the item.
    * Flags what is allowed but worth a second look. Inside the caller's transaction, with the job locked.
    */
-  async function record(tx: Tx, place: Place, input: CreateReading, user: SessionUser, extra: { supersedesId?: string; supersedeReason?: string } = {}): Promise<ReadingResult> {
+  async function record(tx: Tx, job: JobForReading, place: Place, input: CreateReading, user: SessionUser, extra: { supersedesId?: string; supersedeReason?: string } = {}): Promise<ReadingResult> {
     const at = clock.now();
-    const summary = await jobsRepository.summary(tx, place.jobId);
-    if (!summary) throw notFound("job", place.jobId);
-    const tableUnit = (await limitTablesRepository.summary(tx, summary.job.limitTableId))!.table.unit;
-    const { row: itemRow, items } = await loadItem(tx, summary.job.limitTableId, place.itemKey);
+    const tableUnit = job.tableUnit;
+    const { row: itemRow, items } = await loadItem(tx, job.job.limitTableId, place.itemKey);
     if (!itemRow) badInput(["itemKey"], `This sheet has no item "${place.itemKey}".`);
     const item = toItemView(itemRow as LimitItemRow);
     if (place.index > item.repeat) badInput(["index"], `${item.label} has ${item.repeat} place${item.repeat === 1 ? "" : "s"}; there is no number ${place.index}.`);
@@ -188,8 +187,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       overrideBy: override?.by ?? null,
       finding: input.finding ?? null,
     };
-    const tableRow = (await limitTablesRepository.summary(tx, summary.job.limitTableId))!.table;
-    const jctx: JudgingContext = { tableUnit, tableExpansionPerK: tableRow.expansionPerK == null ? null : Number(tableRow.expansionPerK) };
+    const jctx: JudgingContext = { tableUnit, tableExpansionPerK: job.tableExpansionPerK == null ? null : Number(job.tableExpansionPerK) };
     let values: Omit<ReadingInsert, "flags" | "verdict">;
     let evidence: ReadingEvidence;
     const result: Partial<ReadingResult> = {};
@@ -205,7 +203,8 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       for (const h of hits.filter((x) => TRANSFER_KINDS.has(x.kind))) {
         if (!withinToolRange([convertLength(rawSize, tableUnit, h.tool.unit)], h.tool.rangeMin, h.tool.rangeMax)) flags.add("outside_tool_range");
       }
-      if (resolutionFlag(item, rt.tool.resolution, rt.tool.unit, tableUnit)) flags.add("resolution_too_coarse");
+      const { resolutionRatio } = await getSettings(tx, deps.config.SHOP_TIME_ZONE);
+      if (resolutionFlag(item, rt.tool.resolution, rt.tool.unit, tableUnit, resolutionRatio)) flags.add("resolution_too_coarse");
       // Stored exactly: the values as typed (in the read tool's unit), the size and out-of-round as read in the table's unit.
       values = { ...base, values: typed.map(String), unit: rt.tool.unit, size: rawSize.toString(), outOfRound: hi.minus(lo).toString() };
       evidence = { itemKey: item.key, index: place.index, unit: rt.tool.unit, values: typed, temperatureC: input.temperatureC, toolTemperatureC: input.toolTemperatureC, partMaterial: input.partMaterial };
@@ -235,7 +234,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       evidence = { itemKey: item.key, index: place.index, unit: tableUnit, values: [], visualResult: input.visualResult, finding: input.finding };
     }
 
-    if (item.kind === "journal" || item.kind === "bore") for (const f of await studyFlagsForReading(tx, { limitTableId: summary.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) })) flags.add(f);
+    if (item.kind === "journal" || item.kind === "bore") for (const f of await studyFlagsForReading(tx, { limitTableId: job.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) })) flags.add(f);
     const judged = judgeReading(item, evidence, jctx);
     const verdict = judged.view.verdict;
     const flagList = [...flags];
@@ -284,21 +283,22 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     return answer;
   }
 
+  /** Locks the job (a reading and a sign-off cannot cross) and reads what the write needs; never the whole sheet. */
   async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean) {
-    if (!(await jobsRepository.lock(tx, jobId))) throw notFound("job", jobId);
-    const s = await jobsRepository.summary(tx, jobId);
-    if (s!.signed && !allowSigned) {
+    const job = await jobsRepository.lockForReading(tx, jobId);
+    if (!job) throw notFound("job", jobId);
+    if (job.signed && !allowSigned) {
       throw refused("sheet_signed", "This check sheet is signed and locked; correct a reading with a reason instead.");
     }
-    return s!;
+    return job;
   }
 
   return {
     /** POST /api/jobs/:id/readings */
     create(jobId: string, input: CreateReading, user: SessionUser) {
       return db.transaction(async (tx) => {
-        await lockOpenJob(tx, jobId, false);
-        return record(tx, { jobId, itemKey: input.itemKey, index: input.index ?? 1 }, input, user);
+        const job = await lockOpenJob(tx, jobId, false);
+        return record(tx, job, { jobId, itemKey: input.itemKey, index: input.index ?? 1 }, input, user);
       });
     },
 
@@ -308,11 +308,11 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
         const old = await readingsRepository.findById(tx, readingId);
         if (!old) throw notFound("reading", readingId);
         // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
-        await lockOpenJob(tx, old.jobId, true);
+        const job = await lockOpenJob(tx, old.jobId, true);
         const newer = await readingsRepository.successorOf(tx, readingId);
         if (newer) throw refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId: newer.id });
         const { reason, ...rest } = input;
-        return record(tx, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, { supersedesId: old.id, supersedeReason: reason });
+        return record(tx, job, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, { supersedesId: old.id, supersedeReason: reason });
       });
     },
 

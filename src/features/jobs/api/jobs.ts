@@ -1,7 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
 import type { Page } from "../../../../shared/common/lists.schemas";
-import type { CheckSheet, CreateJobInput, JobListQuery, JobSummary, SignJobInput } from "../../../../shared/jobs/jobs.schemas";
+import type { CheckSheet, CreateJobInput, JobListQuery, JobSummary, SignerCertificate, SignJobInput } from "../../../../shared/jobs/jobs.schemas";
 import type { CreateReadingInput, FeelerLeaves, ReadingResult, SupersedeReadingInput } from "../../../../shared/readings/readings.schemas";
 
 export const jobKeys = {
@@ -62,3 +62,7 @@ export function useSignJob(jobId: string) {
   const qc = useQueryClient();
   return useMutation({ mutationFn: (input: SignJobInput) => api.post<CheckSheet>(`/api/jobs/${jobId}/sign`, input), onSuccess: () => qc.invalidateQueries({ queryKey: jobKeys.all }) });
 }
+
+/** The signed-in inspector's certificate number from her user record (the sign-off form fills it in). */
+export const useSignerCertificate = (enabled: boolean) =>
+  useQuery({ queryKey: ["me", "inspector-certificate"], queryFn: () => api.get<SignerCertificate>("/api/me/inspector-certificate"), enabled, staleTime: 60_000 });

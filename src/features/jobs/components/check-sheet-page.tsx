@@ -1,14 +1,14 @@
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { Link, useParams } from "react-router-dom";
-import { useCheckSheet, useSignJob } from "../api/jobs";
+import { useCheckSheet, useSignerCertificate, useSignJob } from "../api/jobs";
 import { PageHeader, Card, Facts, Loading, ErrorNote } from "../../../components/ui/layout";
 import { Button } from "../../../components/ui/button";
 import { TextField, TextAreaField } from "../../../components/ui/field";
 import { Cautions, DemoNotice } from "../../../components/ui/cautions";
 import { StatusBadge } from "../../../components/ui/status-badge";
 import { errorMessage } from "../../../lib/api-client";
-import { formatInstant, shortInstant } from "../../../lib/format";
-import { useCan, useCurrentUser } from "../../auth/api/auth";
+import { formatDate, formatDateTime } from "../../../lib/format";
+import { useCan } from "../../auth/api/auth";
 import { formatLength, type LengthUnit } from "../../../../shared/common/units";
 import { clearanceText, judgeRow, lengthText, slotKey, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
 import { evidenceOf } from "../../../../shared/inspection/check-sheet";
@@ -61,7 +61,7 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
       .map((x) => ({ label: x.label, place: judgeRow(s.items, x, index, evidenceAt, ctx).view }))
       .filter((x) => x.place.kind !== "pending");
   return (
-    <div className="flex flex-col gap-4">
+    <div className="flex min-w-0 max-w-full flex-col gap-4 break-words">
       <PageHeader
         title={`Check sheet — ${s.engineSerial}`}
         subtitle={`${s.engineModel}${s.workOrder ? ` · work order ${s.workOrder}` : ""}`}
@@ -86,7 +86,7 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
           items={[
             ["Limits", <Link key="t" className="underline" to={`/limit-tables/${s.limitTable.id}`}>{`${s.limitTable.name} (v${s.limitTable.version}) — ${s.limitTable.sourceDocument}, rev. ${s.limitTable.sourceRevision}`}</Link>],
             ["Unit", unit === "in" ? "inch" : "millimetre"],
-            ["Opened", `${formatInstant(s.openedAt)}${s.openedBy ? ` by ${s.openedBy.name}` : ""}`],
+            ["Opened", `${formatDateTime(s.openedAt)}${s.openedBy ? ` by ${s.openedBy.name}` : ""}`],
             ["Progress", `${s.summary.recorded} of ${s.summary.places} places measured · ${s.summary.outside} outside limits · ${s.summary.flagged} flagged`],
             ["Status", s.locked ? "Signed and locked" : s.changedSinceSignoff ? "Corrected since sign-off: needs signing again" : "Open"],
           ]}
@@ -110,6 +110,12 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
           {items.map((item) => (
             <Card key={item.key} title={`${item.label}${item.repeat > 1 ? ` (× ${item.repeat})` : ""}`}>
               <p className="mb-2 text-sm text-ink-soft">{limitsLine(item, s)}</p>
+              {item.flags.length > 0 && (
+                <div className="mb-2 flex flex-wrap items-center gap-2 text-sm">
+                  <span className="font-semibold">Every reading of this item:</span>
+                  <Flags flags={item.flags} label={`Flags of every reading of ${item.label}`} />
+                </div>
+              )}
               <ol className="flex flex-col gap-2">
                 {item.rows.map((row) => (
                   <li key={row.index} className="rounded-md border border-paper-line p-2">
@@ -159,10 +165,10 @@ export function limitsLine(item: SheetItem, s: CheckSheet): string {
   return `New ${f(item.min)} to ${f(item.max)}${item.kind === "clearance" && item.radial ? " radial" : ""}${serviceable}${how}`;
 }
 
-function Flags({ flags }: { flags: string[] }) {
+function Flags({ flags, label = "Flags" }: { flags: string[]; label?: string }) {
   if (!flags.length) return null;
   return (
-    <ul className="flex flex-wrap gap-1" aria-label="Flags">
+    <ul className="flex flex-wrap gap-1" aria-label={label}>
       {flags.map((f) => (
         <li key={f} className="rounded-full border border-caution/40 bg-caution-light px-2 py-0.5 text-xs font-semibold text-caution">
           ! {FLAG_LABELS[f as ReadingFlag] ?? f}
@@ -235,10 +241,10 @@ function PlaceRow({
       {r && row.judgedDifferently && (
         <p className="text-sm font-semibold text-stop">
           Recorded {r.recordedVerdict === "within_limits" ? "within" : "outside"} limits under earlier rules; judged {r.verdict === "within_limits" ? "within" : "outside"} under the current rules
-          {r.judgedAt ? ` (${shortInstant(r.judgedAt)})` : ""}. The reading is kept as recorded.
+          {r.judgedAt ? ` (${formatDateTime(r.judgedAt)})` : ""}. The reading is kept as recorded.
         </p>
       )}
-      {r && <Flags flags={r.flags} />}
+      {r && <Flags flags={row.flags} />}
       {r && !editing && fed.map((d) => (
         <p key={d.label} className="text-sm">
           {d.label}: {d.place.kind === "fit" ? `loosest ${clearanceText(d.place.loosest.value, unit)}, tightest ${clearanceText(d.place.tightest.value, unit)}${d.place.basis === "radial" ? " (radial)" : ""}` : d.place.kind === "taper" ? `taper ${lengthText(d.place.taper, unit)}` : ""} — {d.place.text}
@@ -249,7 +255,7 @@ function PlaceRow({
           <summary>{row.history.length} earlier reading{row.history.length > 1 ? "s" : ""} (superseded)</summary>
           {row.history.map((h) => (
             <p key={h.id}>
-              {h.values.map((v) => rawValue(v, h.unit)).join(" / ")} {h.unit} by {h.takenBy?.name} {shortInstant(h.takenAt)}
+              {h.values.map((v) => rawValue(v, h.unit)).join(" / ")} {h.unit} by {h.takenBy?.name} {formatDateTime(h.takenAt)}
             </p>
           ))}
           {r?.supersedeReason && <p>Correction reason: {r.supersedeReason}</p>}
@@ -285,9 +291,7 @@ function SavedReading({ reading: r, unit }: { reading: ReadingView; unit: Length
         </span>
       )}
       {r.finding && <span className="italic">{r.finding}</span>}
-      <span className="text-xs text-ink-faint">
-        {r.tools.map((t) => t.assetTag).join(" + ")} · {r.takenBy?.name} · {shortInstant(r.takenAt)}
-      </span>
+      <span className="text-xs text-ink-faint">{[r.tools.map((t) => t.assetTag).join(" + "), r.takenBy?.name, formatDateTime(r.takenAt)].filter(Boolean).join(" · ")}</span>
     </div>
   );
 }
@@ -298,6 +302,7 @@ function ToolsCard({ sheet }: { sheet: CheckSheet }) {
       {sheet.tools.length === 0 ? (
         <p className="text-ink-faint">No readings yet.</p>
       ) : (
+        <div className="overflow-x-auto">
         <table className="w-full text-left text-sm" aria-label="Tools used">
           <thead className="text-xs uppercase text-ink-soft">
             <tr>
@@ -314,12 +319,13 @@ function ToolsCard({ sheet }: { sheet: CheckSheet }) {
                   <span className="font-semibold">{t.assetTag}</span> <span className="text-ink-soft">{t.description}</span>
                 </td>
                 <td className="py-1.5 pr-3"><StatusBadge status={t.statusAtReading as ToolStatus} /></td>
-                <td className="py-1.5 pr-3 tabular-nums">{t.dueAtReading ?? "—"}</td>
+                <td className="py-1.5 pr-3 tabular-nums">{formatDate(t.dueAtReading)}</td>
                 <td className="py-1.5 pr-3">{t.readings}</td>
               </tr>
             ))}
           </tbody>
         </table>
+        </div>
       )}
     </Card>
   );
@@ -327,15 +333,20 @@ function ToolsCard({ sheet }: { sheet: CheckSheet }) {
 
 function SignCard({ sheet }: { sheet: CheckSheet }) {
   const canSign = useCan("jobs.sign");
-  const me = useCurrentUser() as { certificateNumber?: string | null };
+  const mine = useSignerCertificate(canSign && !sheet.locked);
   const sign = useSignJob(sheet.id);
-  const [cert, setCert] = useState(me.certificateNumber ?? "");
+  const [cert, setCert] = useState("");
+  // Filled in from the signer's own record; the server refuses any other number.
+  const onRecord = mine.data?.certificateNumber ?? null;
+  useEffect(() => {
+    if (onRecord) setCert((c) => c || onRecord);
+  }, [onRecord]);
   const [note, setNote] = useState("");
   return (
     <Card title="Inspector sign-off">
       {sheet.signoffs.map((so) => (
         <p key={so.id} className="text-sm">
-          ✓ Signed by <strong>{so.inspector.name}</strong>, certificate {so.certificateNumber}, {shortInstant(so.signedAt)}
+          ✓ Signed by <strong>{so.inspector.name}</strong>, certificate {so.certificateNumber}, {formatDateTime(so.signedAt)}
           {so.note && ` — ${so.note}`}
         </p>
       ))}
@@ -351,7 +362,12 @@ function SignCard({ sheet }: { sheet: CheckSheet }) {
           <p className="text-sm">
             Review every verdict and flag above. {sheet.summary.missing.length ? `Still missing: ${sheet.summary.missing.length} place(s).` : "Every place has a reading."} {sheet.summary.outside} outside limits, {sheet.summary.flagged} flagged.
           </p>
-          <TextField label="Inspector certificate number" value={cert} onChange={(e) => setCert(e.target.value)} />
+          <TextField
+            label="Inspector certificate number"
+            hint={mine.isSuccess ? (onRecord ? "From your user record; only your own number is accepted." : "Your user record holds no certificate number: ask an admin to add it under People.") : undefined}
+            value={cert}
+            onChange={(e) => setCert(e.target.value)}
+          />
           <TextAreaField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} />
           {sign.isError && <ErrorNote>{errorMessage(sign.error)}</ErrorNote>}
           <Button type="submit" disabled={sign.isPending}>Sign check sheet</Button>

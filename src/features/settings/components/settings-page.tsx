@@ -73,6 +73,7 @@ export function SettingsPage() {
             <TextField label="Reliability target R* (end-of-period in-tolerance)" type="number" step="0.01" error={e.reliabilityTarget?.message} {...form.register("reliabilityTarget", { valueAsNumber: true })} />
             <TextField label="Largest interval change in one step (factor)" type="number" step="0.1" error={e.maxIntervalStepFactor?.message} {...form.register("maxIntervalStepFactor", { valueAsNumber: true })} />
             <TextField label="Confidence of the interval test (change an interval only when R* lies outside this interval of the observed rate)" type="number" step="0.01" error={e.intervalConfidence?.message} {...form.register("intervalConfidence", { valueAsNumber: true })} />
+            <TextField label="Resolution ratio N (flag a reading whose tool reads coarser than 1/N of the tolerance; 10 is the common rule of thumb)" type="number" step="1" error={e.resolutionRatio?.message} {...form.register("resolutionRatio", { valueAsNumber: true })} />
             <TextField label="Guard-band multiplier r (rule “guarded, shop multiplier”: released within ± (MPE − r·U))" type="number" step="0.05" error={e.guardBandMultiplier?.message} {...form.register("guardBandMultiplier", { valueAsNumber: true })} />
             <label className="flex items-center gap-2 text-sm sm:col-span-2">
               <input type="checkbox" {...form.register("windowStartsAtPassingCheck")} />
