@@ -54,7 +54,7 @@ const MEASURES: Measure[] = [
     perTool: true,
     method: "POST",
     path: (c) => `/api/jobs/${c.writeSheetId}/readings`,
-    body: (c) => ({ ...c.nextPlace(), values: ["2.5001", "2.5002"], toolAssetTags: [c.writeTag()] }),
+    body: (c) => ({ ...c.nextPlace(), values: [2.5001, 2.5002], toolAssetTags: [c.writeTag()] }),
   },
 ];
 const INVESTIGATION_OPEN_GOAL = 180;
