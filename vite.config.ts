@@ -9,7 +9,8 @@ const sharedDir = fileURLToPath(new URL("./shared", import.meta.url));
 export default defineConfig({
   plugins: [react(), tailwindcss()],
   resolve: { alias: { "@shared": sharedDir } },
-  build: { outDir: "dist/client", sourcemap: true },
+  // No source maps in the build: the served client is the minified code only.
+  build: { outDir: "dist/client", sourcemap: false },
   server: {
     port: 5173,
     proxy: { "/api": "http://127.0.0.1:3000", "/t/": "http://127.0.0.1:3000" },

@@ -1,81 +1,358 @@
-// Benchmark, not a test: how the status derivation scales from a 2,000-tool
-// register to a 20,000-tool one. Prints the times and their RATIO (10× the
-// tools should cost about 10× for the whole register, and about 1× for a page).
-//   npm run bench            (uses the quick test cluster: bash scripts/test-quick.sh starts it)
-//   BENCH_PG_URL=postgres://app@127.0.0.1:55439 npx tsx scripts/bench.ts
+// Benchmark, not a test (docs/performance.md). Run through `npm run bench`, which starts a throwaway
+// PostgreSQL cluster and builds the app first:
+//   npm run bench                         20,000 tools (and 2,000 for growth), 3 rounds
+//   npm run bench -- --tools 2000         a smaller register to try it (growth from 200)
+//   npm run bench -- --no-growth --rounds 1 --duration 3
+// Fills a database per scale with set-based SQL (triggers fire as for any insert), starts the built app
+// and a floor server (bare Express 5 + node-postgres, one indexed lookup of a tool by asset tag) on it,
+// drives both over HTTP with autocannon, interleaved, and prints one line per measure:
+//   RATIO <measure> app_p95=<ms> floor_p95=<ms> ratio=<x> goal=<x>
+import { fork, spawn, type ChildProcess } from "node:child_process";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import autocannon from "autocannon";
+import bcrypt from "bcryptjs";
 import pg from "pg";
-import { sql } from "drizzle-orm";
+import { pino } from "pino";
+import { prepareDatabase } from "../server/db/roles";
 import { createDb } from "../server/db/client";
-import { runMigrations } from "../server/db/migrate";
-import { statusContext, statusesFor } from "../server/modules/tools/tool-status.service";
-import { statsService } from "../server/modules/stats/stats.service";
-import { fixedClock } from "../server/platform/clock";
+import { loadConfig } from "../server/config";
+import { systemClock } from "../server/platform/clock";
+import { sendDueReminders } from "../jobs/send-due-reminders.job";
+import { JUDGING_RULES_VERSION } from "../shared/inspection/judging";
 
-const BASE = process.env.BENCH_PG_URL ?? process.env.TEST_PG_URL ?? "postgres://app@127.0.0.1:55439";
-const ZONE = "America/Chicago";
-const NOW = new Date("2026-06-15T15:00:00Z");
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
+const BASE = process.env.BENCH_PG_URL ?? "postgres://app@127.0.0.1:55439";
+const PASSWORD = "bench-password-0123456789";
 
-async function admin(q: string) {
-  const c = new pg.Client({ connectionString: `${BASE}/postgres` });
+// ---- What is measured: one row per measure (paths here, nowhere else) ---------------------------------------
+type Ctx = { tag: () => string; sheetId: string; writeSheetId: string; investigationId: string | null; writeTag: () => string; nextPlace: () => { itemKey: string; index: number } };
+interface Measure {
+  name: string;
+  role: "mechanic" | "quality" | "inspector" | "admin";
+  connections: number;
+  goal: number;
+  perTool: boolean; // counted in the growth 2k → 20k
+  method?: "GET" | "POST";
+  path: (c: Ctx) => string | null; // null: cannot be measured on this database (printed as SKIP)
+  body?: (c: Ctx) => object;
+}
+const MEASURES: Measure[] = [
+  { name: "status_lookup", role: "mechanic", connections: 16, goal: 3, perTool: true, path: (c) => `/api/tools/${c.tag()}/status` },
+  { name: "register_list", role: "quality", connections: 1, goal: 15, perTool: true, path: () => `/api/tools?status=overdue&sort=dueAt&pageSize=50` },
+  { name: "overview", role: "quality", connections: 1, goal: 60, perTool: false, path: () => `/api/stats/overview` },
+  { name: "home_dashboard", role: "quality", connections: 1, goal: 60, perTool: false, path: () => `/api/stats/dashboard` },
+  { name: "home_mine", role: "mechanic", connections: 1, goal: 60, perTool: true, path: () => `/api/stats/mine` },
+  { name: "home_inspection", role: "inspector", connections: 1, goal: 60, perTool: false, path: () => `/api/stats/inspection` },
+  { name: "check_sheet", role: "inspector", connections: 1, goal: 60, perTool: true, path: (c) => `/api/jobs/${c.sheetId}` },
+  { name: "investigation_page", role: "quality", connections: 1, goal: 30, perTool: true, path: (c) => (c.investigationId ? `/api/investigations/${c.investigationId}/readings?page=1` : null) },
+  {
+    name: "record_reading",
+    role: "mechanic",
+    connections: 8,
+    goal: 8,
+    perTool: true,
+    method: "POST",
+    path: (c) => `/api/jobs/${c.writeSheetId}/readings`,
+    body: (c) => ({ ...c.nextPlace(), values: [2.5001, 2.5002], toolAssetTags: [c.writeTag()] }),
+  },
+];
+const INVESTIGATION_OPEN_GOAL = 180;
+const REMINDER_RUN_GOAL_MS = 3000;
+
+// ---- Arguments ----------------------------------------------------------------------------------------------
+const arg = (name: string, dflt: number) => {
+  const i = process.argv.indexOf(`--${name}`);
+  return i > 0 ? Number(process.argv[i + 1]) : dflt;
+};
+const TOOLS = arg("tools", 20_000);
+const ROUNDS = arg("rounds", 3);
+const DURATION = arg("duration", 5);
+const GROWTH = !process.argv.includes("--no-growth");
+
+// ---- The register at a scale: each table its own step, set-based -----------------------------------------
+/** The shape of the issue's large shop, for `tools` tools (20,000 → 100 families, 200,000 calibrations, ~2,000 open checkouts, ~400 holds, 5,000 sheets, 5,000,000 readings). */
+function shapeOf(tools: number) {
+  return { tools, families: Math.max(1, Math.round(tools / 200)), calibrationsPerTool: 10, sheets: Math.max(3, Math.round(tools / 4)), itemsPerSheet: 200, indexesPerItem: 5 };
+}
+type Shape = ReturnType<typeof shapeOf>;
+
+const FILL: { name: string; sql: (s: Shape) => string }[] = [
+  {
+    name: "people",
+    sql: () => `insert into users (email, name, role, password_hash) select r || '@bench.example', 'Bench ' || r, r, '${bcrypt.hashSync(PASSWORD, 4)}' from unnest(array['mechanic','crib','inspector','quality','auditor','admin']) r`,
+  },
+  { name: "families", sql: (s) => `insert into families (name, kind, unit, default_interval_days, mpe, resolution) select 'Bench family ' || lpad(g::text, 4, '0'), 'outside_micrometer', 'in', 365, 0.0001, 0.0001 from generate_series(1, ${s.families}) g` },
+  {
+    name: "tools",
+    sql: (s) => `
+      with f as (select id, row_number() over (order by name) - 1 as n from families)
+      insert into tools (asset_tag, family_id, description, serial_number, unit, range_min, range_max, resolution, interval_days)
+      select 'B-' || lpad(g::text, 6, '0'), f.id, 'Bench micrometer 2-3 in', 'SN-B' || g, 'in', 2, 3, 0.0001, 365
+      from generate_series(1, ${s.tools}) g join f on f.n = g % ${s.families}`,
+  },
+  {
+    // Ten yearly calibrations per tool; the latest between 0 and 420 days ago, so ~13 % are overdue and ~7 % due within 30 days.
+    name: "calibrations",
+    sql: (s) => `
+      insert into calibrations (tool_id, performed_at, decision_rule, result, as_found_in_tolerance, interval_days, next_due_at)
+      select t.id, c.at, 'simple', 'pass', true, 365, (c.at at time zone 'America/Chicago')::date + 365
+      from (select id, substr(asset_tag, 3)::int as n from tools) t
+      cross join generate_series(0, ${s.calibrationsPerTool - 1}) k
+      cross join lateral (select now() - ((k * 365 + (t.n * 37) % 420) || ' days')::interval - interval '3 hours' as at) c`,
+  },
+  {
+    name: "checkouts",
+    sql: () => `
+      insert into checkouts (tool_id, user_id, issued_at, due_back_at)
+      select t.id, (select id from users where role = 'mechanic'), now() - interval '2 hours', now() + interval '6 hours'
+      from tools t where substr(t.asset_tag, 3)::int % 10 = 0`,
+  },
+  { name: "holds", sql: () => `insert into holds (tool_id, placed_at, reason) select id, now() - interval '1 day', 'Bench: dropped, to be checked' from tools where substr(asset_tag, 3)::int % 50 = 25` },
+  {
+    name: "limit table",
+    sql: (s) => `
+      with t as (insert into limit_tables (name, engine_model, unit, source_document, source_revision) values ('Bench journals', 'BENCH-1', 'in', 'Bench overhaul data (invented)', 'A') returning id)
+      insert into limit_items (limit_table_id, seq, key, label, kind, min, max, directions)
+      select t.id, g, 'J' || lpad(g::text, 3, '0'), 'Journal ' || g, 'journal', 2.4990, 2.5010, 2 from t, generate_series(1, ${s.itemsPerSheet}) g`,
+  },
+  {
+    name: "check sheets",
+    sql: (s) => `
+      insert into jobs (limit_table_id, engine_serial, engine_model, work_order, opened_by, opened_at)
+      select (select id from limit_tables limit 1), 'BE-' || lpad(g::text, 6, '0'), 'BENCH-1', 'WO-B' || g, (select id from users where role = 'inspector'), now() - ((g % 700) || ' days')::interval - interval '1 day'
+      from generate_series(1, ${s.sheets}) g`,
+  },
+  {
+    // ~1,000 readings per sheet (items × indexes), each taken with one tool of the register.
+    name: "readings",
+    sql: (s) => `
+      insert into readings (job_id, item_key, index, values, unit, size, verdict, taken_by, taken_at)
+      select j.id, 'J' || lpad(i::text, 3, '0'), x, '["2.5001","2.5002"]'::jsonb, 'in', 2.50015, 'within_limits', (select id from users where role = 'inspector'), j.opened_at + (i * 10 + x) * interval '1 second'
+      from jobs j cross join generate_series(1, ${s.itemsPerSheet}) i cross join generate_series(1, ${s.indexesPerItem}) x
+      where j.engine_model = 'BENCH-1' and j.work_order not like 'WO-W%'`,
+  },
+  {
+    name: "reading tools",
+    sql: (s) => `
+      with t as (select id, row_number() over (order by asset_tag) - 1 as n from tools)
+      insert into reading_tools (reading_id, tool_id, position, status_at_reading, due_at_reading, taken_at)
+      select r.id, t.id, 1, 'in_calibration', (r.taken_at at time zone 'America/Chicago')::date + 200, r.taken_at
+      from readings r join t on t.n = abs(hashtext(r.job_id::text || r.item_key)) % ${s.tools}`,
+  },
+  {
+    name: "reading judgements",
+    sql: () => `
+      insert into reading_judgements (reading_id, rules_version, verdict, band, text, detail, judged_at)
+      select r.id, ${JUDGING_RULES_VERSION}, 'within_limits', 'new', 'Within limits', '{}'::jsonb, r.taken_at from readings r`,
+  },
+  {
+    // Empty sheets the record_reading measure writes to (one per round).
+    name: "sheets to write on",
+    sql: () => `
+      insert into jobs (limit_table_id, engine_serial, engine_model, work_order, opened_by, opened_at)
+      select (select id from limit_tables limit 1), 'BW-' || g, 'BENCH-1', 'WO-W' || g, (select id from users where role = 'inspector'), now() - interval '1 hour' from generate_series(1, ${ROUNDS + 1}) g`,
+  },
+];
+
+async function fill(url: string, shape: Shape) {
+  const c = new pg.Client({ connectionString: url });
   await c.connect();
-  await c.query(q);
-  await c.end();
-}
-
-/** A register of n tools: one family per 200 tools, two calibrations each (due dates spread over the year), a check-out on every tenth, a hold on every fiftieth. */
-async function fill(db: ReturnType<typeof createDb>["db"], n: number) {
-  await db.execute(sql`insert into families (name, kind, unit, default_interval_days, mpe) select 'Bench family ' || g, 'outside_micrometer', 'in', 365, 0.0001 from generate_series(1, ${Math.ceil(n / 200)}) g`);
-  await db.execute(sql`
-    insert into tools (asset_tag, family_id, description, serial_number, unit, range_min, range_max, resolution, interval_days)
-    select 'B-' || lpad(g::text, 6, '0'), (select id from families order by name offset (g % ${Math.ceil(n / 200)}) limit 1), 'Bench micrometer', 'SN' || g, 'in', 0, 1, 0.0001, 365
-    from generate_series(1, ${n}) g`);
-  await db.execute(sql`
-    insert into calibrations (tool_id, performed_at, decision_rule, result, as_found_in_tolerance, interval_days, next_due_at)
-    select t.id, ${NOW.toISOString()}::timestamptz - ((400 + k * 365 + (row_number() over ()) % 365) || ' days')::interval, 'simple', 'pass', true, 365,
-      (${NOW.toISOString()}::timestamptz - ((400 + k * 365 + (row_number() over ()) % 365) || ' days')::interval)::date + 365
-    from tools t cross join generate_series(0, 1) k`);
-  const users = await db.execute(sql`insert into users (email, name, role, password_hash) values ('bench@example.test', 'Bench', 'mechanic', 'x') returning id`);
-  const uid = (users.rows[0] as { id: string }).id;
-  await db.execute(sql`insert into checkouts (tool_id, user_id, issued_at, due_back_at) select id, ${uid}::uuid, ${NOW.toISOString()}::timestamptz - interval '2 hours', ${NOW.toISOString()}::timestamptz + interval '6 hours' from tools where (substr(asset_tag, 3)::int) % 10 = 0`);
-  await db.execute(sql`insert into holds (tool_id, placed_at, reason) select id, ${NOW.toISOString()}::timestamptz - interval '1 day', 'bench' from tools where (substr(asset_tag, 3)::int) % 50 = 0`);
-  await db.execute(sql`analyze`);
-}
-
-async function median(runs: number, f: () => Promise<unknown>) {
-  const times: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    const t0 = performance.now();
-    await f();
-    times.push(performance.now() - t0);
-  }
-  return times.sort((a, b) => a - b)[Math.floor(runs / 2)];
-}
-
-async function measure(n: number) {
-  const name = `bench_${process.pid}_${n}`;
-  await admin(`create database "${name}"`);
-  const url = `${BASE}/${name}`;
-  await runMigrations(url);
-  const { db, pool } = createDb(url, 10);
   try {
-    await fill(db, n);
-    const ctx = await statusContext(db, ZONE);
-    const ids = ((await db.execute(sql`select id from tools order by asset_tag`)).rows as { id: string }[]).map((r) => r.id);
-    const stats = statsService({ db, clock: fixedClock(NOW), timeZone: ZONE });
-    await stats.overview(); // warm up
-    const whole = await median(3, () => stats.overview());
-    const page = await median(5, () => statusesFor(db, ids.slice(ids.length / 2, ids.length / 2 + 50), NOW, ctx));
-    return { n, whole, page };
+    for (const step of FILL) {
+      const t0 = performance.now();
+      const r = await c.query(step.sql(shape));
+      console.log(`  fill ${step.name}: ${r.rowCount ?? 0} rows, ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+    }
+    const t0 = performance.now();
+    await c.query("vacuum analyze");
+    console.log(`  vacuum analyze: ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+    const size = (await c.query("select pg_size_pretty(pg_database_size(current_database())) as s")).rows[0].s;
+    console.log(`  database size: ${size}`);
   } finally {
-    await pool.end();
-    await admin(`drop database if exists "${name}" with (force)`);
+    await c.end();
   }
 }
 
-const small = await measure(2_000);
-const large = await measure(20_000);
-const ms = (x: number) => `${x.toFixed(0)} ms`;
-console.log(`statuses of the whole register (GET /api/stats/overview): ${small.n} tools ${ms(small.whole)}, ${large.n} tools ${ms(large.whole)}`);
-console.log(`statuses of one page of 50 (a list page):               ${small.n} tools ${ms(small.page)}, ${large.n} tools ${ms(large.page)}`);
-console.log(`RATIO whole register 20,000 / 2,000: ${(large.whole / small.whole).toFixed(2)} (linear would be 10)`);
-console.log(`RATIO one page       20,000 / 2,000: ${(large.page / small.page).toFixed(2)} (flat would be 1)`);
+// ---- Processes ---------------------------------------------------------------------------------------------
+function startChild(kind: "app" | "floor", env: Record<string, string>): Promise<{ child: ChildProcess; url: string }> {
+  const child =
+    kind === "app"
+      ? spawn(process.execPath, ["--input-type=module", "-e", `const m = await import(${JSON.stringify(path.join(ROOT, "dist/server/server/index.js"))}); const r = await m.startServer(); process.send({ url: r.url });`], {
+          env: { ...process.env, ...env },
+          stdio: ["ignore", "inherit", "inherit", "ipc"],
+        })
+      : fork(path.join(ROOT, "scripts/bench-floor.mjs"), [], { env: { ...process.env, ...env }, stdio: ["ignore", "inherit", "inherit", "ipc"] });
+  return new Promise((resolve, reject) => {
+    child.once("message", (m: { url?: string; port?: number }) => resolve({ child, url: m.url ?? `http://127.0.0.1:${m.port}` }));
+    child.once("exit", (code) => reject(new Error(`${kind} stopped (exit ${code}) before it was ready`)));
+  });
+}
+const freePort = () =>
+  new Promise<number>((resolve) => {
+    import("node:net").then(({ createServer }) => {
+      const s = createServer();
+      s.listen(0, "127.0.0.1", () => {
+        const p = (s.address() as { port: number }).port;
+        s.close(() => resolve(p));
+      });
+    });
+  });
+
+// ---- Signing in as the browser does (CSRF token, session cookie) -------------------------------------------
+async function signIn(base: string, role: string) {
+  const first = await fetch(`${base}/api/auth/csrf`);
+  const cookie0 = first.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+  const { token } = (await first.json()) as { token: string };
+  const res = await fetch(`${base}/api/auth/login`, {
+    method: "POST",
+    headers: { "content-type": "application/json", cookie: cookie0, "x-csrf-token": token },
+    body: JSON.stringify({ email: `${role}@bench.example`, password: PASSWORD }),
+  });
+  if (res.status !== 200) throw new Error(`sign-in as ${role}: ${res.status} ${await res.text()}`);
+  const cookie = res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ") || cookie0;
+  const { csrfToken } = (await res.json()) as { csrfToken: string };
+  return { cookie, "x-csrf-token": csrfToken };
+}
+
+// ---- Driving: autocannon, p95 from every response's time ---------------------------------------------------
+async function drive(base: string, m: { connections: number; method?: string; path: () => string; body?: () => object; headers: Record<string, string> }) {
+  const times: number[] = [];
+  const codes = new Map<number, number>();
+  const instance = autocannon(
+    {
+    url: base,
+    connections: m.connections,
+    duration: DURATION,
+    headers: { ...m.headers, "accept-encoding": "gzip", ...(m.body ? { "content-type": "application/json" } : {}) },
+    requests: [{ method: (m.method ?? "GET") as "GET", setupRequest: (req) => ({ ...req, path: m.path(), ...(m.body ? { body: JSON.stringify(m.body()) } : {}) }) }],
+    },
+    () => undefined,
+  );
+  instance.on("response", (_client: unknown, status: number, _bytes: number, ms: number) => {
+    times.push(ms);
+    codes.set(status, (codes.get(status) ?? 0) + 1);
+  });
+  const result = await new Promise<autocannon.Result>((resolve) => instance.on("done", resolve));
+  times.sort((a, b) => a - b);
+  const p95 = times.length ? times[Math.min(times.length - 1, Math.floor(times.length * 0.95))] : NaN;
+  return { p95, rps: result.requests.average, codes, n: times.length };
+}
+
+const median = (xs: number[]) => [...xs].map((x) => (Number.isNaN(x) ? Infinity : x)).sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+/** A run in which no answer came back within its duration prints as ">duration". */
+const f = (x: number) => (Number.isFinite(x) ? x.toFixed(x < 10 ? 2 : 1) : `>${DURATION * 1000}`);
+
+// ---- One scale -------------------------------------------------------------------------------------------
+async function measureScale(tools: number) {
+  const shape = shapeOf(tools);
+  const name = `bench_${tools}`;
+  console.log(`\n# ${tools} tools: filling ${name}`);
+  const urls = await prepareDatabase({ adminUrl: `${BASE}/postgres`, database: name });
+  const adminUrl = `${BASE}/${name}`;
+  const t0 = performance.now();
+  await fill(adminUrl, shape);
+  console.log(`  filled in ${((performance.now() - t0) / 1000).toFixed(0)} s`);
+
+  const appPort = await freePort();
+  const app = await startChild("app", {
+    NODE_ENV: "production",
+    DATABASE_URL: urls.runtimeUrl,
+    PORT: String(appPort),
+    HOST: "127.0.0.1",
+    SESSION_SECRET: "bench-session-secret-0123456789abcdef",
+    LOG_LEVEL: "warn",
+    CRON_ENABLED: "false",
+    COOKIE_SECURE: "false",
+  });
+  const floor = await startChild("floor", { DATABASE_URL: urls.runtimeUrl, PORT: "0" });
+  type Result = { app: number[]; floor: number[]; appRps: number[]; floorRps: number[]; codes: Map<number, number> };
+  const results = new Map<string, Result>();
+  const extra: { investigation_open: number[]; reminder_run: number[] } = { investigation_open: [], reminder_run: [] };
+  try {
+    const db = new pg.Client({ connectionString: adminUrl });
+    await db.connect();
+    const q = async <T>(sql: string) => (await db.query(sql)).rows as T[];
+    const usable = (await q<{ asset_tag: string }>(`select asset_tag from tools where substr(asset_tag, 3)::int % 50 <> 25 and (substr(asset_tag, 3)::int * 37) % 420 < 300 order by asset_tag`)).map((r) => r.asset_tag);
+    const allTags = (await q<{ asset_tag: string }>(`select asset_tag from tools`)).map((r) => r.asset_tag);
+    const sheetId = (await q<{ id: string }>(`select id from jobs where work_order = 'WO-B${Math.ceil(shape.sheets / 2)}'`))[0].id;
+    const writeSheets = (await q<{ id: string }>(`select id from jobs where work_order like 'WO-W%' order by work_order`)).map((r) => r.id);
+    const inv = await q<{ id: string }>(`select id from investigations order by opened_at desc limit 1`).catch(() => []);
+    await db.end();
+
+    const sessions = Object.fromEntries(await Promise.all((["mechanic", "quality", "inspector", "admin"] as const).map(async (r) => [r, await signIn(app.url, r)] as const)));
+    const pick = <T>(xs: T[]) => xs[Math.floor(Math.random() * xs.length)];
+    for (let round = 1; round <= ROUNDS; round++) {
+      let place = 0;
+      const ctx: Ctx = {
+        tag: () => pick(allTags),
+        writeTag: () => pick(usable),
+        sheetId,
+        writeSheetId: writeSheets[round - 1],
+        investigationId: inv[0]?.id ?? null,
+        nextPlace: () => {
+          const p = place++;
+          return { itemKey: `J${String((p % shape.itemsPerSheet) + 1).padStart(3, "0")}`, index: Math.floor(p / shape.itemsPerSheet) + 1 };
+        },
+      };
+      for (const m of MEASURES) {
+        if (m.path(ctx) === null) continue;
+        place = 0;
+        const r: Result = results.get(m.name) ?? { app: [], floor: [], appRps: [], floorRps: [], codes: new Map() };
+        // Interleaved: the app, then the floor at the same concurrency, in every round.
+        const a = await drive(app.url, { connections: m.connections, method: m.method, path: () => m.path(ctx)!, body: m.body && (() => m.body!(ctx)), headers: sessions[m.role] });
+        const fl = await drive(floor.url, { connections: m.connections, path: () => `/floor/tools/${ctx.tag()}`, headers: {} });
+        r.app.push(a.p95);
+        r.floor.push(fl.p95);
+        r.appRps.push(a.rps);
+        r.floorRps.push(fl.rps);
+        for (const [k, v] of a.codes) r.codes.set(k, (r.codes.get(k) ?? 0) + v);
+        results.set(m.name, r);
+      }
+      // The due-reminder run over the whole register, a batch: its own time.
+      const config = loadConfig({ ...process.env, DATABASE_URL: urls.runtimeUrl, SESSION_SECRET: "bench-session-secret-0123456789abcdef", CRON_ENABLED: "false", SHOP_TIME_ZONE: "America/Chicago" });
+      const { db: rdb, pool } = createDb(urls.runtimeUrl, 3);
+      let sent = 0;
+      const t = performance.now();
+      await sendDueReminders({ db: rdb, pool, clock: systemClock, mailer: { send: async () => void sent++ }, config, logger: pino({ level: "silent" }) }, "cli");
+      extra.reminder_run.push(performance.now() - t);
+      await pool.end();
+      if (round === 1) console.log(`  reminder run sent ${sent} digest(s)`);
+    }
+  } finally {
+    app.child.kill("SIGTERM");
+    floor.child.kill("SIGTERM");
+  }
+  return { tools, results, extra };
+}
+
+// ---- Main ----------------------------------------------------------------------------------------------------
+const large = await measureScale(TOOLS);
+const small = GROWTH ? await measureScale(Math.round(TOOLS / 10)) : null;
+
+console.log(`\n# ${TOOLS} tools, ${ROUNDS} round(s) of ${DURATION} s per measure; p95 = median over rounds`);
+for (const m of MEASURES) {
+  const r = large.results.get(m.name);
+  if (!r) {
+    console.log(`SKIP ${m.name} (nothing to measure on this database: ${m.name === "investigation_page" ? "no investigation" : "no path"})`);
+    continue;
+  }
+  const app = median(r.app);
+  const floor = median(r.floor);
+  const failed = [...r.codes].filter(([c]) => c >= 400).map(([c, n]) => `${c}×${n}`).join(",");
+  const rps = m.name === "status_lookup" ? ` app_rps=${f(median(r.appRps))} floor_rps=${f(median(r.floorRps))}` : "";
+  const ratio = Number.isFinite(app) ? f(app / floor) : `>${f((DURATION * 1000) / floor)}`;
+  console.log(`RATIO ${m.name} app_p95=${f(app)} floor_p95=${f(floor)} ratio=${ratio} goal=${m.goal}${rps}${failed ? ` errors=${failed}` : ""}`);
+}
+console.log(`SKIP investigation_open (goal ×${INVESTIGATION_OPEN_GOAL}): not measured by this script yet`);
+console.log(`RATIO reminder_run app_ms=${f(median(large.extra.reminder_run))} goal_ms=${REMINDER_RUN_GOAL_MS}`);
+if (small) {
+  console.log(`\n# growth ${small.tools} → ${large.tools} tools (flat = 1; goal ≤ 1.5 for per-tool and per-page measures)`);
+  for (const m of MEASURES) {
+    const a = small.results.get(m.name);
+    const b = large.results.get(m.name);
+    if (!a || !b) continue;
+    console.log(`GROWTH ${m.name} small_p95=${f(median(a.app))} large_p95=${f(median(b.app))} growth=${f(median(b.app) / median(a.app))}${m.perTool ? " goal=1.5" : ""}`);
+  }
+}
+process.exit(0);

@@ -2,8 +2,8 @@ import fs from "node:fs";
 import path from "node:path";
 import express, { type Request, type Response, type NextFunction } from "express";
 import session from "express-session";
-import connectPgSimple from "connect-pg-simple";
 import helmet from "helmet";
+import compression from "compression";
 import { pinoHttp } from "pino-http";
 import { pino } from "pino";
 import { OpenApiRegistry } from "./openapi/registry";
@@ -11,6 +11,7 @@ import { requestLog } from "./http/request-log";
 import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
 import { authRoutes, configurePassport } from "./auth/auth.routes";
 import { csrfProtection } from "./auth/csrf";
+import { SessionStore } from "./auth/session-store";
 import { moduleRouters } from "./modules";
 import type { AppDeps, AppServices } from "./app-deps";
 
@@ -38,12 +39,15 @@ export function createApp(services: AppServices) {
   // at info (method, path, status, ms, user), the headers only at debug.
   app.use(pinoHttp({ logger, quietReqLogger: true, quietResLogger: true, autoLogging: false }));
   app.use(requestLog());
+  // Answers and the client's files travel compressed when the browser accepts it; progress streams
+  // (application/x-ndjson) are left alone so each line arrives when it is written.
+  app.use(compression({ filter: (req, res) => !String(res.getHeader("Content-Type") ?? "").startsWith("application/x-ndjson") && compression.filter(req, res) }));
   app.use(express.json({ limit: "5mb" }));
 
-  const PgStore = connectPgSimple(session);
   // The session table comes with the migrations (the runtime role creates no tables). Pruning is a
-  // DELETE of expired rows; two instances pruning at once is harmless.
-  const store = new PgStore({
+  // DELETE of expired rows; two instances pruning at once is harmless. The expiry is moved forward at
+  // most every 15 minutes per session, not on every request (server/auth/session-store.ts).
+  const store = new SessionStore({
     pool: services.pool,
     tableName: "session",
     createTableIfMissing: false,

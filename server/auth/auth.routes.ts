@@ -6,6 +6,7 @@ import { defineRoutes, type SessionUser } from "../http/route";
 import type { AppDeps } from "../app-deps";
 import { usersService } from "../modules/users/users.service";
 import { usersRepository } from "../modules/users/users.repository";
+import { cachedSignedInUser } from "../modules/users/signed-in-cache";
 import { LoginSchema, UserSchema } from "../../shared/users/users.schemas";
 import { Errors } from "../http/errors";
 import { z } from "zod";
@@ -31,9 +32,8 @@ export function configurePassport(deps: AppDeps) {
   );
   passport.serializeUser((user, done) => done(null, (user as SessionUser).id));
   passport.deserializeUser((id: string, done) => {
-    // A deactivated person is signed out on their next request.
-    usersRepository
-      .findById(deps.db, id)
+    // A deactivated person is signed out on their next request (their sessions are deleted too).
+    cachedSignedInUser(id, (userId) => usersRepository.findById(deps.db, userId))
       .then((u) => done(null, u && u.active ? toSessionUser(u) : false))
       .catch(done);
   });

@@ -2,21 +2,9 @@
 import { calendarDate, daysBetween } from "../common/dates";
 import { dec } from "../common/decimal";
 
-export const TOOL_STATUSES = [
-  "in_calibration",
-  "due_soon",
-  "limited",
-  "overdue",
-  "out_of_tolerance",
-  "quarantined",
-  "at_calibration",
-  "never_calibrated",
-  "inactive",
-  "lost",
-  "retired",
-  "reference_only",
-] as const;
-export type ToolStatus = (typeof TOOL_STATUSES)[number];
+// The names and labels live in status-labels.ts, so a page that only shows a status does not load the derivation.
+import type { ToolStatus } from "./status-labels";
+export { TOOL_STATUSES, STATUS_LABELS, type ToolStatus } from "./status-labels";
 
 export interface ToolStatusInput {
   at: string; // ISO instant the question is asked for
@@ -46,22 +34,6 @@ export interface ToolStatusResult {
   daysToDue: number | null;
   usesRemaining: number | null;
 }
-
-/** Short human labels for each status. */
-export const STATUS_LABELS: Record<ToolStatus, string> = {
-  in_calibration: "In calibration",
-  due_soon: "Due soon",
-  limited: "Limited use",
-  overdue: "Overdue",
-  out_of_tolerance: "Out of tolerance",
-  quarantined: "Quarantined",
-  at_calibration: "At calibration lab",
-  never_calibrated: "Never calibrated",
-  inactive: "Inactive",
-  lost: "Lost",
-  retired: "Retired",
-  reference_only: "Reference only",
-};
 
 const USABLE: ReadonlySet<ToolStatus> = new Set(["in_calibration", "due_soon", "limited", "reference_only"]);
 

@@ -3,7 +3,7 @@ import { eq } from "drizzle-orm";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { makeCalibration, makeTool } from "../support/factories";
 import { makeDriftingTool, makeRecalibratedFamily } from "../support/factories-quality";
-import { calibrations, settings } from "../../server/db/schema";
+import { calibrations } from "../../server/db/schema";
 
 let t: TestApp;
 beforeAll(async () => {
@@ -81,19 +81,20 @@ describe("interval analysis of a family", () => {
   it("the reliability target and the test's confidence come from the shop's settings", async () => {
     const { family } = await makeRecalibratedFamily(t.db, { inTolerance: 15, outOfTolerance: 5 });
     const quality = await t.agent("quality");
-    await t.db.insert(settings).values({ key: "shop", value: { reliabilityTarget: 0.9 } }).onConflictDoUpdate({ target: settings.key, set: { value: { reliabilityTarget: 0.9 } } });
+    const admin = await t.agent("admin");
+    expect((await admin.patch("/api/settings", { reliabilityTarget: 0.9 })).status).toBe(200);
     try {
       const kept = await quality.get(`/api/families/${family.id}/interval-analysis`);
       // [0.509, 0.913] holds 0.90: keep.
       expect(kept.body).toMatchObject({ reliabilityTarget: 0.9, decision: "keep", recommendedIntervalDays: 365 });
-      await t.db.update(settings).set({ value: { reliabilityTarget: 0.9, intervalConfidence: 0.8 } }).where(eq(settings.key, "shop"));
+      expect((await admin.patch("/api/settings", { intervalConfidence: 0.8 })).status).toBe(200);
       const changed = await quality.get(`/api/families/${family.id}/interval-analysis`);
       // At 80 % the interval of 15 of 20 ends below 0.90: 365 · ln 0.9 / ln 0.75 = 133.68 → 133.7 d (arithmetic on the model)
       expect(changed.body.confidence).toBe(0.8);
       expect(changed.body.confidenceInterval.upper).toBeLessThan(0.9);
       expect(changed.body).toMatchObject({ decision: "shorten", recommendedIntervalDays: 133.7 });
     } finally {
-      await t.db.delete(settings).where(eq(settings.key, "shop"));
+      await admin.patch("/api/settings", { reliabilityTarget: 0.95, intervalConfidence: 0.95 });
     }
   });
 

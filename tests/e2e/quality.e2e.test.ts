@@ -53,8 +53,8 @@ describe("the quality overview in the browser", () => {
     await expect(main.getByRole("link", { name: /Not returned/ }).count()).resolves.toBe(1);
     await expect(main.getByText("In tolerance at recalibration, by family").count()).resolves.toBe(1);
     await expect(main.getByRole("complementary", { name: "Cautions" }).count()).resolves.toBe(1);
-    // Recharts draws the bars once it has measured its box.
-    await page.locator(".recharts-bar-rectangle, .recharts-bar").first().waitFor();
+    // Each week's bar opens the tools falling due that week.
+    await expect(main.getByRole("link", { name: /^Week of \d\d-\d\d: \d+ tools falling due\. Open the list\.$/ }).count()).resolves.toBe(12);
     await b.screenshot(page, "quality-dashboard-quality");
     await overdue.click();
     await page.waitForURL(/\/tools\?status=overdue/);

@@ -9,10 +9,37 @@ import cron from "node-cron";
 
 const KEY = "shop";
 
+/**
+ * How long a read of the settings on the pool is reused. Every request that judges a tool needs them;
+ * a change made through this process is seen at once (the cache is dropped), one made by another
+ * instance on the same database within this interval.
+ */
+export const SETTINGS_CACHE_MS = 5_000;
+let cache = new WeakMap<object, { at: number; defaultTimeZone: string; value: Promise<Settings> }>();
+
 /** The shop's settings: stored values over defaults (time zone default from configuration). */
 export async function getSettings(db: DbOrTx, defaultTimeZone: string): Promise<Settings> {
+  // Inside a transaction always the row itself: a change in the same transaction must be seen.
+  if ("rollback" in db) return readSettings(db, defaultTimeZone);
+  const now = Date.now();
+  const hit = cache.get(db);
+  if (hit && hit.defaultTimeZone === defaultTimeZone && now - hit.at < SETTINGS_CACHE_MS) return structuredClone(await hit.value);
+  const value = readSettings(db, defaultTimeZone);
+  const entry = { at: now, defaultTimeZone, value };
+  cache.set(db, entry);
+  // A failed read is not kept.
+  value.catch(() => cache.get(db) === entry && cache.delete(db));
+  return structuredClone(await value);
+}
+
+async function readSettings(db: DbOrTx, defaultTimeZone: string): Promise<Settings> {
   const row = await db.query.settings.findFirst({ where: eq(settings.key, KEY) });
   return SettingsSchema.parse({ ...DEFAULT_SETTINGS, shopTimeZone: defaultTimeZone, ...((row?.value as object) ?? {}) });
+}
+
+/** Drops the reused settings (after a change). */
+export function forgetCachedSettings() {
+  cache = new WeakMap();
 }
 
 export async function updateSettings(db: Tx, defaultTimeZone: string, patch: UpdateSettings, actorId: string): Promise<Settings> {
@@ -31,5 +58,6 @@ export async function updateSettings(db: Tx, defaultTimeZone: string, patch: Upd
     .values({ key: KEY, value: next, updatedBy: actorId })
     .onConflictDoUpdate({ target: settings.key, set: { value: next, updatedAt: new Date(), updatedBy: actorId } });
   await recordAudit(db, { actorId, action: "settings.update", entityType: "settings", entityId: KEY, before, after: next });
+  forgetCachedSettings();
   return next;
 }

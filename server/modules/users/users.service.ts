@@ -2,6 +2,7 @@ import bcrypt from "bcryptjs";
 import type { Db } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import { usersRepository, type UserRow } from "./users.repository";
+import { forgetSignedInUser } from "./signed-in-cache";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound } from "../../http/errors";
 import { assertStrongPassword } from "../../auth/password-policy";
@@ -72,7 +73,7 @@ export function usersService({ db, clock }: { db: Db; clock: Clock }) {
         if (patch.active === false) await usersRepository.deleteSessions(tx, id);
         await recordAudit(tx, { actorId, action: "user.update", entityType: "user", entityId: id, before: toUserDetail(before), after: toUserDetail(row) });
         return toUserDetail(row);
-      });
+      }).finally(() => forgetSignedInUser(id));
     },
 
     async resetPassword(id: string, password: string, actorId: string) {

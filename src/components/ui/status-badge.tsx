@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { STATUS_LABELS, type ToolStatus } from "../../../shared/tools/tool-status";
+import { STATUS_LABELS, type ToolStatus } from "../../../shared/tools/status-labels";
 import { cx } from "./cx";
 
 const TONES = {

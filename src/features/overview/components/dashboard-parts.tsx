@@ -1,10 +1,9 @@
 import type { ReactNode } from "react";
-import { Link, useNavigate } from "react-router-dom";
-import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { Link } from "react-router-dom";
 import { Card } from "../../../components/ui/layout";
 import { cx } from "../../../components/ui/cx";
 import { StatusBadge } from "../../../components/ui/status-badge";
-import { STATUS_LABELS, TOOL_STATUSES, type ToolStatus } from "../../../../shared/tools/tool-status";
+import { STATUS_LABELS, TOOL_STATUSES, type ToolStatus } from "../../../../shared/tools/status-labels";
 import type { FamilyRate, StatsDashboard } from "../../../../shared/stats/stats.schemas";
 import { links } from "./links";
 
@@ -56,40 +55,7 @@ export function StatusCounts({ byStatus }: { byStatus: StatsDashboard["byStatus"
   );
 }
 
-const shortDate = (d: string) => d.slice(5, 10);
-
-/** Tools falling due per week for the next twelve weeks; a bar opens those tools. */
-export function DueByWeekChart({ weeks }: { weeks: StatsDashboard["dueByWeek"] }) {
-  const navigate = useNavigate();
-  const data = weeks.map((w) => ({ ...w, label: shortDate(w.weekStart) }));
-  return (
-    <Card title="Falling due, next 12 weeks">
-      <div className="h-56" role="img" aria-label={`Tools falling due per week: ${data.map((d) => `week of ${d.label}: ${d.count}`).join("; ")}`}>
-        <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={data} margin={{ top: 8, right: 8, bottom: 0, left: -16 }}>
-            <CartesianGrid strokeDasharray="3 3" stroke="#d6d0c4" vertical={false} />
-            <XAxis dataKey="label" tick={{ fontSize: 11, fill: "#3b4d5e" }} interval="preserveStartEnd" />
-            <YAxis allowDecimals={false} tick={{ fontSize: 11, fill: "#3b4d5e" }} />
-            <Tooltip formatter={(v) => [`${v} tools`, "Falling due"]} labelFormatter={(l) => `Week of ${l}`} cursor={{ fill: "#f3e3c0" }} />
-            <Bar dataKey="count" fill="#b8862f" radius={[3, 3, 0, 0]} cursor="pointer" onClick={(d) => navigate(links.dueWeek((d as unknown as { weekStart: string }).weekStart, (d as unknown as { weekEnd: string }).weekEnd))} />
-          </BarChart>
-        </ResponsiveContainer>
-      </div>
-      <details className="mt-2 text-sm">
-        <summary className="cursor-pointer text-ink-soft">Weeks as a list</summary>
-        <ul className="mt-1 grid grid-cols-2 gap-x-4 sm:grid-cols-3">
-          {data.map((w) => (
-            <li key={w.weekStart}>
-              <Link className="underline" to={links.dueWeek(w.weekStart, w.weekEnd)}>
-                {w.label}–{shortDate(w.weekEnd)}: {w.count}
-              </Link>
-            </li>
-          ))}
-        </ul>
-      </details>
-    </Card>
-  );
-}
+export { DueByWeekChart } from "./due-by-week-chart";
 
 const pct = (r: number | null) => (r == null ? "—" : `${(r * 100).toFixed(1)} %`);
 

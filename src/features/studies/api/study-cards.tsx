@@ -3,7 +3,8 @@ import { Card, EmptyState, ErrorNote, Loading } from "../../../components/ui/lay
 import { MarkBadge } from "../../../components/ui/status-badge";
 import { errorMessage } from "../../../lib/api-client";
 import { useCan } from "../../auth/api/auth";
-import { VERDICT_LABELS, type LatestStudy } from "../../../../shared/studies/studies.schemas";
+import type { LatestStudy } from "../../../../shared/studies/studies.schemas";
+import { VERDICT_LABELS } from "../../../../shared/studies/study-labels";
 import type { Verdict } from "../../../../shared/studies/study-labels";
 import { useLatestStudies, useStudyGaps } from "./studies";
 

@@ -1,0 +1,21 @@
+#!/usr/bin/env bash
+# npm run bench [-- --tools 20000 --rounds 3 --duration 5 --no-growth]: a throwaway PostgreSQL cluster,
+# the built app, a floor server, and the measures of docs/performance.md. A benchmark, not a test.
+source "$(dirname "$0")/lib.sh"
+cd "$ROOT"
+ensure_node_modules
+ensure_postgres_installed
+if [ "${BENCH_SKIP_BUILD:-}" = 1 ] && [ -f dist/server/server/index.js ]; then
+  say "using the existing build in dist/"
+else
+  say "building the app…"
+  npm run --silent build >/dev/null
+fi
+TMP="$(mktemp -d /tmp/tenthwise-bench.XXXXXX)"
+chmod 755 "$TMP"
+PORT="$(node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})')"
+cleanup() { stop_cluster "$TMP"; rm -rf "$TMP"; }
+trap cleanup EXIT
+start_cluster "$TMP" "$PORT" trust "" fast
+export BENCH_PG_URL="postgres://app@127.0.0.1:${PORT}"
+npx tsx scripts/bench.ts "$@"
