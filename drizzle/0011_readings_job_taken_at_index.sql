@@ -1,0 +1,1 @@
+CREATE INDEX "readings_job_taken_at_idx" ON "readings" USING btree ("job_id","taken_at");
