@@ -214,3 +214,28 @@ describe("visual items", () => {
     expect(judgeReading(v, ev("v", [], { visualResult: "reject" }), IN).view).toMatchObject({ verdict: "outside_limits", text: "Reject" });
   });
 });
+
+describe("a sheet judges each reading once", () => {
+  const pin = item({ key: "pin", kind: "journal", min: 1.124, max: 1.125 });
+  const bore = item({ key: "bore", kind: "bore", min: 1.1265, max: 1.128 });
+  const fit = item({ key: "fit", kind: "clearance", boreKey: "bore", journalKey: "pin", min: 0.001, max: 0.0045 });
+  const items = [pin, bore, fit];
+  const evidence: Record<string, ReadingEvidence> = { pin: ev("pin", [1.125, 1.1247]), bore: ev("bore", [1.1271, 1.1273]) };
+
+  it("a fit worked out from its sides' stored judgements is the fit judged from the readings: loosest 1.1273 − 1.1247 = 0.0026 (demo limits)", () => {
+    const fromReadings = judgeRow(items, fit, 1, (k) => evidence[k], IN);
+    // Stored views round-trip through JSON, as the database keeps them.
+    const stored = new Map(["pin", "bore"].map((k) => [k, JSON.parse(JSON.stringify(judgeReading(items.find((i) => i.key === k)!, evidence[k], IN).view))]));
+    const fromStored = judgeRow(items, fit, 1, () => undefined, IN, (k) => (stored.has(k) ? { view: stored.get(k), checks: [] } : undefined));
+    expect(fromStored.view).toEqual(fromReadings.view);
+    expect(fromStored.view).toMatchObject({ kind: "fit", loosest: { value: 0.0026 }, verdict: "within_limits" });
+    // Shown only: a place judged from stored views carries nothing to re-judge with.
+    expect(fromStored.checks.every((c) => c.sensitivity.length === 0)).toBe(true);
+  });
+
+  it("a saved judgement answers for its own place; without one, the reading is judged", () => {
+    const stored = judgeReading(pin, evidence.pin, IN).view;
+    expect(judgeRow(items, pin, 1, () => undefined, IN, () => ({ view: stored, checks: [] })).view).toBe(stored);
+    expect(judgeRow(items, pin, 1, (k) => evidence[k], IN, () => undefined).view).toMatchObject({ kind: "size", size: 1.1247 });
+  });
+});

@@ -90,11 +90,28 @@ describe("filling a check sheet on a tablet", () => {
     await tools.getByText(tags.mic).waitFor();
     await expect(tools.innerText()).resolves.toContain(tags.tel);
     await expect(page.getByRole("button", { name: /Measure/ }).count()).resolves.toBe(0);
-    await page.getByLabel("Inspector certificate number").fill("IA-DEMO-40817");
+    // Filled in from her user record (demo inspector, IA-DEMO-40817); a number that is not hers is refused.
+    const cert = page.getByLabel("Inspector certificate number");
+    await expect.poll(() => cert.inputValue()).toBe("IA-DEMO-40817");
+    await cert.fill("IA-DEMO-51230");
+    await page.getByRole("button", { name: "Sign check sheet" }).click();
+    await page.getByText(/IA-DEMO-51230 is not the one on your record/).waitFor();
+    await cert.fill("IA-DEMO-40817");
     await page.getByRole("button", { name: "Sign check sheet" }).click();
     await page.getByText(/Signed by .*certificate IA-DEMO-40817/).waitFor();
     await expect(page.getByText("Signed and locked").count()).resolves.toBe(1);
     await app.screenshot(page, "inspection-signed");
+    expect(errors).toEqual([]);
+    await page.context().close();
+  });
+
+  it("on a phone (390 px) the check sheet fits the screen: nothing scrolls sideways", async () => {
+    const { page, errors } = await app.newPage({ width: 390, height: 844 });
+    await app.signIn(page, "mechanic");
+    await page.goto(`/jobs/${jobId}`);
+    await page.getByRole("table", { name: "Tools used" }).waitFor();
+    await expect(page.evaluate(() => document.documentElement.scrollWidth)).resolves.toBeLessThanOrEqual(390);
+    await app.screenshot(page, "inspection-sheet-phone");
     expect(errors).toEqual([]);
     await page.context().close();
   });

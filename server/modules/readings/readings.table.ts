@@ -50,6 +50,8 @@ export const readings = pgTable(
   (t) => [
     index("readings_job_item_idx").on(t.jobId, t.itemKey, t.index),
     index("readings_taken_at_idx").on(t.takenAt),
+    // A sheet's last reading (is it signed? when was it last worked on?) is one index probe, whatever the sheet's size.
+    index("readings_job_taken_idx").on(t.jobId, t.takenAt),
     index("readings_taken_by_idx").on(t.takenBy),
     index("readings_supersedes_idx").on(t.supersedesId),
     index("readings_go_leaf_idx").on(t.goLeafId),

@@ -7,7 +7,7 @@ import { ApiError, errorMessage } from "../../../lib/api-client";
 import { EXPANSION_COEFFICIENTS, type MaterialKey } from "../../../../shared/common/units";
 import { clearanceText, judgeReading, lengthText, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
 import { stackFrom, type FeelerEvidence, type LeafStack } from "../../../../shared/inspection/feeler";
-import { CreateReadingSchema, type CreateReadingInput, type LeafView, type ReadingView } from "../../../../shared/readings/readings.schemas";
+import { CreateReadingSchema, ENTER_A_NUMBER, type CreateReadingInput, type LeafView, type ReadingView } from "../../../../shared/readings/readings.schemas";
 import type { CheckSheet, SheetItem } from "../../../../shared/jobs/jobs.schemas";
 import { VerdictBadge } from "./verdict-badge";
 import { PlaceDetail, stackText } from "./place-view";
@@ -121,6 +121,7 @@ export function ReadingEntry({ jobId, item, index, sheet, ctx, correcting, fed, 
                 inputMode="decimal"
                 autoComplete="off"
                 value={v}
+                error={v.trim() !== "" && !isNumber(v) ? ENTER_A_NUMBER : undefined}
                 onChange={(e) => setValues((vs) => vs.map((x, i) => (i === d ? e.target.value : x)))}
               />
             ))}

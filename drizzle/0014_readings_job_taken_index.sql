@@ -1,0 +1,1 @@
+CREATE INDEX IF NOT EXISTS "readings_job_taken_idx" ON "readings" USING btree ("job_id","taken_at");
