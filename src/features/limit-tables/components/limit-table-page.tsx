@@ -1,6 +1,7 @@
 import { Link, useParams } from "react-router-dom";
 import { useLimitTable } from "../api/limit-tables";
 import { PageHeader, Card, Facts, Loading, ErrorNote } from "../../../components/ui/layout";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 import { ButtonLink } from "../../../components/ui/button";
 import { Cautions, DemoNotice } from "../../../components/ui/cautions";
 import { errorMessage } from "../../../lib/api-client";
@@ -69,7 +70,7 @@ export function LimitTablePage() {
       </Card>
       {bySection(t.items).map(([section, items]) => (
         <Card key={section} title={section}>
-          <div className="overflow-x-auto">
+          <ScrollBox label={`Limits: ${section}`}>
             <table className="w-full text-left text-sm" aria-label={`Limits: ${section}`}>
               <thead className="text-xs uppercase text-ink-soft">
                 <tr>
@@ -108,7 +109,7 @@ export function LimitTablePage() {
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollBox>
         </Card>
       ))}
       <TableStudiesCard limitTableId={t.id} />

@@ -3,6 +3,7 @@ import { Link, useParams } from "react-router-dom";
 import { useStudy } from "../api/studies";
 import { StudyVerdictBadge } from "../api/study-cards";
 import { PageHeader, Card, Facts, Loading, ErrorNote } from "../../../components/ui/layout";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 import { Cautions, DemoNotice } from "../../../components/ui/cautions";
 import { cx } from "../../../components/ui/cx";
 import { errorMessage } from "../../../lib/api-client";
@@ -116,7 +117,7 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
             <strong>{a.anova.pooled ? "pooled into repeatability" : "kept in the model"}</strong>.
             {a.anova.negativeSetToZero.length > 0 && ` Negative estimates set to zero: ${a.anova.negativeSetToZero.join(", ")}.`}
           </p>
-          <div className="overflow-x-auto">
+          <ScrollBox label="Analysis of variance">
             <table className="w-full text-right text-sm tabular-nums [&_td]:pl-3 [&_td]:whitespace-nowrap [&_th]:pl-3" aria-label="Analysis of variance">
               <thead className="text-xs uppercase text-ink-soft">
                 <tr>
@@ -141,8 +142,8 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
                 ))}
               </tbody>
             </table>
-          </div>
-          <div className="mt-3 overflow-x-auto">
+          </ScrollBox>
+          <ScrollBox label="Variance components" className="mt-3">
             <table className="w-full text-right text-sm tabular-nums [&_td]:pl-3 [&_td]:whitespace-nowrap [&_th]:pl-3" aria-label="Variance components">
               <thead className="text-xs uppercase text-ink-soft">
                 <tr>
@@ -167,7 +168,7 @@ function Results({ s, a }: { s: StudyDetail; a: StudyAnalysis }) {
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollBox>
           <p className="mt-2 text-sm">Number of distinct categories: <strong>{a.anova.ndc ?? "—"}</strong> (1.41 · σ part / σ GRR, truncated).</p>
         </Card>
         <Card title="Average-and-range method">
@@ -202,7 +203,7 @@ function ValuesCard({ s }: { s: StudyDetail }) {
       {rows.length === 0 ? (
         <p className="text-sm text-ink-faint">No value yet.</p>
       ) : (
-        <div className="max-h-96 overflow-auto">
+        <ScrollBox label="Values as taken" className="max-h-96 overflow-auto">
           <table className="w-full text-left text-sm" aria-label="Values as taken">
             <thead className="sticky top-0 bg-paper-raised text-xs uppercase text-ink-soft">
               <tr>
@@ -234,7 +235,7 @@ function ValuesCard({ s }: { s: StudyDetail }) {
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollBox>
       )}
     </Card>
   );
