@@ -20,7 +20,8 @@ beforeAll(async () => {
   const clock = fixedClock("2026-06-15T15:00:00Z");
   await seedDemoOnce({ db: database.db, clock, config, mailer, storage: memoryStorage() }, "tenthwise-demo");
   app = createApp({ db: database.db, pool: database.pool, config, clock, mailer, storage: memoryStorage(), logger: pino({ level: "silent" }), clientDir: "/nonexistent" });
-});
+  // The whole demo shop is seeded here; on a shared two-core machine that alone can pass a minute.
+}, 180_000);
 afterAll(async () => database?.drop());
 
 async function signedIn(email: string) {

@@ -1,6 +1,6 @@
 import { newPdf, printedInstant } from "../../platform/pdf";
 import { lengthWithUnit, signedLengthWithUnit } from "../../../shared/investigations/format";
-import { DISPOSITION_LABELS, INVESTIGATION_CAUTIONS, TRIGGER_LABELS, type InvestigationDetail, type InvestigationItem } from "../../../shared/investigations/investigations.schemas";
+import { DISPOSITION_LABELS, INVESTIGATION_CAUTIONS, INVESTIGATION_STATUS_LABELS, READING_VERDICT_LABELS, TRIGGER_LABELS, type InvestigationDetail, type InvestigationItem } from "../../../shared/investigations/investigations.schemas";
 
 const when = (iso: string | null, tz: string) => (iso ? printedInstant(iso, tz, { seconds: true }) : "—");
 
@@ -40,7 +40,7 @@ export async function writeInvestigationPdf(inv: InvestigationDetail, pages: Asy
   } else doc.text("Errors found: unknown — every affected reading could have been judged differently.");
   if (inv.finding.note) fact("Note", inv.finding.note);
   fact("Opened", `${when(inv.openedAt, tz)}${inv.openedBy ? ` by ${inv.openedBy}` : ""}`);
-  fact("Status", inv.status === "open" ? "open" : `closed ${when(inv.closedAt, tz)}${inv.closedBy ? ` by ${inv.closedBy}` : ""}`);
+  fact("Status", inv.status === "open" ? INVESTIGATION_STATUS_LABELS.open : `${INVESTIGATION_STATUS_LABELS.closed} ${when(inv.closedAt, tz)}${inv.closedBy ? ` by ${inv.closedBy}` : ""}`);
   if (inv.finding.notifications) {
     fact("Notified", inv.finding.notifications.recipients.map((r) => `${r.name} <${r.email}>`).join(", ") || "nobody");
   }
@@ -63,7 +63,7 @@ export async function writeInvestigationPdf(inv: InvestigationDetail, pages: Asy
     if (i.kind === "reading") {
       if (i.values.length) facts.push(`Values ${i.values.map((v) => len(v, u)).join(" / ")}`);
       if (i.measuredValue != null) facts.push(`${i.quantity ?? "size"} ${len(i.measuredValue, u)}${i.bandLow != null && i.bandHigh != null ? ` (over the error band ${len(i.bandLow, u)} to ${len(i.bandHigh, u)})` : ""}`);
-      facts.push(`verdict ${i.originalVerdict?.replace("_", " ") ?? "—"}`);
+      facts.push(`verdict ${i.originalVerdict ? (READING_VERDICT_LABELS[i.originalVerdict as keyof typeof READING_VERDICT_LABELS] ?? i.originalVerdict).toLowerCase() : "—"}`);
       facts.push(`measured ${when(i.takenAt, tz)}${i.takenBy ? ` by ${i.takenBy}` : ""}`);
       if (i.override) facts.push("taken under an override");
     } else {

@@ -12,7 +12,7 @@ import {
 import { lengthWithUnit as length, signedLengthWithUnit as signedLength } from "../../../../shared/investigations/format";
 import { useInvestigationItems } from "../api/investigations";
 import { useListParams } from "../../../lib/use-list-params";
-import { formatDateTime } from "../../../lib/format";
+import { formatDate, formatDateTime } from "../../../lib/format";
 import { errorMessage } from "../../../lib/api-client";
 import { Button } from "../../../components/ui/button";
 import { ErrorNote } from "../../../components/ui/layout";
@@ -30,7 +30,7 @@ const sentence = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
 
 /** The name of an affected item as the check sheet shows its place ("Exhaust valve stem no. 3"). */
 export function itemName(i: InvestigationItem) {
-  if (i.kind === "calibration") return `Calibration of ${i.toolAssetTag} on ${i.takenAt ? formatDateTime(i.takenAt).slice(0, 10) : "—"}`;
+  if (i.kind === "calibration") return `Calibration of ${i.toolAssetTag} on ${formatDate(i.takenAt)}`;
   return `${i.itemLabel ?? i.itemKey}${i.index && i.index > 1 ? ` no. ${i.index}` : ""}`;
 }
 

@@ -1,20 +1,20 @@
 import { Link } from "react-router-dom";
 import { createColumnHelper } from "@tanstack/react-table";
-import { TRIGGER_LABELS, type InvestigationSummary } from "../../../../shared/investigations/investigations.schemas";
+import { INVESTIGATION_STATUS_LABELS, TRIGGER_LABELS, type InvestigationSummary } from "../../../../shared/investigations/investigations.schemas";
 import { useInvestigations } from "../api/investigations";
 import { PageHeader, ErrorNote } from "../../../components/ui/layout";
 import { DataTable, pagedProps } from "../../../components/ui/data-table";
 import { Cautions } from "../../../components/ui/cautions";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
-import { shortInstant as when } from "../../../lib/format";
+import { formatDateTime as when } from "../../../lib/format";
 import { InvestigationStatus } from "./investigation-status";
 import { activeFilters, FilterChips } from "../../../components/ui/filter-chips";
 import { FilterSelect } from "../../../components/ui/filter-select";
 
 const FILTER_KEYS = ["toolAssetTag", "status", "awaitingDisposition"] as const;
 const describeFilters = {
-  status: (v: string) => (v === "open" ? "Open" : v === "closed" ? "Closed" : v),
+  status: (v: string) => INVESTIGATION_STATUS_LABELS[v as keyof typeof INVESTIGATION_STATUS_LABELS] ?? v,
   toolAssetTag: (v: string) => `Tool ${v}`,
   awaitingDisposition: (v: string) => (v === "true" ? "Awaiting a disposition" : "Every item dispositioned"),
 };
@@ -78,7 +78,7 @@ export function InvestigationsPage() {
               value={list.filters.toolAssetTag}
               onChange={(e) => list.setFilter("toolAssetTag", e.target.value)}
             />
-            <FilterSelect label="Filter by status" all="Open and closed" options={["open", "closed"]} labels={{ open: "Open", closed: "Closed" }} value={list.filters.status} onChange={(v) => list.setFilter("status", v)} />
+            <FilterSelect label="Filter by status" all="Open and closed" options={["open", "closed"]} labels={INVESTIGATION_STATUS_LABELS} value={list.filters.status} onChange={(v) => list.setFilter("status", v)} />
           </>
         }
       />
