@@ -19,7 +19,7 @@ const GROUPS: { key: NavItem["group"]; label: string }[] = [
 export function navFor(role: Role) {
   const items = features
     .flatMap((f) => f.nav)
-    .filter((n) => (n.permission ? can(role, n.permission) : n.roles ? n.roles.includes(role) : true))
+    .filter((n) => (n.permission || n.roles ? (!!n.permission && can(role, n.permission)) || !!n.roles?.includes(role) : true))
     .sort((a, b) => a.order - b.order);
   return GROUPS.map((g) => ({ ...g, items: items.filter((i) => i.group === g.key) })).filter((g) => g.items.length);
 }
