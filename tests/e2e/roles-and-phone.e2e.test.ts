@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_PASSWORD, startBrowserApp, type BrowserApp } from "../support/browser";
 import { seedUsers } from "../../server/seed/users.seed";
 import { makeUsableTool } from "../support/factories-crib";
-import { findUserByEmail, makeCheckout } from "../support/factories";
+import { findUserByEmail, makeCheckout, makeTool } from "../support/factories";
 import { addDays } from "../../shared/common/dates";
 
 let b: BrowserApp;
@@ -19,6 +19,8 @@ beforeAll(async () => {
   // A 1–2 in micrometer out with Dagny Forsell, to come back with a zero check.
   const mic12 = await inCalibration("PH-MIC-12", { description: "Outside micrometer 1-2 in (demo)", rangeMin: "1", rangeMax: "2" });
   const dagny = await findUserByEmail(b.db, "mechanic@tenthwise.test");
+  // A dial caliper kept for reference only (no calibration required).
+  await makeTool(b.db, { assetTag: "PH-CAL-01", description: "Dial caliper 0-6 in (reference only, demo)", rangeMin: "0", rangeMax: "6", resolution: "0.001", calibrationRequired: false });
   await makeCheckout(b.db, mic12.id, dagny!.id, { issuedAt: new Date(Date.now() - 3_600_000), dueBackAt: new Date(Date.now() + 3_600_000) });
 });
 afterAll(async () => {
@@ -129,6 +131,32 @@ describe("pages say what a role may not do", () => {
     await expect(page.evaluate(() => document.documentElement.scrollWidth <= window.innerWidth)).resolves.toBe(true);
     const box = await add.boundingBox();
     expect(box && box.x + box.width <= 1440).toBe(true);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("a reference-only caliper's status page says what it may be used for, not a plain 'usable'", async () => {
+    const { page, context, errors } = await b.newPage({ width: 390, height: 844 });
+    await b.signIn(page, "mechanic");
+    await page.goto("/t/PH-CAL-01");
+    await page.getByText("REFERENCE ONLY", { exact: false }).first().waitFor();
+    await page.getByText(/not for acceptance readings/i).first().waitFor();
+    await expect(page.getByText("USABLE", { exact: true }).count()).resolves.toBe(0);
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("the DO NOT USE tag is offered for an overdue tool and refused, with the reason, for a usable one", async () => {
+    const { page, context, errors } = await b.newPage({ width: 1440, height: 900 });
+    await b.signIn(page, "crib");
+    await page.goto("/crib/labels");
+    const tagField = page.getByLabel("Asset tag of the tool to tag");
+    await tagField.fill("PH-MIC-01");
+    await page.getByText(/PH-MIC-01 may be used .*no DO NOT USE tag/).waitFor();
+    await expect(page.getByRole("link", { name: "Open tag PDF" }).count()).resolves.toBe(0);
+    await tagField.fill("PH-MIC-02");
+    await page.getByText(/PH-MIC-02: Overdue — may not be used/).waitFor();
+    await page.getByRole("link", { name: "Open tag PDF" }).waitFor();
     expect(errors).toEqual([]);
     await context.close();
   });

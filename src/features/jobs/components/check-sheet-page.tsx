@@ -21,6 +21,7 @@ import { EntryGridSection } from "./entry-grid";
 import { VerdictBadge } from "./verdict-badge";
 import { PlaceDetail, rawValue } from "./place-view";
 import { useInvestigations } from "../../investigations/api/investigations";
+import { JOB_STATE_LABELS, jobStateOfSheet } from "../../../../shared/jobs/labels";
 
 export function CheckSheetPage() {
   const { id = "" } = useParams();
@@ -88,7 +89,7 @@ function Sheet({ sheet: s, drafts, setDraft }: { sheet: CheckSheet; drafts: Reco
             ["Unit", unit === "in" ? "inch" : "millimetre"],
             ["Opened", `${formatDateTime(s.openedAt)}${s.openedBy ? ` by ${s.openedBy.name}` : ""}`],
             ["Progress", `${s.summary.recorded} of ${s.summary.places} places measured · ${s.summary.outside} outside limits · ${s.summary.flagged} flagged`],
-            ["Status", s.locked ? "Signed and locked" : s.changedSinceSignoff ? "Corrected since sign-off: needs signing again" : "Open"],
+            ["Status", JOB_STATE_LABELS[jobStateOfSheet(s)]],
           ]}
         />
         <details className="mt-2 text-sm text-ink-soft">
