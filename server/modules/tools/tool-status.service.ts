@@ -67,19 +67,21 @@ export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: 
 }
 
 /** The derivation's inputs from a tool_states row (with the tool's tag and unit and the custodian's name), derived at `at`. */
+/** The last counting calibration as the status rule reads it, from a row's columns. */
+function calibrationOf(c: { id: unknown; performedAt: string; result: unknown; nextDue: unknown; min: unknown; max: unknown; unit: unknown; note: unknown }) {
+  return {
+    id: String(c.id),
+    performedAt: c.performedAt,
+    result: c.result as "pass" | "adjusted" | "fail" | "limited",
+    nextDueAt: dateOnly(c.nextDue as string | Date | null)!,
+    limitedRange: c.min != null && c.max != null ? { min: Number(c.min), max: Number(c.max), unit: c.unit as "in" | "mm", note: (c.note as string) ?? null } : null,
+  };
+}
+
 function fromState(r: Row, atTs: string, ctx: StatusContext): ToolStatusView {
   const lastCalibration =
     r.cal_id != null
-      ? {
-          id: String(r.cal_id),
-          performedAt: iso(r.cal_performed_at)!,
-          result: r.cal_result as "pass" | "adjusted" | "fail" | "limited",
-          nextDueAt: dateOnly(r.cal_next_due)!,
-          limitedRange:
-            r.cal_limited_min != null && r.cal_limited_max != null
-              ? { min: Number(r.cal_limited_min), max: Number(r.cal_limited_max), unit: r.unit as "in" | "mm", note: (r.cal_limited_note as string) ?? null }
-              : null,
-        }
+      ? calibrationOf({ id: r.cal_id, performedAt: iso(r.cal_performed_at)!, result: r.cal_result, nextDue: r.cal_next_due, min: r.cal_limited_min, max: r.cal_limited_max, unit: r.unit, note: r.cal_limited_note })
       : null;
   const input: ToolStatusInput = {
     at: atTs,
@@ -192,16 +194,7 @@ export async function gatherStatusesAt(db: DbOrTx, toolIds: string[], at: Date, 
     const failed = checkMap.get(id);
     const failedAt = failed ? iso(failed.performed_at)! : null;
     const lastCalibration = cal
-      ? {
-          id: String(cal.id),
-          performedAt: calAt!,
-          result: cal.result as "pass" | "adjusted" | "fail" | "limited",
-          nextDueAt: dateOnly(cal.next_due_at)!,
-          limitedRange:
-            cal.limited_min != null && cal.limited_max != null
-              ? { min: Number(cal.limited_min), max: Number(cal.limited_max), unit: cal.unit as "in" | "mm", note: (cal.limited_note as string) ?? null }
-              : null,
-        }
+      ? calibrationOf({ id: cal.id, performedAt: calAt!, result: cal.result, nextDue: cal.next_due_at, min: cal.limited_min, max: cal.limited_max, unit: cal.unit, note: cal.limited_note })
       : null;
     const p = pendingMap.get(id);
     const hold = holdMap.get(id);

@@ -7,6 +7,8 @@ import {
   type SortingState,
   type VisibilityState,
   type OnChangeFn,
+  type Column,
+  type Table,
 } from "@tanstack/react-table";
 import { Button } from "./button";
 import { ScrollBox } from "./scroll-box";
@@ -72,28 +74,7 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
       </div>
       <ScrollBox label={label}>
         <table className="w-full text-left text-sm" aria-label={label} aria-busy={loading}>
-          <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
-            {table.getHeaderGroups().map((hg) => (
-              <tr key={hg.id}>
-                {hg.headers.map((h) => {
-                  const sorted = h.column.getIsSorted();
-                  const sortable = h.column.getCanSort() && !!onSortingChange;
-                  return (
-                    <th key={h.id} scope="col" className="px-3 py-2 font-semibold" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
-                      {sortable ? (
-                        <button type="button" className="inline-flex items-center gap-1 uppercase" onClick={h.column.getToggleSortingHandler()}>
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                        </button>
-                      ) : (
-                        flexRender(h.column.columnDef.header, h.getContext())
-                      )}
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
+          <SortableHead table={table} canSort={(column) => column.getCanSort() && !!onSortingChange} />
           <tbody>
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className="border-t border-paper-line hover:bg-paper">
@@ -131,4 +112,31 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
 /** The paging props a DataTable takes from a page query ({ items, total }) and the URL's list state. */
 export function pagedProps<T>(query: { data?: { items: T[]; total: number }; isPending: boolean }, list: { page: number; setPage: (page: number) => void }, pageSize: number) {
   return { data: query.data?.items ?? [], total: query.data?.total ?? 0, page: list.page, pageSize, onPageChange: list.setPage, loading: query.isPending };
+}
+
+/** A table's header row: a sortable column is a button that turns through ascending, descending and off, with aria-sort. */
+export function SortableHead<T>({ table, canSort }: { table: Table<T>; canSort: (column: Column<T, unknown>) => boolean }) {
+  return (
+    <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
+      {table.getHeaderGroups().map((hg) => (
+        <tr key={hg.id}>
+          {hg.headers.map((h) => {
+            const sorted = h.column.getIsSorted();
+            return (
+              <th key={h.id} scope="col" className="px-3 py-2 font-semibold" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
+                {canSort(h.column) ? (
+                  <button type="button" className="inline-flex items-center gap-1 uppercase" onClick={h.column.getToggleSortingHandler()}>
+                    {flexRender(h.column.columnDef.header, h.getContext())}
+                    <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                  </button>
+                ) : (
+                  flexRender(h.column.columnDef.header, h.getContext())
+                )}
+              </th>
+            );
+          })}
+        </tr>
+      ))}
+    </thead>
+  );
 }

@@ -18,6 +18,7 @@ import { Button } from "../../../components/ui/button";
 import { ErrorNote } from "../../../components/ui/layout";
 import { FilterSelect } from "../../../components/ui/filter-select";
 import { cx } from "../../../components/ui/cx";
+import { SortableHead } from "../../../components/ui/data-table";
 import { DispositionForm } from "./disposition-form";
 
 const FILTER_KEYS = ["couldChange", "verdict", "disposition", "jobId", "q"] as const;
@@ -264,28 +265,7 @@ export function AffectedItemsTable({ inv, canDispose }: { inv: InvestigationDeta
         {q.isError && <ErrorNote>{errorMessage(q.error)}</ErrorNote>}
         <div className="overflow-x-auto">
           <table className="w-full text-left text-sm" aria-label="Affected items" aria-busy={q.isFetching}>
-            <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
-              {table.getHeaderGroups().map((hg) => (
-                <tr key={hg.id}>
-                  {hg.headers.map((h) => {
-                    const sorted = h.column.getIsSorted();
-                    const sortable = h.column.columnDef.enableSorting === true;
-                    return (
-                      <th key={h.id} scope="col" className="px-3 py-2 font-semibold" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}>
-                        {sortable ? (
-                          <button type="button" className="inline-flex items-center gap-1 uppercase" onClick={h.column.getToggleSortingHandler()}>
-                            {flexRender(h.column.columnDef.header, h.getContext())}
-                            <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                          </button>
-                        ) : (
-                          flexRender(h.column.columnDef.header, h.getContext())
-                        )}
-                      </th>
-                    );
-                  })}
-                </tr>
-              ))}
-            </thead>
+            <SortableHead table={table} canSort={(column) => column.columnDef.enableSorting === true} />
             <tbody>
               {table.getRowModel().rows.map((row) => (
                 <Fragment key={row.id}>
