@@ -19,6 +19,7 @@ import { createDb } from "../server/db/client";
 import { loadConfig } from "../server/config";
 import { systemClock } from "../server/platform/clock";
 import { sendDueReminders } from "../jobs/send-due-reminders.job";
+import { onOutOfToleranceFinding } from "../server/modules/investigations/investigations.hooks";
 import { JUDGING_RULES_VERSION } from "../shared/inspection/judging";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
@@ -45,7 +46,7 @@ const MEASURES: Measure[] = [
   { name: "home_mine", role: "mechanic", connections: 1, goal: 60, perTool: true, path: () => `/api/stats/mine` },
   { name: "home_inspection", role: "inspector", connections: 1, goal: 60, perTool: false, path: () => `/api/stats/inspection` },
   { name: "check_sheet", role: "inspector", connections: 1, goal: 60, perTool: true, path: (c) => `/api/jobs/${c.sheetId}` },
-  { name: "investigation_page", role: "quality", connections: 1, goal: 30, perTool: true, path: (c) => (c.investigationId ? `/api/investigations/${c.investigationId}/readings?page=1` : null) },
+  { name: "investigation_page", role: "quality", connections: 1, goal: 30, perTool: true, path: (c) => (c.investigationId ? `/api/investigations/${c.investigationId}/items?page=1&pageSize=50` : null) },
   {
     name: "record_reading",
     role: "mechanic",
@@ -278,6 +279,9 @@ async function measureScale(tools: number) {
     const sheetId = (await q<{ id: string }>(`select id from jobs where work_order = 'WO-B${Math.ceil(shape.sheets / 2)}'`))[0].id;
     const writeSheets = (await q<{ id: string }>(`select id from jobs where work_order like 'WO-W%' order by work_order`)).map((r) => r.id);
     const inv = await q<{ id: string }>(`select id from investigations order by opened_at desc limit 1`).catch(() => []);
+    // The tools that took the most readings: each round, one of them is reported lost, which opens an investigation
+    // over every reading it took since it was last known good.
+    const busiest = (await q<{ tool_id: string; n: string }>(`select tool_id, count(*) as n from reading_tools group by tool_id order by count(*) desc limit ${ROUNDS}`)).map((r) => ({ id: r.tool_id, readings: Number(r.n) }));
     await db.end();
 
     const sessions = Object.fromEntries(await Promise.all((["mechanic", "quality", "inspector", "admin"] as const).map(async (r) => [r, await signIn(app.url, r)] as const)));
@@ -295,6 +299,18 @@ async function measureScale(tools: number) {
           return { itemKey: `J${String((p % shape.itemsPerSheet) + 1).padStart(3, "0")}`, index: Math.floor(p / shape.itemsPerSheet) + 1 };
         },
       };
+      // Opening an investigation (in-process, as a lost-tool report or an out-of-tolerance calibration does inside its
+      // own transaction): the re-judging of every affected reading and the insert of the items.
+      const suspect = busiest[round - 1];
+      if (suspect) {
+        const { db: idb, pool: ipool } = createDb(urls.runtimeUrl, 2);
+        const t = performance.now();
+        const opened = await idb.transaction((tx) => onOutOfToleranceFinding(tx, { clock: systemClock, timeZone: "America/Chicago" }, { kind: "lost", toolId: suspect.id, at: new Date(), actorId: null }));
+        extra.investigation_open.push(performance.now() - t);
+        await ipool.end();
+        if (opened) ctx.investigationId = opened.investigationId;
+        if (round === 1) console.log(`  investigation opened over the ${suspect.readings} readings of the busiest tool`);
+      }
       for (const m of MEASURES) {
         if (m.path(ctx) === null) continue;
         place = 0;
@@ -344,7 +360,14 @@ for (const m of MEASURES) {
   const ratio = Number.isFinite(app) ? f(app / floor) : `>${f((DURATION * 1000) / floor)}`;
   console.log(`RATIO ${m.name} app_p95=${f(app)} floor_p95=${f(floor)} ratio=${ratio} goal=${m.goal}${rps}${failed ? ` errors=${failed}` : ""}`);
 }
-console.log(`SKIP investigation_open (goal ×${INVESTIGATION_OPEN_GOAL}): not measured by this script yet`);
+// Opening an investigation, against the floor's p95 at one connection (the register list's floor runs).
+const openMs = median(large.extra.investigation_open);
+const floorOne = large.results.get("register_list") ? median(large.results.get("register_list")!.floor) : NaN;
+console.log(
+  Number.isFinite(openMs)
+    ? `RATIO investigation_open app_p95=${f(openMs)} floor_p95=${f(floorOne)} ratio=${f(openMs / floorOne)} goal=${INVESTIGATION_OPEN_GOAL}`
+    : `SKIP investigation_open (goal ×${INVESTIGATION_OPEN_GOAL}): no tool with readings`,
+);
 console.log(`RATIO reminder_run app_ms=${f(median(large.extra.reminder_run))} goal_ms=${REMINDER_RUN_GOAL_MS}`);
 if (small) {
   console.log(`\n# growth ${small.tools} → ${large.tools} tools (flat = 1; goal ≤ 1.5 for per-tool and per-page measures)`);
