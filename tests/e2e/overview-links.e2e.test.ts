@@ -13,7 +13,7 @@ afterAll(async () => b?.close());
 
 /** The number on an overview tile, read from its accessible name ("2 Not returned Past due-back time. Open the list."). */
 async function tileCount(page: Page, label: string) {
-  const tile = page.getByRole("main").getByRole("link", { name: new RegExp(`^\\d+ ${label}( [^.]*)?\\. Open the list\\.$`) });
+  const tile = page.getByRole("main").getByRole("link", { name: new RegExp(`^\\d+ ?${label}( [^.]*?)? ?\\. Open the list\\.$`) });
   await tile.waitFor();
   const name = (await tile.getAttribute("aria-label"))!;
   return { tile, count: Number(/^(\d+) /.exec(name)![1]) };

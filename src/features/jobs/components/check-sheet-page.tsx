@@ -22,6 +22,7 @@ import { VerdictBadge } from "./verdict-badge";
 import { PlaceDetail, rawValue } from "./place-view";
 import { useInvestigations } from "../../investigations/api/investigations";
 import { JOB_STATE_LABELS, jobStateOfSheet } from "../../../../shared/jobs/labels";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 
 export function CheckSheetPage() {
   const { id = "" } = useParams();
@@ -303,7 +304,7 @@ function ToolsCard({ sheet }: { sheet: CheckSheet }) {
       {sheet.tools.length === 0 ? (
         <p className="text-ink-faint">No readings yet.</p>
       ) : (
-        <div className="overflow-x-auto">
+        <ScrollBox label="Tools used">
         <table className="w-full text-left text-sm" aria-label="Tools used">
           <thead className="text-xs uppercase text-ink-soft">
             <tr>
@@ -326,7 +327,7 @@ function ToolsCard({ sheet }: { sheet: CheckSheet }) {
             ))}
           </tbody>
         </table>
-        </div>
+        </ScrollBox>
       )}
     </Card>
   );

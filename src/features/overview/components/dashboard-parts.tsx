@@ -3,7 +3,7 @@ import { Link } from "react-router-dom";
 import { Card } from "../../../components/ui/layout";
 import { cx } from "../../../components/ui/cx";
 import { StatusBadge } from "../../../components/ui/status-badge";
-import { STATUS_LABELS, TOOL_STATUSES, type ToolStatus } from "../../../../shared/tools/status-labels";
+import { TOOL_STATUSES, type ToolStatus } from "../../../../shared/tools/status-labels";
 import type { FamilyRate, StatsDashboard } from "../../../../shared/stats/stats.schemas";
 import { links } from "./links";
 
@@ -23,12 +23,12 @@ export function StatTile({ label, value, to, tone = "plain", hint }: { label: st
     <Link
       to={to}
       className={cx("group block rounded-card border-2 bg-paper-raised p-3 shadow-card transition-colors hover:bg-paper focus-visible:outline-2 focus-visible:outline-brass", TONES[value === 0 ? "plain" : tone])}
-      // The name starts with what the tile shows (number, words, hint), so a voice command naming it works.
-      aria-label={`${value} ${label}${hint ? ` ${hint}` : ""}. Open the list.`}
     >
-      <span className={cx("block text-3xl font-bold tabular-nums", NUMBER_TONES[value === 0 ? "plain" : tone])}>{value}</span>
+      {/* The name is what the tile shows (number, words, hint) and then where it leads, so a voice command naming it works. */}
+      <span className={cx("block text-3xl font-bold tabular-nums", NUMBER_TONES[value === 0 ? "plain" : tone])}>{value} </span>
       <span className="block text-sm font-semibold text-ink-soft group-hover:underline">{label}</span>
-      {hint && <span className="block text-xs text-ink-faint">{hint}</span>}
+      {hint && <span className="block text-xs text-ink-faint"> {hint}</span>}
+      <span className="sr-only">. Open the list.</span>
     </Link>
   );
 }
@@ -44,7 +44,7 @@ export function StatusCounts({ byStatus }: { byStatus: StatsDashboard["byStatus"
       <ul className="grid gap-1 sm:grid-cols-2">
         {TOOL_STATUSES.map((s: ToolStatus) => (
           <li key={s}>
-            <Link to={links.toolsByStatus(s)} className="flex items-center justify-between gap-2 rounded-md px-2 py-1.5 hover:bg-paper" aria-label={`${byStatus[s] ?? 0} tools ${STATUS_LABELS[s]}`}>
+            <Link to={links.toolsByStatus(s)} className="flex items-center justify-between gap-2 rounded-md px-2 py-1.5 hover:bg-paper">
               <StatusBadge status={s} />
               <span className="font-semibold tabular-nums">{byStatus[s] ?? 0}</span>
             </Link>
