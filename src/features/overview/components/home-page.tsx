@@ -10,7 +10,7 @@ import { DueByWeekChart, FamilyRates, StatTile, StatusCounts, TileRow } from "./
 import { links } from "./links";
 import { StudyGapsCard } from "../../studies/api/study-cards";
 import { formatDate, formatDateTime } from "../../../lib/format";
-import { TRIGGER_LABELS, type InvestigationTrigger } from "../../../../shared/investigations/investigations.schemas";
+import { TRIGGER_LABELS, type InvestigationTrigger } from "../../../../shared/investigations/labels";
 
 const SHOP_VIEW: readonly Role[] = ["quality", "crib", "auditor", "admin"];
 const INSPECTION_VIEW: readonly Role[] = ["inspector", "quality", "auditor", "admin"];
