@@ -9,7 +9,7 @@ import { anovaGrr, averageRangeFromSummary, averageRangeGrr, D2, D3_FACTOR, dist
 /** Rows of [part] → [appraiser] → [trial] from a table written part by part. */
 const grid = (rows: number[][][]): StudyGrid => rows;
 
-// A. AIAG MSA 4th ed. GRR example, 10 parts × 3 appraisers × 3 trials (values [seen] in two agreeing third-party transcriptions).
+// A. AIAG MSA 4th ed. GRR example, 10 parts × 3 appraisers × 3 trials (the published example data set; see ../shared/spec/msa-check-values.md, A).
 const AIAG = grid([
   [[0.29, 0.41, 0.64], [0.08, 0.25, 0.07], [0.04, -0.11, -0.15]],
   [[-0.56, -0.68, -0.58], [-0.47, -1.22, -0.68], [-1.38, -1.13, -0.96]],

@@ -55,7 +55,7 @@ describe("exactly one success in a burst on one record", () => {
     expect(first.status).toBe(201);
     const people = await agents("quality", 20);
     const r = await burst(20, (i) =>
-      people[i].post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { supersedesId: first.body.id, supersedeReason: `Transcription error, correction ${i}` })),
+      people[i].post(`/api/tools/${tool.assetTag}/calibrations`, calibrationBody([standard.id], { supersedesId: first.body.id, supersedeReason: `Wrong figure copied from the sheet, correction ${i}` })),
     );
     expect(r.broken).toHaveLength(0);
     expect(r.ok).toHaveLength(1);

@@ -361,7 +361,7 @@ describe("evidence is append-only", () => {
 
     const fix = await q.post(
       `/api/tools/${tool.assetTag}/calibrations`,
-      calibrationBody([standard.id], { performedAt: "2026-06-10T14:00:00Z", supersedesId: first.body.id, supersedeReason: "0.815 reading was transcribed wrong; the sheet says 0.8151" }, { "0.815": 0.8151 }),
+      calibrationBody([standard.id], { performedAt: "2026-06-10T14:00:00Z", supersedesId: first.body.id, supersedeReason: "0.815 reading was copied wrong; the sheet says 0.8151" }, { "0.815": 0.8151 }),
     );
     expect(fix.status).toBe(201);
     expect(fix.body).toMatchObject({ supersedesId: first.body.id, result: "pass" });

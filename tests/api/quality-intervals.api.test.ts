@@ -71,7 +71,7 @@ describe("interval analysis of a family", () => {
       asFoundInTolerance: false,
       result: "adjusted",
       supersedesId: recal.id,
-      supersedeReason: "As-found reading transcribed wrongly",
+      supersedeReason: "As-found reading copied wrongly",
     });
     const res = await (await t.agent("quality")).get(`/api/families/${family.id}/interval-analysis`);
     expect(res.body.calibrations).toBe(10);

