@@ -519,15 +519,26 @@ export async function itemJobs(tx: DbOrTx, investigationId: string) {
     .orderBy(asc(jobs.engineSerial));
 }
 
-/** Every disposition of some items, oldest first, with who decided. */
+/**
+ * Every disposition of some items, oldest first, with who decided. Two decided within the same instant keep
+ * their order along the chain of replacements: a disposition always comes after the one it supersedes.
+ */
 export async function dispositionsOfItems(tx: DbOrTx, itemIds: string[]) {
   if (itemIds.length === 0) return [];
-  return tx
+  const rows = await tx
     .select({ d: dispositions, byName: users.name })
     .from(dispositions)
     .innerJoin(users, eq(users.id, dispositions.decidedBy))
     .where(inArray(dispositions.investigationItemId, itemIds))
     .orderBy(asc(dispositions.decidedAt), asc(dispositions.id));
+  const byId = new Map(rows.map((r) => [r.d.id, r.d]));
+  const depth = (d: typeof dispositions.$inferSelect): number => {
+    let n = 0;
+    for (let at = d; at.supersedesId && byId.has(at.supersedesId) && n < rows.length; n++) at = byId.get(at.supersedesId)!;
+    return n;
+  };
+  const depths = new Map(rows.map((r) => [r.d.id, depth(r.d)]));
+  return rows.sort((a, b) => a.d.decidedAt.getTime() - b.d.decidedAt.getTime() || depths.get(a.d.id)! - depths.get(b.d.id)!);
 }
 
 /** The disposition in force for each of some items (none superseding it), by item. */
