@@ -70,6 +70,15 @@ const TOOLS = arg("tools", 20_000);
 const ROUNDS = arg("rounds", 3);
 const DURATION = arg("duration", 5);
 const GROWTH = !process.argv.includes("--no-growth");
+/** Keep a filled database of the same scale from an earlier run (with BENCH_DIR, scripts/bench.sh keeps the cluster). */
+const REUSE = process.argv.includes("--reuse");
+/** `--only status_lookup,check_sheet`: just those measures (a quicker look while working on one of them). */
+const ONLY = (() => {
+  const i = process.argv.indexOf("--only");
+  return i > 0 ? new Set(process.argv[i + 1].split(",")) : null;
+})();
+const wanted = (name: string) => ONLY == null || ONLY.has(name);
+const BUSY_TOOL = "B-000227"; // (227 × 37) mod 420 = 419: the tool whose latest calibration is the oldest
 
 // ---- The register at a scale: each table its own step, set-based -----------------------------------------
 /** The shape of the issue's large shop, for `tools` tools (20,000 → 100 families, 200,000 calibrations, ~2,000 open checkouts, ~400 holds, 5,000 sheets, 5,000,000 readings). */
@@ -131,15 +140,20 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       insert into readings (job_id, item_key, index, values, unit, size, verdict, taken_by, taken_at)
       select j.id, 'J' || lpad(i::text, 3, '0'), x, '["2.5001","2.5002"]'::jsonb, 'in', 2.50015, 'within_limits', (select id from users where role = 'inspector'), j.opened_at + (i * 10 + x) * interval '1 second'
       from jobs j cross join generate_series(1, ${s.itemsPerSheet}) i cross join generate_series(1, ${s.indexesPerItem}) x
-      where j.engine_model = 'BENCH-1' and j.work_order not like 'WO-W%'`,
+      where j.engine_model = 'BENCH-1'`,
   },
   {
+    // Spread by a hash over the register, except that one tool (${BUSY_TOOL}, whose last calibration is the oldest,
+    // 419 days ago) read the first journal on every third sheet: ~5,000 readings since it was last known good at
+    // 20,000 tools, the busy micrometer whose loss opens the investigation_open measure.
     name: "reading tools",
     sql: (s) => `
-      with t as (select id, row_number() over (order by asset_tag) - 1 as n from tools)
+      with t as (select id, row_number() over (order by asset_tag) - 1 as n from tools),
+      busy as (select id from tools where asset_tag = '${BUSY_TOOL}')
       insert into reading_tools (reading_id, tool_id, position, status_at_reading, due_at_reading, taken_at)
-      select r.id, t.id, 1, 'in_calibration', (r.taken_at at time zone 'America/Chicago')::date + 200, r.taken_at
-      from readings r join t on t.n = abs(hashtext(r.job_id::text || r.item_key)) % ${s.tools}`,
+      select r.id, case when r.item_key = 'J001' and substr(j.work_order, 5)::int % 3 = 0 then (select id from busy) else t.id end,
+        1, 'in_calibration', (r.taken_at at time zone 'America/Chicago')::date + 200, r.taken_at
+      from readings r join jobs j on j.id = r.job_id join t on t.n = abs(hashtext(r.job_id::text || r.item_key)) % ${s.tools}`,
   },
   {
     name: "reading judgements",
@@ -147,14 +161,22 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       insert into reading_judgements (reading_id, rules_version, verdict, band, text, detail, judged_at)
       select r.id, ${JUDGING_RULES_VERSION}, 'within_limits', 'new', 'Within limits', '{}'::jsonb, r.taken_at from readings r`,
   },
-  {
-    // Empty sheets the record_reading measure writes to (one per round).
-    name: "sheets to write on",
-    sql: () => `
-      insert into jobs (limit_table_id, engine_serial, engine_model, work_order, opened_by, opened_at)
-      select (select id from limit_tables limit 1), 'BW-' || g, 'BENCH-1', 'WO-W' || g, (select id from users where role = 'inspector'), now() - interval '1 hour' from generate_series(1, ${ROUNDS + 1}) g`,
-  },
 ];
+/** Empty sheets the record_reading measure writes to (one per round), made afresh for every run. */
+const writeSheetsSql = (run: string) => `
+  insert into jobs (limit_table_id, engine_serial, engine_model, work_order, opened_by, opened_at)
+  select (select id from limit_tables limit 1), 'BW-${run}-' || g, 'BENCH-1', 'WO-W${run}-' || g, (select id from users where role = 'inspector'), now() - interval '1 hour'
+  from generate_series(1, ${ROUNDS}) g returning id`;
+
+async function countTools(url: string) {
+  const c = new pg.Client({ connectionString: url });
+  await c.connect();
+  try {
+    return Number((await c.query("select count(*) as n from tools")).rows[0].n);
+  } finally {
+    await c.end();
+  }
+}
 
 async function fill(url: string, shape: Shape) {
   const c = new pg.Client({ connectionString: url });
@@ -252,8 +274,12 @@ async function measureScale(tools: number) {
   const urls = await prepareDatabase({ adminUrl: `${BASE}/postgres`, database: name });
   const adminUrl = `${BASE}/${name}`;
   const t0 = performance.now();
-  await fill(adminUrl, shape);
-  console.log(`  filled in ${((performance.now() - t0) / 1000).toFixed(0)} s`);
+  const filled = REUSE && (await countTools(adminUrl)) === shape.tools;
+  if (filled) console.log(`  reusing the filled ${name}`);
+  else {
+    await fill(adminUrl, shape);
+    console.log(`  filled in ${((performance.now() - t0) / 1000).toFixed(0)} s`);
+  }
 
   const appPort = await freePort();
   const app = await startChild("app", {
@@ -277,11 +303,11 @@ async function measureScale(tools: number) {
     const usable = (await q<{ asset_tag: string }>(`select asset_tag from tools where substr(asset_tag, 3)::int % 50 <> 25 and (substr(asset_tag, 3)::int * 37) % 420 < 300 order by asset_tag`)).map((r) => r.asset_tag);
     const allTags = (await q<{ asset_tag: string }>(`select asset_tag from tools`)).map((r) => r.asset_tag);
     const sheetId = (await q<{ id: string }>(`select id from jobs where work_order = 'WO-B${Math.ceil(shape.sheets / 2)}'`))[0].id;
-    const writeSheets = (await q<{ id: string }>(`select id from jobs where work_order like 'WO-W%' order by work_order`)).map((r) => r.id);
+    const writeSheets = (await q<{ id: string }>(writeSheetsSql(Date.now().toString(36)))).map((r) => r.id);
     const inv = await q<{ id: string }>(`select id from investigations order by opened_at desc limit 1`).catch(() => []);
-    // The tools that took the most readings: each round, one of them is reported lost, which opens an investigation
-    // over every reading it took since it was last known good.
-    const busiest = (await q<{ tool_id: string; n: string }>(`select tool_id, count(*) as n from reading_tools group by tool_id order by count(*) desc limit ${ROUNDS}`)).map((r) => ({ id: r.tool_id, readings: Number(r.n) }));
+    // The busy micrometer: each round it is reported lost, which opens an investigation over every reading it took
+    // since it was last known good.
+    const busy = (await q<{ id: string }>(`select id from tools where asset_tag = '${BUSY_TOOL}'`))[0]?.id ?? null;
     await db.end();
 
     const sessions = Object.fromEntries(await Promise.all((["mechanic", "quality", "inspector", "admin"] as const).map(async (r) => [r, await signIn(app.url, r)] as const)));
@@ -301,18 +327,20 @@ async function measureScale(tools: number) {
       };
       // Opening an investigation (in-process, as a lost-tool report or an out-of-tolerance calibration does inside its
       // own transaction): the re-judging of every affected reading and the insert of the items.
-      const suspect = busiest[round - 1];
-      if (suspect) {
+      if (busy && wanted("investigation_open")) {
         const { db: idb, pool: ipool } = createDb(urls.runtimeUrl, 2);
         const t = performance.now();
-        const opened = await idb.transaction((tx) => onOutOfToleranceFinding(tx, { clock: systemClock, timeZone: "America/Chicago" }, { kind: "lost", toolId: suspect.id, at: new Date(), actorId: null }));
+        const opened = await idb.transaction((tx) => onOutOfToleranceFinding(tx, { clock: systemClock, timeZone: "America/Chicago" }, { kind: "lost", toolId: busy, at: new Date(), actorId: null }));
         extra.investigation_open.push(performance.now() - t);
+        if (opened) {
+          ctx.investigationId = opened.investigationId;
+          const [{ n }] = (await ipool.query("select count(*)::int as n from investigation_items where investigation_id = $1", [opened.investigationId])).rows;
+          if (round === 1) console.log(`  investigation opened over the ${n} readings ${BUSY_TOOL} took since it was last known good`);
+        }
         await ipool.end();
-        if (opened) ctx.investigationId = opened.investigationId;
-        if (round === 1) console.log(`  investigation opened over the ${suspect.readings} readings of the busiest tool`);
       }
       for (const m of MEASURES) {
-        if (m.path(ctx) === null) continue;
+        if (m.path(ctx) === null || !wanted(m.name)) continue;
         place = 0;
         const r: Result = results.get(m.name) ?? { app: [], floor: [], appRps: [], floorRps: [], codes: new Map() };
         // Interleaved: the app, then the floor at the same concurrency, in every round.
@@ -326,6 +354,7 @@ async function measureScale(tools: number) {
         results.set(m.name, r);
       }
       // The due-reminder run over the whole register, a batch: its own time.
+      if (!wanted("reminder_run")) continue;
       const config = loadConfig({ ...process.env, DATABASE_URL: urls.runtimeUrl, SESSION_SECRET: "bench-session-secret-0123456789abcdef", CRON_ENABLED: "false", SHOP_TIME_ZONE: "America/Chicago" });
       const { db: rdb, pool } = createDb(urls.runtimeUrl, 3);
       let sent = 0;
@@ -368,7 +397,7 @@ console.log(
     ? `RATIO investigation_open app_p95=${f(openMs)} floor_p95=${f(floorOne)} ratio=${f(openMs / floorOne)} goal=${INVESTIGATION_OPEN_GOAL}`
     : `SKIP investigation_open (goal ×${INVESTIGATION_OPEN_GOAL}): no tool with readings`,
 );
-console.log(`RATIO reminder_run app_ms=${f(median(large.extra.reminder_run))} goal_ms=${REMINDER_RUN_GOAL_MS}`);
+if (large.extra.reminder_run.length) console.log(`RATIO reminder_run app_ms=${f(median(large.extra.reminder_run))} goal_ms=${REMINDER_RUN_GOAL_MS}`);
 if (small) {
   console.log(`\n# growth ${small.tools} → ${large.tools} tools (flat = 1; goal ≤ 1.5 for per-tool and per-page measures)`);
   for (const m of MEASURES) {

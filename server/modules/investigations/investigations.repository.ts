@@ -96,25 +96,42 @@ export async function jobsWithTables(tx: DbOrTx, jobIds: string[]) {
 }
 
 /**
- * The current readings of some check sheets (the other sides of clearances and stations of tapers an affected
- * reading is judged with), each with the tools it named: one query for the readings, one for their tools.
+ * The current readings at some places of some check sheets (the other sides of clearances and stations of tapers
+ * an affected reading is judged with). Only the places asked for are read, never a whole sheet.
  */
-export async function currentReadingsOfJobs(tx: DbOrTx, jobIds: string[]) {
-  if (jobIds.length === 0) return { readings: [] as ReadingRow[], toolsOf: new Map<string, string[]>() };
-  const rows = await tx.select().from(readings).where(and(inArray(readings.jobId, jobIds), readingNotSuperseded)).orderBy(asc(readings.takenAt));
-  const toolRows = await tx
+export async function currentReadingsAtPlaces(tx: DbOrTx, places: { jobId: string; index: number; itemKey: string }[]) {
+  if (places.length === 0) return [] as ReadingRow[];
+  const wanted = JSON.stringify(places.map((p) => ({ job_id: p.jobId, idx: p.index, item_key: p.itemKey })));
+  return tx
+    .select()
+    .from(readings)
+    .where(
+      and(
+        inArray(
+          readings.id,
+          sql`(select r.id from jsonb_to_recordset(${wanted}::jsonb) as p(job_id uuid, idx int, item_key text) join readings r on r.job_id = p.job_id and r.item_key = p.item_key and r.index = p.idx)`,
+        ),
+        readingNotSuperseded,
+      ),
+    )
+    .orderBy(asc(readings.takenAt));
+}
+
+/** The tools each of some readings named, in the order named. */
+export async function toolsOfReadings(tx: DbOrTx, readingIds: string[]) {
+  const toolsOf = new Map<string, string[]>();
+  if (readingIds.length === 0) return toolsOf;
+  const rows = await tx
     .select({ readingId: readingTools.readingId, toolId: readingTools.toolId })
     .from(readingTools)
-    .innerJoin(readings, eq(readings.id, readingTools.readingId))
-    .where(inArray(readings.jobId, jobIds))
+    .where(inArray(readingTools.readingId, readingIds))
     .orderBy(asc(readingTools.position));
-  const toolsOf = new Map<string, string[]>();
-  for (const t of toolRows) {
+  for (const t of rows) {
     const list = toolsOf.get(t.readingId);
     if (list) list.push(t.toolId);
     else toolsOf.set(t.readingId, [t.toolId]);
   }
-  return { readings: rows, toolsOf };
+  return toolsOf;
 }
 
 export async function calibrationPointsOf(tx: DbOrTx, calibrationId: string) {

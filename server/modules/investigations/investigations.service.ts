@@ -8,7 +8,7 @@ import { convertLength } from "../../../shared/common/units";
 import { rejudgeAffectedReading, type ReviewedReading, type ToolErrorPoint, type ToolErrors } from "../../../shared/investigations/affected-reading";
 import { toItemView } from "../limit-tables/limit-tables.service";
 import { evidenceOfRows } from "../readings/reading-evidence";
-import type { ItemRules, ReadingEvidence } from "../../../shared/inspection/judging";
+import { dependentItems, type ItemRules, type ReadingEvidence } from "../../../shared/inspection/judging";
 import { rejudgeCalibration, type StandardError } from "../../../shared/investigations/cascade";
 import type {
   AffectedItemsPage,
@@ -44,9 +44,10 @@ const JOBS_PER_CHUNK = 200;
 
 /**
  * Re-judges readings taken with one tool whose error is `errors`, under the check sheet's rules: one item per reading.
- * One streaming pass over the check sheets they belong to: each sheet's current readings (the siblings a clearance or
- * taper is judged with) are loaded once, grouped by place index, and every affected reading of that sheet goes through
- * the same pure shared function as the sheet itself (shared/investigations/affected-reading.ts).
+ * One streaming pass over the check sheets they belong to: of each sheet, only the current readings at the places an
+ * affected reading is judged with (the other sides of its clearances, the other stations of its tapers) are loaded,
+ * grouped by place index, and every affected reading goes through the same pure shared function as the sheet itself
+ * (shared/investigations/affected-reading.ts).
  */
 async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolErrors, toolId: string): Promise<ItemInsert[]> {
   if (rs.length === 0) return [];
@@ -70,9 +71,26 @@ async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolEr
   const label = (it: ItemRules, index: number) => `${it.label}${it.repeat > 1 ? ` no. ${index}` : ""}`;
   const out = new Map<string, ItemInsert>();
 
+  // The places whose readings an affected reading of an item is judged with: its own, and the other sides of the
+  // clearances and the other stations of the tapers it feeds (judgeRow reads nothing else).
+  const sidesOf = new Map<string, string[]>();
+  for (const [tableId, list] of rulesOf)
+    for (const it of list) {
+      const keys = new Set([it.key]);
+      for (const d of dependentItems(list, it.key)) for (const k of [d.boreKey, d.journalKey, ...(d.stationKeys ?? [])]) if (k) keys.add(k);
+      sidesOf.set(`${tableId}:${it.key}`, [...keys]);
+    }
+
   for (let c = 0; c < jobIds.length; c += JOBS_PER_CHUNK) {
     const chunk = jobIds.slice(c, c + JOBS_PER_CHUNK);
-    const sheet = await repo.currentReadingsOfJobs(tx, chunk);
+    // The affected reading is itself the current reading of its own place; the other sides are read from the sheet.
+    const places = new Map<string, { jobId: string; index: number; itemKey: string }>();
+    for (const jobId of chunk)
+      for (const r of byJob.get(jobId)!)
+        for (const itemKey of sidesOf.get(`${jobById.get(jobId)!.limitTableId}:${r.itemKey}`) ?? [])
+          if (itemKey !== r.itemKey) places.set(`${jobId}:${r.index}:${itemKey}`, { jobId, index: r.index, itemKey });
+    const others = await repo.currentReadingsAtPlaces(tx, [...places.values()]);
+    const sheet = { readings: others, toolsOf: await repo.toolsOfReadings(tx, [...others, ...chunk.flatMap((j) => byJob.get(j)!)].map((r) => r.id)) };
     // Evidence per table unit (a legacy feeler reading's leaves are converted into its table's unit).
     const evidence = new Map<string, ReadingEvidence>();
     const rowsByTable = new Map<string, repo.ReadingRow[]>();
