@@ -394,6 +394,23 @@ describe("refusals and flags", () => {
     expect((await a.post(`/api/readings/${first.body.id}/supersede`, { reason: "Second try at the old one", values: [1.125, 1.1248], toolAssetTags: [mic.assetTag] })).body.error.code).toBe("reading_superseded");
   });
 
+  it("mechanics saving at once: one reading holds a place however many arrive together; different places are all saved (common practice, no source)", async () => {
+    const { job, mic, tel } = await pinSheet();
+    const a = await t.agent("mechanic");
+    const same = await Promise.all(Array.from({ length: 8 }, (_, i) => a.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 1, values: [1.125, 1.1240 + i / 10000], toolAssetTags: [mic.assetTag] })));
+    expect(same.map((r) => r.status).sort()).toEqual([201, 409, 409, 409, 409, 409, 409, 409]);
+    expect(same.filter((r) => r.status === 409).every((r) => r.body.error.code === "reading_exists")).toBe(true);
+    const fixes = await Promise.all(Array.from({ length: 6 }, (_, i) => a.post(`/api/readings/${same.find((r) => r.status === 201)!.body.id}/supersede`, { reason: `Measured again (${i})`, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] })));
+    expect(fixes.map((r) => r.status).sort()).toEqual([201, 409, 409, 409, 409, 409]);
+    const pins = (await readingsOf(job.id)).filter((r) => r.itemKey === "pin" && r.index === 1);
+    expect(pins).toHaveLength(2);
+    const both = await Promise.all([
+      a.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 2, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] }),
+      a.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin_bore", index: 2, values: [1.127, 1.1272], toolAssetTags: [tel.assetTag, mic.assetTag] }),
+    ]);
+    expect(both.map((r) => r.status)).toEqual([201, 201]);
+  });
+
   it("part temperature and material give a correction to 20 °C beside the raw size, never replacing it (ISO 1; JCGM 100 H.1)", async () => {
     const table = await makeLimitTable(t.db, { unit: "mm", items: [{ key: "journal", label: "Aluminium journal", kind: "journal", min: 49.9, max: 50.1 }] });
     const job = await makeJob(t.db, table.id, t.people.mechanic.id);

@@ -78,7 +78,8 @@ export const jobsRepository = {
       .from(jobs)
       .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
       .where(eq(jobs.id, id))
-      .for("update", { of: jobs });
+      // Shared: readings of different places go on side by side; a sign-off (FOR UPDATE) waits for them, and they for it.
+      .for("share", { of: jobs });
     return row;
   },
 

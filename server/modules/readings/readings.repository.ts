@@ -73,6 +73,14 @@ export const readingsRepository = {
     return row?.r;
   },
 
+  /**
+   * Serialises writers of one place of one sheet until the transaction ends (a transaction-level advisory lock keyed
+   * by the place): two readings or two corrections of the same place cannot both see it free; other places go on.
+   */
+  async lockPlace(db: DbOrTx, jobId: string, itemKey: string, index: number) {
+    await db.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`reading-place:${jobId}:${itemKey}:${index}`}, 0))`);
+  },
+
   findById: async (db: DbOrTx, id: string) => (await db.select().from(readings).where(eq(readings.id, id)))[0],
   successorOf: async (db: DbOrTx, id: string) => (await db.select({ id: readings.id }).from(readings).where(eq(readings.supersedesId, id)))[0],
 

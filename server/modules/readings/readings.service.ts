@@ -283,7 +283,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     return answer;
   }
 
-  /** Locks the job (a reading and a sign-off cannot cross) and reads what the write needs; never the whole sheet. */
+  /** Locks the job against a sign-off (a reading and a sign-off cannot cross) and reads what the write needs; never the whole sheet. */
   async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean) {
     const job = await jobsRepository.lockForReading(tx, jobId);
     if (!job) throw notFound("job", jobId);
@@ -298,6 +298,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     create(jobId: string, input: CreateReading, user: SessionUser) {
       return db.transaction(async (tx) => {
         const job = await lockOpenJob(tx, jobId, false);
+        await readingsRepository.lockPlace(tx, jobId, input.itemKey, input.index ?? 1);
         return record(tx, job, { jobId, itemKey: input.itemKey, index: input.index ?? 1 }, input, user);
       });
     },
@@ -309,6 +310,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
         if (!old) throw notFound("reading", readingId);
         // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
         const job = await lockOpenJob(tx, old.jobId, true);
+        await readingsRepository.lockPlace(tx, old.jobId, old.itemKey, old.index);
         const newer = await readingsRepository.successorOf(tx, readingId);
         if (newer) throw refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId: newer.id });
         const { reason, ...rest } = input;
