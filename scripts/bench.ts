@@ -27,7 +27,9 @@ const BASE = process.env.BENCH_PG_URL ?? "postgres://app@127.0.0.1:55439";
 const PASSWORD = "bench-password-0123456789";
 
 // ---- What is measured: one row per measure (paths here, nowhere else) ---------------------------------------
-type Ctx = { tag: () => string; sheetId: string; writeSheetId: string; investigationId: string | null; writeTag: () => string; nextPlace: () => { itemKey: string; index: number } };
+type Place = { sheetId: string; itemKey: string; index: number };
+/** `nextPlace` moves to a fresh place (called once per request, by its path); `place` is that place (read by its body). */
+type Ctx = { tag: () => string; sheetId: string; investigationId: string | null; writeTag: () => string; nextPlace: () => Place; place: () => Place };
 interface Measure {
   name: string;
   role: "mechanic" | "quality" | "inspector" | "admin";
@@ -54,8 +56,8 @@ const MEASURES: Measure[] = [
     goal: 8,
     perTool: true,
     method: "POST",
-    path: (c) => `/api/jobs/${c.writeSheetId}/readings`,
-    body: (c) => ({ ...c.nextPlace(), values: [2.5001, 2.5002], toolAssetTags: [c.writeTag()] }),
+    path: (c) => `/api/jobs/${c.nextPlace().sheetId}/readings`,
+    body: (c) => ({ itemKey: c.place().itemKey, index: c.place().index, values: [2.5001, 2.5002], toolAssetTags: [c.writeTag()] }),
   },
 ];
 const INVESTIGATION_OPEN_GOAL = 180;
@@ -112,19 +114,25 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       cross join lateral (select now() - ((k * 365 + (t.n * 37) % 420) || ' days')::interval - interval '3 hours' as at) c`,
   },
   {
+    // A shop of N tools has about N/100 mechanics, each holding about ten tools (the signed-in bench mechanic one of them).
+    name: "mechanics",
+    sql: (s) => `insert into users (email, name, role, password_hash) select 'mechanic' || g || '@bench.example', 'Bench mechanic ' || g, 'mechanic', 'x' from generate_series(1, ${Math.max(1, Math.round(s.tools / 100)) - 1}) g`,
+  },
+  {
     name: "checkouts",
     sql: () => `
+      with m as (select id, row_number() over (order by email) - 1 as n, count(*) over () as k from users where role = 'mechanic')
       insert into checkouts (tool_id, user_id, issued_at, due_back_at)
-      select t.id, (select id from users where role = 'mechanic'), now() - interval '2 hours', now() + interval '6 hours'
-      from tools t where substr(t.asset_tag, 3)::int % 10 = 0`,
+      select t.id, m.id, now() - interval '2 hours', now() + interval '6 hours'
+      from tools t join m on m.n = (substr(t.asset_tag, 3)::int / 10) % m.k where substr(t.asset_tag, 3)::int % 10 = 0`,
   },
   { name: "holds", sql: () => `insert into holds (tool_id, placed_at, reason) select id, now() - interval '1 day', 'Bench: dropped, to be checked' from tools where substr(asset_tag, 3)::int % 50 = 25` },
   {
     name: "limit table",
     sql: (s) => `
       with t as (insert into limit_tables (name, engine_model, unit, source_document, source_revision) values ('Bench journals', 'BENCH-1', 'in', 'Bench overhaul data (invented)', 'A') returning id)
-      insert into limit_items (limit_table_id, seq, key, label, kind, min, max, directions)
-      select t.id, g, 'J' || lpad(g::text, 3, '0'), 'Journal ' || g, 'journal', 2.4990, 2.5010, 2 from t, generate_series(1, ${s.itemsPerSheet}) g`,
+      insert into limit_items (limit_table_id, seq, key, label, kind, min, max, directions, repeat)
+      select t.id, g, 'J' || lpad(g::text, 3, '0'), 'Journal ' || g, 'journal', 2.4990, 2.5010, 2, ${s.indexesPerItem} from t, generate_series(1, ${s.itemsPerSheet}) g`,
   },
   {
     name: "check sheets",
@@ -162,11 +170,12 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       select r.id, ${JUDGING_RULES_VERSION}, 'within_limits', 'new', 'Within limits', '{}'::jsonb, r.taken_at from readings r`,
   },
 ];
-/** Empty sheets the record_reading measure writes to (one per round), made afresh for every run. */
+/** Empty sheets the record_reading measure writes to (five per round, 1,000 places each), made afresh for every run. */
+const WRITE_SHEETS_PER_ROUND = 5;
 const writeSheetsSql = (run: string) => `
   insert into jobs (limit_table_id, engine_serial, engine_model, work_order, opened_by, opened_at)
   select (select id from limit_tables limit 1), 'BW-${run}-' || g, 'BENCH-1', 'WO-W${run}-' || g, (select id from users where role = 'inspector'), now() - interval '1 hour'
-  from generate_series(1, ${ROUNDS}) g returning id`;
+  from generate_series(1, ${ROUNDS * WRITE_SHEETS_PER_ROUND}) g returning id`;
 
 async function countTools(url: string) {
   const c = new pg.Client({ connectionString: url });
@@ -198,10 +207,12 @@ async function fill(url: string, shape: Shape) {
 }
 
 // ---- Processes ---------------------------------------------------------------------------------------------
+/** Node options for the app's process only, e.g. BENCH_APP_NODE_ARGS="--cpu-prof --cpu-prof-dir=/tmp/prof" to profile it. */
+const appNodeArgs = (process.env.BENCH_APP_NODE_ARGS ?? "").split(" ").filter(Boolean);
 function startChild(kind: "app" | "floor", env: Record<string, string>): Promise<{ child: ChildProcess; url: string }> {
   const child =
     kind === "app"
-      ? spawn(process.execPath, ["--input-type=module", "-e", `const m = await import(${JSON.stringify(path.join(ROOT, "dist/server/server/index.js"))}); const r = await m.startServer(); process.send({ url: r.url });`], {
+      ? spawn(process.execPath, [...appNodeArgs, "--input-type=module", "-e", `const m = await import(${JSON.stringify(path.join(ROOT, "dist/server/server/index.js"))}); const r = await m.startServer(); process.on("SIGTERM", () => process.exit(0)); process.send({ url: r.url });`], {
           env: { ...process.env, ...env },
           stdio: ["ignore", "inherit", "inherit", "ipc"],
         })
@@ -314,16 +325,26 @@ async function measureScale(tools: number) {
     const pick = <T>(xs: T[]) => xs[Math.floor(Math.random() * xs.length)];
     for (let round = 1; round <= ROUNDS; round++) {
       let place = 0;
+      let current: Place | null = null;
+      const roundSheets = writeSheets.slice((round - 1) * WRITE_SHEETS_PER_ROUND, round * WRITE_SHEETS_PER_ROUND);
+      const perSheet = shape.itemsPerSheet * shape.indexesPerItem;
       const ctx: Ctx = {
         tag: () => pick(allTags),
         writeTag: () => pick(usable),
         sheetId,
-        writeSheetId: writeSheets[round - 1],
         investigationId: inv[0]?.id ?? null,
+        // Every place of the round's sheets once: item by item, then index by index, then the next sheet.
         nextPlace: () => {
           const p = place++;
-          return { itemKey: `J${String((p % shape.itemsPerSheet) + 1).padStart(3, "0")}`, index: Math.floor(p / shape.itemsPerSheet) + 1 };
+          const onSheet = p % perSheet;
+          current = {
+            sheetId: roundSheets[Math.floor(p / perSheet) % roundSheets.length],
+            itemKey: `J${String((onSheet % shape.itemsPerSheet) + 1).padStart(3, "0")}`,
+            index: Math.floor(onSheet / shape.itemsPerSheet) + 1,
+          };
+          return current;
         },
+        place: () => current!,
       };
       // Opening an investigation (in-process, as a lost-tool report or an out-of-tolerance calibration does inside its
       // own transaction): the re-judging of every affected reading and the insert of the items.

@@ -22,6 +22,9 @@ const ident = (s: string) => `"${s.replace(/"/g, '""')}"`;
 const literal = (s: string) => `'${s.replace(/'/g, "''")}'`;
 
 /** The privileges the runtime role needs, on what exists now and on what the owner creates later. */
+/** Tables only database triggers write (docs/decisions/013-indexed-status.md): read-only to the app. */
+export const TRIGGER_KEPT_TABLES = ["tool_states", "job_activity"];
+
 export const RUNTIME_GRANTS_SQL = [
   `GRANT USAGE ON SCHEMA public TO ${RUNTIME_GROUP}`,
   `GRANT SELECT, INSERT, UPDATE, DELETE ON ALL TABLES IN SCHEMA public TO ${RUNTIME_GROUP}`,
@@ -29,6 +32,14 @@ export const RUNTIME_GRANTS_SQL = [
   // Tables that later migrations add (from any branch) are granted as they are created.
   `ALTER DEFAULT PRIVILEGES FOR ROLE ${OWNER_ROLE} IN SCHEMA public GRANT SELECT, INSERT, UPDATE, DELETE ON TABLES TO ${RUNTIME_GROUP}`,
   `ALTER DEFAULT PRIVILEGES FOR ROLE ${OWNER_ROLE} IN SCHEMA public GRANT USAGE, SELECT ON SEQUENCES TO ${RUNTIME_GROUP}`,
+  // Tables kept only by the database's own triggers (as the owner): the app reads them, never writes them.
+  `DO $$ DECLARE t text; BEGIN
+     FOREACH t IN ARRAY ARRAY[${TRIGGER_KEPT_TABLES.map((t) => `'${t}'`).join(", ")}] LOOP
+       IF to_regclass('public.' || t) IS NOT NULL THEN
+         EXECUTE format('REVOKE INSERT, UPDATE, DELETE, TRUNCATE ON %I FROM ${RUNTIME_GROUP}, ${RUNTIME_ROLE}', t);
+       END IF;
+     END LOOP;
+   END $$`,
 ];
 
 export interface PrepareOptions {

@@ -9,7 +9,7 @@ import { memoryMailer, memoryStorage } from "../support/test-app";
 import { makeJob, makeLimitTable, signJob } from "../support/factories-investigations";
 import { makeTool, makeLab } from "../support/factories";
 import { holds, labShipments, setElements, storedFiles, checkouts, checkoutRefusals, investigations, investigationItems, intervalDecisions } from "../../server/db/schema";
-import { OWNER_ROLE, RUNTIME_GROUP } from "../../server/db/roles";
+import { OWNER_ROLE, RUNTIME_GROUP, TRIGGER_KEPT_TABLES, prepareDatabase } from "../../server/db/roles";
 
 // Evidence is held by the database, not by the app's good manners: the app runs as a role that owns
 // nothing, may not TRUNCATE, disable a trigger or switch triggers off for its session; every evidence
@@ -129,6 +129,22 @@ describe("the app's database role", () => {
     }
     const members = (await owner.query(`select pg_has_role('tenthwise_app', '${RUNTIME_GROUP}', 'member') as m`)).rows[0];
     expect(members).toEqual({ m: true });
+  });
+
+  it("only reads the tables the database keeps by its own triggers (each tool's status inputs, each sheet's activity), also after the app is started again", async () => {
+    const writable = async () =>
+      (
+        await database.db.execute(sql`
+          select t from unnest(${`{${TRIGGER_KEPT_TABLES.join(",")}}`}::text[]) t
+          where has_table_privilege(current_user, t, 'INSERT') or has_table_privilege(current_user, t, 'UPDATE') or has_table_privilege(current_user, t, 'DELETE')
+             or not has_table_privilege(current_user, t, 'SELECT')`)
+      ).rows;
+    expect(await writable()).toEqual([]);
+    // Every start grants the app the tables (and those later migrations add); the trigger-kept ones stay read-only.
+    await prepareDatabase({ adminUrl: database.adminUrl, database: database.name, migrate: false });
+    expect(await writable()).toEqual([]);
+    expect(await refusal("update job_activity set readings = 0")).toMatchObject({ code: "42501" });
+    expect(await refusal("delete from tool_states")).toMatchObject({ code: "42501" });
   });
 });
 

@@ -1,4 +1,4 @@
-import { pgTable, uuid, text, numeric, boolean, jsonb, timestamp, index, uniqueIndex, type AnyPgColumn } from "drizzle-orm/pg-core";
+import { pgTable, uuid, text, numeric, boolean, jsonb, timestamp, integer, index, uniqueIndex, type AnyPgColumn } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
 import { standards } from "../standards/standards.table";
@@ -53,9 +53,21 @@ export const investigationItems = pgTable(
     correctedValue: numeric("corrected_value"),
     /** The measured quantity, its span over the error band and every place re-judged (see shared/investigations/affected-reading). */
     rejudged: jsonb("rejudged"),
+    // Copied from the reading (or the cascade's calibration) when the item is written; evidence never changes, so the
+    // copies never go stale. They let a page of thousands of items come off one index in the order it is shown.
+    /** The check sheet's engine serial (null for a cascade's calibration: those come before any sheet). */
+    sheetSerial: text("sheet_serial"),
+    /** When the reading was taken (or the calibration performed). */
+    takenAt: timestamp("taken_at", { withTimezone: true }),
+    /** The place's index on the sheet. */
+    placeIndex: integer("place_index"),
+    /** The verdict the reading was recorded with. */
+    recordedVerdict: text("recorded_verdict", { enum: ["within_limits", "outside_limits", "pending"] }),
   },
   (t) => [
     index("investigation_items_investigation_idx").on(t.investigationId),
+    // The default order of the affected readings: could change first, then by sheet, time and place.
+    index("investigation_items_page_idx").on(t.investigationId, t.verdictCouldChange.desc().nullsFirst(), t.sheetSerial.asc().nullsFirst(), t.takenAt, t.placeIndex.asc().nullsFirst(), t.id),
     index("investigation_items_reading_idx").on(t.readingId),
     index("investigation_items_calibration_idx").on(t.calibrationId),
     index("investigation_items_tool_idx").on(t.toolId),

@@ -1,4 +1,5 @@
-import { pgTable, uuid, text, timestamp, index } from "drizzle-orm/pg-core";
+import { sql } from "drizzle-orm";
+import { pgTable, uuid, text, timestamp, integer, index } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { limitTables } from "../limit-tables/limit-tables.table";
 
@@ -33,4 +34,22 @@ export const jobSignoffs = pgTable(
     note: text("note"),
   },
   (t) => [index("job_signoffs_job_idx").on(t.jobId), index("job_signoffs_inspector_idx").on(t.inspectorId)],
+);
+
+/**
+ * Where each check sheet stands, kept by database triggers in the transaction of every reading and sign-off
+ * (never written by the app): its latest reading, how many readings it holds and its latest sign-off. "Awaiting
+ * signature" (readings since the last sign-off, or never signed) is then an index scan, not a walk of every sheet.
+ */
+export const jobActivity = pgTable(
+  "job_activity",
+  {
+    jobId: uuid("job_id")
+      .primaryKey()
+      .references(() => jobs.id),
+    lastReadingAt: timestamp("last_reading_at", { withTimezone: true }),
+    readings: integer("readings").notNull().default(0),
+    lastSignedAt: timestamp("last_signed_at", { withTimezone: true }),
+  },
+  (t) => [index("job_activity_awaiting_idx").on(t.jobId).where(sql`last_reading_at is not null and (last_signed_at is null or last_reading_at > last_signed_at)`)],
 );

@@ -1,6 +1,6 @@
 import { sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
-import { jobState } from "../jobs/job-state";
+import { awaitingSignatureOfActivity, jobState } from "../jobs/job-state";
 import { notReturnedCount } from "../checkouts/checkouts.repository";
 import { undisposedItemsOf } from "../investigations/investigations.repository";
 
@@ -57,27 +57,22 @@ export const statsRepository = {
   /** Unsigned check sheets the person opened or took readings on, newest activity first. */
   async myOpenJobs(db: DbOrTx, userId: string, limit = 50) {
     const r = await db.execute(sql`
-      select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at,
-        (select count(*) from readings r where r.job_id = j.id) as readings,
-        (select max(r.taken_at) from readings r where r.job_id = j.id) as last_reading_at
-      from jobs j
+      select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at, coalesce(a.readings, 0) as readings, a.last_reading_at
+      from jobs j left join job_activity a on a.job_id = j.id
       where ${sheet.open}
         and (j.opened_by = ${userId}::uuid or exists (select 1 from readings r where r.job_id = j.id and r.taken_by = ${userId}::uuid))
-      order by coalesce((select max(r.taken_at) from readings r where r.job_id = j.id), j.opened_at) desc
+      order by coalesce(a.last_reading_at, j.opened_at) desc
       limit ${limit}`);
     return (r.rows as Row[]).map(jobSummary);
   },
 
   /** Check sheets with readings and no sign-off covering them (the jobs list's ?status=awaiting_signature). */
   async sheetsAwaitingSignature(db: DbOrTx, limit = 50) {
-    const where = sheet.awaitingSignature;
     const [rows, count] = await Promise.all([
       db.execute(sql`
-        select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at,
-          (select count(*) from readings r where r.job_id = j.id) as readings,
-          (select max(r.taken_at) from readings r where r.job_id = j.id) as last_reading_at
-        from jobs j where ${where} order by j.opened_at limit ${limit}`),
-      db.execute(sql`select count(*)::int as n from jobs j where ${where}`),
+        select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at, a.readings, a.last_reading_at
+        from job_activity a join jobs j on j.id = a.job_id where ${awaitingSignatureOfActivity} order by j.opened_at limit ${limit}`),
+      db.execute(sql`select count(*)::int as n from job_activity a where ${awaitingSignatureOfActivity}`),
     ]);
     return { items: (rows.rows as Row[]).map(jobSummary), total: Number((count.rows[0] as Row).n) };
   },

@@ -1,4 +1,4 @@
-import { sql } from "drizzle-orm";
+import { sql, type SQL } from "drizzle-orm";
 import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
@@ -43,27 +43,43 @@ const dateOnly = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISO
  * the records as they stood then (gatherStatusesAt).
  */
 export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
-  const out = new Map<string, ToolStatusView>();
-  if (toolIds.length === 0) return out;
-  const ids = sql`${`{${toolIds.join(",")}}`}::uuid[]`;
+  if (toolIds.length === 0) return new Map();
+  return (await statusesWhere(db, sql`t.id = any(${`{${toolIds.join(",")}}`}::uuid[])`, at, ctx)).views;
+}
+
+/**
+ * One tool's status by its asset tag (exact, else differing in case only, as a scanned or typed tag may), with what
+ * a status answer shows of the tool: one query at the present.
+ */
+export async function statusByTag(db: DbOrTx, assetTag: string, at: Date, ctx: StatusContext) {
+  let found = await statusesWhere(db, sql`t.asset_tag = ${assetTag}`, at, ctx);
+  if (found.views.size === 0) found = await statusesWhere(db, sql`lower(t.asset_tag) = lower(${assetTag})`, at, ctx);
+  const [view] = found.views.values();
+  return view ? { view, ...found.tools.get(view.toolId)! } : null;
+}
+
+async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext) {
+  const views = new Map<string, ToolStatusView>();
+  const tools = new Map<string, { description: string; unit: string }>();
   const atTs = at.toISOString();
   const res = await db.execute(sql`
-    select t.id, t.asset_tag, t.unit, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
+    select t.id, t.asset_tag, t.unit, t.description, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
     from tools t
     left join tool_states s on s.tool_id = t.id
     left join users u on u.id = s.custody_user_id
-    where t.id = any(${ids})`);
+    where ${where}`);
   const past: string[] = [];
   for (const r of res.rows as Row[]) {
+    tools.set(String(r.id), { description: String(r.description), unit: String(r.unit) });
     const id = String(r.id);
     if (!r.has_state || (r.settled_at != null && Date.parse(iso(r.settled_at)!) > at.getTime())) {
       past.push(id);
       continue;
     }
-    out.set(id, fromState(r, atTs, ctx));
+    views.set(id, fromState(r, atTs, ctx));
   }
-  if (past.length) for (const [id, v] of await gatherStatusesAt(db, past, at, ctx)) out.set(id, v);
-  return out;
+  if (past.length) for (const [id, v] of await gatherStatusesAt(db, past, at, ctx)) views.set(id, v);
+  return { views, tools };
 }
 
 /** The derivation's inputs from a tool_states row (with the tool's tag and unit and the custodian's name), derived at `at`. */

@@ -1,6 +1,6 @@
 import Papa from "papaparse";
 import { toolsRepository, cursorCodec, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
-import { gatherStatusesAt, statusContext, statusesFor, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
+import { gatherStatusesAt, statusByTag, statusContext, statusesFor, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
 import { eventsAfter, statusNow } from "./tool-states.sql";
 import { changeLifecycle, lockTool, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
 import { recordAudit } from "../audit/audit.repository";
@@ -250,10 +250,11 @@ export function toolsService(deps: RegisterDeps) {
     },
 
     async status(assetTag: string, at?: string): Promise<ToolStatusResponse> {
-      const tool = await getToolRow(db, assetTag);
       const when = at ? new Date(at) : clock.now();
-      const v = await statusOf(db, tool.id, when, await ctx());
-      return { assetTag: tool.assetTag, at: when.toISOString(), description: tool.description, unit: tool.unit, lastCalibration: v.lastCalibration, ...statusPart(v) };
+      const found = await statusByTag(db, assetTag, when, await ctx());
+      if (!found) throw notFound("tool", assetTag);
+      const { view: v, description, unit } = found;
+      return { assetTag: v.assetTag, at: when.toISOString(), description, unit: unit as ToolStatusResponse["unit"], lastCalibration: v.lastCalibration, ...statusPart(v) };
     },
 
     async create(input: CreateTool, actorId: string | null): Promise<ToolDetail> {

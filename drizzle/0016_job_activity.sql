@@ -1,0 +1,52 @@
+CREATE TABLE "job_activity" (
+	"job_id" uuid PRIMARY KEY NOT NULL,
+	"last_reading_at" timestamp with time zone,
+	"readings" integer DEFAULT 0 NOT NULL,
+	"last_signed_at" timestamp with time zone
+);
+--> statement-breakpoint
+ALTER TABLE "job_activity" ADD CONSTRAINT "job_activity_job_id_jobs_id_fk" FOREIGN KEY ("job_id") REFERENCES "public"."jobs"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
+CREATE INDEX "job_activity_awaiting_idx" ON "job_activity" USING btree ("job_id") WHERE last_reading_at is not null and (last_signed_at is null or last_reading_at > last_signed_at);--> statement-breakpoint
+-- Kept by the database, in the transaction of each write: a statement's new readings move their sheets' latest
+-- reading and count; a sign-off moves its sheet's latest sign-off. Security definer: the app only reads the table.
+CREATE OR REPLACE FUNCTION tenthwise_job_activity_readings() RETURNS trigger
+LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
+BEGIN
+  INSERT INTO job_activity (job_id, last_reading_at, readings)
+  SELECT job_id, max(taken_at), count(*) FROM new_rows GROUP BY job_id
+  ON CONFLICT (job_id) DO UPDATE SET
+    last_reading_at = greatest(job_activity.last_reading_at, excluded.last_reading_at),
+    readings = job_activity.readings + excluded.readings;
+  RETURN NULL;
+END $$;
+--> statement-breakpoint
+CREATE OR REPLACE FUNCTION tenthwise_job_activity_signoffs() RETURNS trigger
+LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
+BEGIN
+  INSERT INTO job_activity (job_id, last_signed_at)
+  SELECT job_id, max(signed_at) FROM new_rows GROUP BY job_id
+  ON CONFLICT (job_id) DO UPDATE SET last_signed_at = greatest(job_activity.last_signed_at, excluded.last_signed_at);
+  RETURN NULL;
+END $$;
+--> statement-breakpoint
+CREATE TRIGGER readings_job_activity AFTER INSERT ON readings REFERENCING NEW TABLE AS new_rows
+  FOR EACH STATEMENT EXECUTE FUNCTION tenthwise_job_activity_readings();
+--> statement-breakpoint
+CREATE TRIGGER job_signoffs_job_activity AFTER INSERT ON job_signoffs REFERENCING NEW TABLE AS new_rows
+  FOR EACH STATEMENT EXECUTE FUNCTION tenthwise_job_activity_signoffs();
+--> statement-breakpoint
+-- The sheets already on record.
+INSERT INTO job_activity (job_id, last_reading_at, readings, last_signed_at)
+SELECT j.id, r.last_at, coalesce(r.n, 0), s.last_at
+FROM jobs j
+LEFT JOIN (SELECT job_id, max(taken_at) AS last_at, count(*)::int AS n FROM readings GROUP BY job_id) r ON r.job_id = j.id
+LEFT JOIN (SELECT job_id, max(signed_at) AS last_at FROM job_signoffs GROUP BY job_id) s ON s.job_id = j.id
+WHERE r.job_id IS NOT NULL OR s.job_id IS NOT NULL;
+--> statement-breakpoint
+DO $$
+BEGIN
+  IF EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'tenthwise_runtime') THEN
+    REVOKE INSERT, UPDATE, DELETE, TRUNCATE ON job_activity FROM tenthwise_runtime;
+    GRANT SELECT ON job_activity TO tenthwise_runtime;
+  END IF;
+END $$;
