@@ -16,16 +16,18 @@ import type { Recipient, StoredFinding } from "./investigations.types";
  */
 export async function recordNotices(tx: Tx, investigationId: string, finding: StoredFinding): Promise<StoredFinding> {
   const { quality, measured, signed } = await noticeRecipients(tx, investigationId);
-  const byEmail = new Map<string, Recipient>();
+  // Reasons in the order first met, each once (a set: a busy tool's reader may have measured on a thousand engines).
+  const byEmail = new Map<string, { email: string; name: string; reasons: Set<string> }>();
   const add = (u: { email: string; name: string }, reason: string) => {
-    const r = byEmail.get(u.email) ?? { email: u.email, name: u.name, reasons: [] };
-    if (!r.reasons.includes(reason)) r.reasons.push(reason);
+    const r = byEmail.get(u.email) ?? { email: u.email, name: u.name, reasons: new Set<string>() };
+    r.reasons.add(reason);
     byEmail.set(u.email, r);
   };
   for (const u of quality) add(u, "quality");
   for (const u of signed) add(u, `signed the check sheet of engine ${u.engineSerial}`);
   for (const u of measured) add(u, `measured on engine ${u.engineSerial}`);
-  const next: StoredFinding = { ...finding, notifications: { status: "pending", recipients: [...byEmail.values()], sentAt: null } };
+  const recipients: Recipient[] = [...byEmail.values()].map((r) => ({ email: r.email, name: r.name, reasons: [...r.reasons] }));
+  const next: StoredFinding = { ...finding, notifications: { status: "pending", recipients, sentAt: null } };
   await setFinding(tx, investigationId, next);
   return next;
 }

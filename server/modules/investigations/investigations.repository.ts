@@ -234,9 +234,9 @@ export async function insertItems(tx: DbOrTx, investigationId: string, values: I
     }));
     await tx.execute(sql`
       insert into investigation_items (investigation_id, reading_id, calibration_id, tool_id, verdict_could_change, basis, margin_before, margin_after, corrected_value, rejudged,
-        sheet_serial, taken_at, place_index, recorded_verdict)
+        job_id, sheet_serial, taken_by, taken_at, place_index, recorded_verdict)
       select ${investigationId}::uuid, x.reading_id, x.calibration_id, x.tool_id, x.verdict_could_change, x.basis, x.margin_before, x.margin_after, x.corrected_value, x.rejudged,
-        j.engine_serial, coalesce(r.taken_at, c.performed_at), r.index, r.verdict
+        r.job_id, j.engine_serial, r.taken_by, coalesce(r.taken_at, c.performed_at), r.index, r.verdict
       from jsonb_to_recordset(${JSON.stringify(batch)}::jsonb)
         as x(reading_id uuid, calibration_id uuid, tool_id uuid, verdict_could_change boolean, basis text, margin_before numeric, margin_after numeric, corrected_value numeric, rejudged jsonb)
         left join readings r on r.id = x.reading_id
@@ -263,18 +263,14 @@ export async function claimPendingNotices(tx: DbOrTx, investigationId: string) {
 export async function noticeRecipients(tx: DbOrTx, investigationId: string) {
   const quality = await tx.select({ id: users.id, email: users.email, name: users.name }).from(users).where(and(eq(users.role, "quality"), eq(users.active, true)));
   const measured = await tx
-    .selectDistinct({ id: users.id, email: users.email, name: users.name, engineSerial: jobs.engineSerial })
+    .selectDistinct({ id: users.id, email: users.email, name: users.name, engineSerial: investigationItems.sheetSerial })
     .from(investigationItems)
-    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
-    .innerJoin(jobs, eq(jobs.id, readings.jobId))
-    .innerJoin(users, eq(users.id, readings.takenBy))
+    .innerJoin(users, eq(users.id, investigationItems.takenBy))
     .where(and(eq(investigationItems.investigationId, investigationId), eq(users.active, true)));
   const signed = await tx
-    .selectDistinct({ id: users.id, email: users.email, name: users.name, engineSerial: jobs.engineSerial })
+    .selectDistinct({ id: users.id, email: users.email, name: users.name, engineSerial: investigationItems.sheetSerial })
     .from(investigationItems)
-    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
-    .innerJoin(jobs, eq(jobs.id, readings.jobId))
-    .innerJoin(jobSignoffs, eq(jobSignoffs.jobId, jobs.id))
+    .innerJoin(jobSignoffs, eq(jobSignoffs.jobId, investigationItems.jobId))
     .innerJoin(users, eq(users.id, jobSignoffs.inspectorId))
     .where(and(eq(investigationItems.investigationId, investigationId), eq(users.active, true)));
   return { quality, measured, signed };
@@ -425,7 +421,7 @@ function itemConditions(investigationId: string, f: ItemFilter): SQL {
   if (f.verdict) conds.push(eq(investigationItems.recordedVerdict, f.verdict));
   if (f.disposition === "none") conds.push(itemWithoutDisposition);
   else if (f.disposition) conds.push(sql`${currentDispositionKind} = ${f.disposition}`);
-  if (f.jobId) conds.push(eq(readings.jobId, f.jobId));
+  if (f.jobId) conds.push(eq(investigationItems.jobId, f.jobId));
   if (f.q) {
     const like = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
     conds.push(
@@ -481,7 +477,7 @@ export async function itemPage(tx: DbOrTx, investigationId: string, f: ItemFilte
     if (col) order.push(desc ? sql`${col} desc nulls last` : sql`${col} asc nulls first`);
   }
   order.push(...DEFAULT_ORDER);
-  if (!f.q && !f.jobId && !(f.sort && JOINED_SORTS.has(f.sort.replace(/^-/, "")))) {
+  if (!f.q && !(f.sort && JOINED_SORTS.has(f.sort.replace(/^-/, "")))) {
     // Filtered and sorted on the items' own columns: the page comes off investigation_items_page_idx, then what it
     // shows of each item is read by id (a handful of small queries instead of one seven-table join to plan).
     const items = await tx
@@ -557,8 +553,8 @@ async function selectIn<T extends typeof readings | typeof jobs | typeof calibra
 
 /** Counts over an investigation's items (or those a filter keeps): could change or hold, by recorded verdict, undisposed. */
 export async function itemTotals(tx: DbOrTx, investigationId: string, f: ItemFilter = {}) {
-  // Only a text or sheet filter reads the joined tables; otherwise the items alone answer (no joins to plan).
-  const from = f.q || f.jobId ? itemsFrom : <T extends Record<string, unknown>>(db: DbOrTx, fields: T) => db.select(fields as never).from(investigationItems);
+  // Only a text filter reads the joined tables; otherwise the items alone answer (no joins to plan).
+  const from = f.q ? itemsFrom : <T extends Record<string, unknown>>(db: DbOrTx, fields: T) => db.select(fields as never).from(investigationItems);
   const [row] = (await from(tx, {
     items: sql<number>`count(*)::int`,
     readings: sql<number>`count(${investigationItems.readingId})::int`,
@@ -594,8 +590,7 @@ export async function itemJobs(tx: DbOrTx, investigationId: string) {
   return tx
     .select({ id: jobs.id, engineSerial: jobs.engineSerial, workOrder: jobs.workOrder, count: sql<number>`count(*)::int` })
     .from(investigationItems)
-    .innerJoin(readings, eq(readings.id, investigationItems.readingId))
-    .innerJoin(jobs, eq(jobs.id, readings.jobId))
+    .innerJoin(jobs, eq(jobs.id, investigationItems.jobId))
     .where(eq(investigationItems.investigationId, investigationId))
     .groupBy(jobs.id, jobs.engineSerial, jobs.workOrder)
     .orderBy(asc(jobs.engineSerial));

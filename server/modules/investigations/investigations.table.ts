@@ -55,8 +55,11 @@ export const investigationItems = pgTable(
     rejudged: jsonb("rejudged"),
     // Copied from the reading (or the cascade's calibration) when the item is written; evidence never changes, so the
     // copies never go stale. They let a page of thousands of items come off one index in the order it is shown.
-    /** The check sheet's engine serial (null for a cascade's calibration: those come before any sheet). */
+    /** The reading's check sheet and its engine serial (null for a cascade's calibration: those come before any sheet). */
+    jobId: uuid("job_id"),
     sheetSerial: text("sheet_serial"),
+    /** Who took the reading (told of the investigation). */
+    takenBy: uuid("taken_by"),
     /** When the reading was taken (or the calibration performed). */
     takenAt: timestamp("taken_at", { withTimezone: true }),
     /** The place's index on the sheet. */

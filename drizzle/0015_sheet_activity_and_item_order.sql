@@ -5,8 +5,22 @@ CREATE TABLE "job_activity" (
 	"last_signed_at" timestamp with time zone
 );
 --> statement-breakpoint
+ALTER TABLE "investigation_items" ADD COLUMN "job_id" uuid;--> statement-breakpoint
+ALTER TABLE "investigation_items" ADD COLUMN "sheet_serial" text;--> statement-breakpoint
+ALTER TABLE "investigation_items" ADD COLUMN "taken_by" uuid;--> statement-breakpoint
+ALTER TABLE "investigation_items" ADD COLUMN "taken_at" timestamp with time zone;--> statement-breakpoint
+ALTER TABLE "investigation_items" ADD COLUMN "place_index" integer;--> statement-breakpoint
+ALTER TABLE "investigation_items" ADD COLUMN "recorded_verdict" text;--> statement-breakpoint
 ALTER TABLE "job_activity" ADD CONSTRAINT "job_activity_job_id_jobs_id_fk" FOREIGN KEY ("job_id") REFERENCES "public"."jobs"("id") ON DELETE no action ON UPDATE no action;--> statement-breakpoint
 CREATE INDEX "job_activity_awaiting_idx" ON "job_activity" USING btree ("job_id") WHERE last_reading_at is not null and (last_signed_at is null or last_reading_at > last_signed_at);--> statement-breakpoint
+CREATE INDEX "investigation_items_page_idx" ON "investigation_items" USING btree ("investigation_id","verdict_could_change" DESC NULLS FIRST,"sheet_serial" NULLS FIRST,"taken_at","place_index" NULLS FIRST,"id");--> statement-breakpoint
+-- Existing items take their copies from their readings (or calibrations); closed investigations' items are evidence
+-- guarded by a trigger, which is set aside for this one backfill of new columns only.
+ALTER TABLE "investigation_items" DISABLE TRIGGER "investigation_items_closed";--> statement-breakpoint
+UPDATE "investigation_items" i SET "job_id" = r."job_id", "sheet_serial" = j."engine_serial", "taken_by" = r."taken_by", "taken_at" = r."taken_at", "place_index" = r."index", "recorded_verdict" = r."verdict"
+  FROM "readings" r JOIN "jobs" j ON j."id" = r."job_id" WHERE r."id" = i."reading_id";--> statement-breakpoint
+UPDATE "investigation_items" i SET "taken_at" = c."performed_at" FROM "calibrations" c WHERE c."id" = i."calibration_id" AND i."reading_id" IS NULL;--> statement-breakpoint
+ALTER TABLE "investigation_items" ENABLE TRIGGER "investigation_items_closed";--> statement-breakpoint
 -- Kept by the database, in the transaction of each write: a statement's new readings move their sheets' latest
 -- reading and count; a sign-off moves its sheet's latest sign-off. Security definer: the app only reads the table.
 CREATE OR REPLACE FUNCTION tenthwise_job_activity_readings() RETURNS trigger
