@@ -21,16 +21,17 @@ UPDATE "investigation_items" i SET "job_id" = r."job_id", "sheet_serial" = j."en
   FROM "readings" r JOIN "jobs" j ON j."id" = r."job_id" WHERE r."id" = i."reading_id";--> statement-breakpoint
 UPDATE "investigation_items" i SET "taken_at" = c."performed_at" FROM "calibrations" c WHERE c."id" = i."calibration_id" AND i."reading_id" IS NULL;--> statement-breakpoint
 ALTER TABLE "investigation_items" ENABLE TRIGGER "investigation_items_closed";--> statement-breakpoint
--- Kept by the database, in the transaction of each write: a statement's new readings move their sheets' latest
--- reading and count; a sign-off moves its sheet's latest sign-off. Security definer: the app only reads the table.
-CREATE OR REPLACE FUNCTION tenthwise_job_activity_readings() RETURNS trigger
+-- Kept by the database, in the transaction of each write: a reading moves its sheet's latest reading and count (at
+-- commit: a deferred trigger, so mechanics saving readings on one sheet at once wait for each other only while they
+-- commit, not for the whole of each other's write); a sign-off moves its sheet's latest sign-off. Security definer:
+-- the app only reads the table.
+CREATE OR REPLACE FUNCTION tenthwise_job_activity_reading() RETURNS trigger
 LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
 BEGIN
-  INSERT INTO job_activity (job_id, last_reading_at, readings)
-  SELECT job_id, max(taken_at), count(*) FROM new_rows GROUP BY job_id
+  INSERT INTO job_activity (job_id, last_reading_at, readings) VALUES (NEW.job_id, NEW.taken_at, 1)
   ON CONFLICT (job_id) DO UPDATE SET
     last_reading_at = greatest(job_activity.last_reading_at, excluded.last_reading_at),
-    readings = job_activity.readings + excluded.readings;
+    readings = job_activity.readings + 1;
   RETURN NULL;
 END $$;
 --> statement-breakpoint
@@ -43,8 +44,8 @@ BEGIN
   RETURN NULL;
 END $$;
 --> statement-breakpoint
-CREATE TRIGGER readings_job_activity AFTER INSERT ON readings REFERENCING NEW TABLE AS new_rows
-  FOR EACH STATEMENT EXECUTE FUNCTION tenthwise_job_activity_readings();
+CREATE CONSTRAINT TRIGGER readings_job_activity AFTER INSERT ON readings DEFERRABLE INITIALLY DEFERRED
+  FOR EACH ROW EXECUTE FUNCTION tenthwise_job_activity_reading();
 --> statement-breakpoint
 CREATE TRIGGER job_signoffs_job_activity AFTER INSERT ON job_signoffs REFERENCING NEW TABLE AS new_rows
   FOR EACH STATEMENT EXECUTE FUNCTION tenthwise_job_activity_signoffs();

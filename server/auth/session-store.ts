@@ -10,15 +10,67 @@ import connectPgSimple from "connect-pg-simple";
 export const TOUCH_INTERVAL_MS = 15 * 60 * 1000;
 const MAX_TRACKED = 20_000;
 
+/**
+ * How long one instance reuses a session it read from the database. Most requests only read their session, and
+ * that read was half of what a status lookup cost the database; a session changed or ended through this instance
+ * (sign-in, sign-out, a password reset, a deactivation) is dropped from it at once, and one ended through another
+ * instance is seen here within this time (as the signed-in person is: signed-in-cache.ts).
+ */
+export const SESSION_REUSE_MS = 5_000;
+const MAX_CACHED = 5_000;
+
+/** Every store of this process (weakly held), so that ending a person's sessions drops them from each one's cache. */
+const stores = new Set<WeakRef<SessionStore>>();
+
+/** Drops every cached session of a person from every store of this process (their stored sessions were deleted). */
+export function forgetSessionsOf(userId: string) {
+  for (const ref of stores) {
+    const store = ref.deref();
+    if (store) store.forgetUser(userId);
+    else stores.delete(ref);
+  }
+}
+
 const PgStore = connectPgSimple(session);
 type PgStoreOptions = ConstructorParameters<typeof PgStore>[0];
 
 /** connect-pg-simple's store, with the expiry written only when it moved by TOUCH_INTERVAL_MS. */
 export class SessionStore extends PgStore {
   readonly #written = new Map<string, number>();
+  readonly #cached = new Map<string, { at: number; json: string; userId: string | null; expires: number }>();
 
   constructor(options: PgStoreOptions, private readonly touchIntervalMs = TOUCH_INTERVAL_MS) {
     super(options);
+    stores.add(new WeakRef(this));
+  }
+
+  #cache(sid: string, sess: session.SessionData | null | undefined) {
+    if (!sess) {
+      this.#cached.delete(sid);
+      return;
+    }
+    if (this.#cached.size >= MAX_CACHED) this.#cached.clear();
+    const expires = sess.cookie?.expires ? new Date(sess.cookie.expires).getTime() : Infinity;
+    const userId = (sess as { passport?: { user?: string } }).passport?.user ?? null;
+    this.#cached.set(sid, { at: Date.now(), json: JSON.stringify(sess), userId, expires });
+  }
+
+  override get(sid: string, fn: (err: unknown, session?: session.SessionData | null) => void) {
+    const hit = this.#cached.get(sid);
+    const now = Date.now();
+    if (hit && now - hit.at < SESSION_REUSE_MS && hit.expires > now) {
+      fn(null, JSON.parse(hit.json) as session.SessionData);
+      return;
+    }
+    super.get(sid, (err: unknown, sess?: session.SessionData | null) => {
+      if (!err) this.#cache(sid, sess);
+      fn(err, sess);
+    });
+  }
+
+  /** Forget the cached sessions of one person. */
+  forgetUser(userId: string) {
+    for (const [sid, c] of this.#cached) if (c.userId === userId) this.#cached.delete(sid);
   }
 
   #remember(sid: string) {
@@ -32,7 +84,11 @@ export class SessionStore extends PgStore {
 
   override set(sid: string, sess: session.SessionData, fn?: (err?: unknown) => void) {
     this.#remember(sid);
-    super.set(sid, sess, fn);
+    this.#cached.delete(sid);
+    super.set(sid, sess, (err?: unknown) => {
+      if (!err) this.#cache(sid, sess);
+      fn?.(err);
+    });
   }
 
   override touch(sid: string, sess: session.SessionData, fn?: (err?: unknown) => void) {
@@ -47,6 +103,7 @@ export class SessionStore extends PgStore {
 
   override destroy(sid: string, fn?: (err?: unknown) => void) {
     this.#written.delete(sid);
+    this.#cached.delete(sid);
     super.destroy(sid, fn);
   }
 }

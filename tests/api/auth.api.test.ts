@@ -71,10 +71,14 @@ describe("signing in and out", () => {
     expect(again.status).toBe(401);
   });
 
-  it("an admin resets a password: the old one stops working, the new one works", async () => {
+  it("an admin resets a password: the old one stops working, the new one works, and the session signed in with the old one ends at once", async () => {
     const admin = await t.agent("admin");
     const created = await admin.post("/api/users", { email: "forgetful@test.example", name: "Fern Getful", role: "inspector", password: "first-password-1" });
+    const before = await t.agent();
+    expect((await before.post("/api/auth/login", { email: "forgetful@test.example", password: "first-password-1" })).status).toBe(200);
+    expect((await before.raw.get("/api/auth/me")).status).toBe(200);
     expect((await admin.post(`/api/users/${created.body.id}/password`, { password: "second-password-2" })).status).toBe(204);
+    expect((await before.raw.get("/api/auth/me")).status).toBe(401);
     expect((await (await t.agent()).post("/api/auth/login", { email: "forgetful@test.example", password: "first-password-1" })).status).toBe(401);
     expect((await (await t.agent()).post("/api/auth/login", { email: "forgetful@test.example", password: "second-password-2" })).status).toBe(200);
   });

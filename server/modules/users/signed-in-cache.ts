@@ -5,7 +5,8 @@ import type { UserRow } from "./users.repository";
  * requests (a tablet polling, a list and its counts) does not read the users row each time. A change
  * of role, name or active flag made through this process drops the entry at once; one made by
  * another instance on the same database is seen within SIGNED_IN_CACHE_MS. Deactivating someone also
- * deletes their sessions, which ends them on every instance at once.
+ * deletes their sessions (and drops them from this instance's session cache), which ends them here at once and
+ * on other instances within SESSION_REUSE_MS (server/auth/session-store.ts).
  */
 export const SIGNED_IN_CACHE_MS = 5_000;
 const MAX_ENTRIES = 5_000;

@@ -3,6 +3,7 @@ import type { Db } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import { usersRepository, type UserRow } from "./users.repository";
 import { forgetSignedInUser } from "./signed-in-cache";
+import { forgetSessionsOf } from "../../auth/session-store";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound } from "../../http/errors";
 import { assertStrongPassword } from "../../auth/password-policy";
@@ -73,7 +74,10 @@ export function usersService({ db, clock }: { db: Db; clock: Clock }) {
         if (patch.active === false) await usersRepository.deleteSessions(tx, id);
         await recordAudit(tx, { actorId, action: "user.update", entityType: "user", entityId: id, before: toUserDetail(before), after: toUserDetail(row) });
         return toUserDetail(row);
-      }).finally(() => forgetSignedInUser(id));
+      }).finally(() => {
+        forgetSignedInUser(id);
+        if (patch.active === false) forgetSessionsOf(id);
+      });
     },
 
     async resetPassword(id: string, password: string, actorId: string) {
@@ -84,7 +88,7 @@ export function usersService({ db, clock }: { db: Db; clock: Clock }) {
         await usersRepository.update(tx, id, { passwordHash: await bcrypt.hash(password, BCRYPT_COST) });
         await usersRepository.deleteSessions(tx, id);
         await recordAudit(tx, { actorId, action: "user.reset_password", entityType: "user", entityId: id });
-      });
+      }).finally(() => forgetSessionsOf(id));
     },
   };
 }
