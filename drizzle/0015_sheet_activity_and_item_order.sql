@@ -57,11 +57,3 @@ FROM jobs j
 LEFT JOIN (SELECT job_id, max(taken_at) AS last_at, count(*)::int AS n FROM readings GROUP BY job_id) r ON r.job_id = j.id
 LEFT JOIN (SELECT job_id, max(signed_at) AS last_at FROM job_signoffs GROUP BY job_id) s ON s.job_id = j.id
 WHERE r.job_id IS NOT NULL OR s.job_id IS NOT NULL;
---> statement-breakpoint
-DO $$
-BEGIN
-  IF EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'tenthwise_runtime') THEN
-    REVOKE INSERT, UPDATE, DELETE, TRUNCATE ON job_activity FROM tenthwise_runtime;
-    GRANT SELECT ON job_activity TO tenthwise_runtime;
-  END IF;
-END $$;

@@ -14,13 +14,13 @@ fi
 if [ -n "${BENCH_DIR:-}" ]; then
   # A kept cluster (with --reuse, a filled database of the same scale is measured again without refilling).
   TMP="$BENCH_DIR"; mkdir -p "$TMP"; chmod 755 "$TMP"
-  [ -s "$TMP/port" ] || node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})' > "$TMP/port"
+  [ -s "$TMP/port" ] || free_port > "$TMP/port"
   PORT="$(cat "$TMP/port")"
   say "keeping the cluster in $TMP (port $PORT); stop it with: pg_ctl -D $TMP/pg stop"
 else
   TMP="$(mktemp -d /tmp/tenthwise-bench.XXXXXX)"
   chmod 755 "$TMP"
-  PORT="$(node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})')"
+  PORT="$(free_port)"
   cleanup() { stop_cluster "$TMP"; rm -rf "$TMP"; }
   trap cleanup EXIT
 fi

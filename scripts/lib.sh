@@ -11,6 +11,8 @@ export AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED=true
 
 say() { printf '[tenthwise] %s\n' "$*"; }
 die() { printf '[tenthwise] %s\n' "$*" >&2; exit 1; }
+# free_port: a TCP port nothing listens on now (loopback), printed.
+free_port() { node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})'; }
 
 ensure_node_modules() {
   if [ ! -x "$ROOT/node_modules/.bin/vite" ] || [ "$ROOT/package-lock.json" -nt "$ROOT/node_modules/.package-lock.json" ]; then

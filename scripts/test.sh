@@ -9,7 +9,7 @@ ensure_chromium
 
 TMP="$(mktemp -d /tmp/tenthwise-test.XXXXXX)"
 chmod 755 "$TMP"
-PORT="$(node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})')"
+PORT="$(free_port)"
 cleanup() { stop_cluster "$TMP"; rm -rf "$TMP"; }
 trap cleanup EXIT
 start_cluster "$TMP" "$PORT" trust "" fast

@@ -21,10 +21,19 @@ export function withCredentials(url: string, user: string, password?: string, da
 const ident = (s: string) => `"${s.replace(/"/g, '""')}"`;
 const literal = (s: string) => `'${s.replace(/'/g, "''")}'`;
 
-/** The privileges the runtime role needs, on what exists now and on what the owner creates later. */
 /** Tables only database triggers write (docs/decisions/013-indexed-status.md): read-only to the app. */
 export const TRIGGER_KEPT_TABLES = ["tool_states", "job_activity"];
 
+/** Takes back from the app every write on the trigger-kept tables that exist (run at every start and after migrating). */
+const REVOKE_TRIGGER_KEPT_SQL = `DO $$ DECLARE t text; BEGIN
+  FOREACH t IN ARRAY ARRAY[${TRIGGER_KEPT_TABLES.map((t) => `'${t}'`).join(", ")}] LOOP
+    IF to_regclass('public.' || t) IS NOT NULL THEN
+      EXECUTE format('REVOKE INSERT, UPDATE, DELETE, TRUNCATE ON %I FROM ${RUNTIME_GROUP}, ${RUNTIME_ROLE}', t);
+    END IF;
+  END LOOP;
+END $$`;
+
+/** The privileges the runtime role needs, on what exists now and on what the owner creates later. */
 export const RUNTIME_GRANTS_SQL = [
   `GRANT USAGE ON SCHEMA public TO ${RUNTIME_GROUP}`,
   `GRANT SELECT, INSERT, UPDATE, DELETE ON ALL TABLES IN SCHEMA public TO ${RUNTIME_GROUP}`,
@@ -33,13 +42,7 @@ export const RUNTIME_GRANTS_SQL = [
   `ALTER DEFAULT PRIVILEGES FOR ROLE ${OWNER_ROLE} IN SCHEMA public GRANT SELECT, INSERT, UPDATE, DELETE ON TABLES TO ${RUNTIME_GROUP}`,
   `ALTER DEFAULT PRIVILEGES FOR ROLE ${OWNER_ROLE} IN SCHEMA public GRANT USAGE, SELECT ON SEQUENCES TO ${RUNTIME_GROUP}`,
   // Tables kept only by the database's own triggers (as the owner): the app reads them, never writes them.
-  `DO $$ DECLARE t text; BEGIN
-     FOREACH t IN ARRAY ARRAY[${TRIGGER_KEPT_TABLES.map((t) => `'${t}'`).join(", ")}] LOOP
-       IF to_regclass('public.' || t) IS NOT NULL THEN
-         EXECUTE format('REVOKE INSERT, UPDATE, DELETE, TRUNCATE ON %I FROM ${RUNTIME_GROUP}, ${RUNTIME_ROLE}', t);
-       END IF;
-     END LOOP;
-   END $$`,
+  REVOKE_TRIGGER_KEPT_SQL,
 ];
 
 export interface PrepareOptions {
@@ -118,6 +121,16 @@ export async function prepareDatabase(opts: PrepareOptions): Promise<{ ownerUrl:
 
   const ownerUrl = withCredentials(opts.adminUrl, OWNER_ROLE, opts.ownerPassword, opts.database);
   const runtimeUrl = withCredentials(opts.adminUrl, RUNTIME_ROLE, opts.runtimePassword, opts.database);
-  if (opts.migrate !== false) await runMigrations(ownerUrl);
+  if (opts.migrate !== false) {
+    await runMigrations(ownerUrl);
+    // A table a migration just created was granted to the app by default privileges: take the writes back.
+    const owner = new pg.Client({ connectionString: ownerUrl });
+    await owner.connect();
+    try {
+      await owner.query(REVOKE_TRIGGER_KEPT_SQL);
+    } finally {
+      await owner.end();
+    }
+  }
   return { ownerUrl, runtimeUrl };
 }
