@@ -17,13 +17,9 @@ if [ -n "${BENCH_DIR:-}" ]; then
   [ -s "$TMP/port" ] || free_port > "$TMP/port"
   PORT="$(cat "$TMP/port")"
   say "keeping the cluster in $TMP (port $PORT); stop it with: pg_ctl -D $TMP/pg stop"
+  start_cluster "$TMP" "$PORT" trust "" fast
 else
-  TMP="$(mktemp -d /tmp/tenthwise-bench.XXXXXX)"
-  chmod 755 "$TMP"
-  PORT="$(free_port)"
-  cleanup() { stop_cluster "$TMP"; rm -rf "$TMP"; }
-  trap cleanup EXIT
+  throwaway_cluster bench
 fi
-start_cluster "$TMP" "$PORT" trust "" fast
 export BENCH_PG_URL="postgres://app@127.0.0.1:${PORT}"
 npx tsx scripts/bench.ts "$@"

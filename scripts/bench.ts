@@ -158,14 +158,15 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
   },
   {
     // Spread by a hash over the register, except that one tool (${BUSY_TOOL}, whose last calibration is the oldest,
-    // 419 days ago) read the first journal on every third sheet: ~5,000 readings since it was last known good at
-    // 20,000 tools, the busy micrometer whose loss opens the investigation_open measure.
+    // 419 days ago; a register of fewer than 227 tools has none) read the first journal on every third sheet:
+    // ~5,000 readings since it was last known good at 20,000 tools, the busy micrometer whose loss opens the
+    // investigation_open measure.
     name: "reading tools",
     sql: (s) => `
       with t as (select id, row_number() over (order by asset_tag) - 1 as n from tools),
       busy as (select id from tools where asset_tag = '${BUSY_TOOL}')
       insert into reading_tools (reading_id, tool_id, position, status_at_reading, due_at_reading, taken_at)
-      select r.id, case when r.item_key = 'J001' and substr(j.work_order, 5)::int % 3 = 0 then (select id from busy) else t.id end,
+      select r.id, case when r.item_key = 'J001' and substr(j.work_order, 5)::int % 3 = 0 then coalesce((select id from busy), t.id) else t.id end,
         1, 'in_calibration', (r.taken_at at time zone 'America/Chicago')::date + 200, r.taken_at
       from readings r join jobs j on j.id = r.job_id join t on t.n = abs(hashtext(r.job_id::text || r.item_key)) % ${s.tools}`,
   },

@@ -88,6 +88,16 @@ start_cluster() {
     || { cat "$pgdata/server.log" >&2; die "PostgreSQL did not start (log above)"; }
 }
 
+# throwaway_cluster NAME: a PostgreSQL cluster (trust, fast settings) in a new folder under /tmp on a free
+# port, stopped and removed when the script exits; sets TMP and PORT.
+throwaway_cluster() {
+  TMP="$(mktemp -d "/tmp/tenthwise-$1.XXXXXX")"
+  chmod 755 "$TMP"
+  PORT="$(free_port)"
+  trap 'stop_cluster "$TMP"; rm -rf "$TMP"' EXIT
+  start_cluster "$TMP" "$PORT" trust "" fast
+}
+
 stop_cluster() {
   local dir="$1"
   as_pg "$PGBIN/pg_ctl" -D "$dir/pg" -m fast -w stop >/dev/null 2>&1 || true

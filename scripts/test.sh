@@ -7,12 +7,7 @@ ensure_node_modules
 ensure_postgres_installed
 ensure_chromium
 
-TMP="$(mktemp -d /tmp/tenthwise-test.XXXXXX)"
-chmod 755 "$TMP"
-PORT="$(free_port)"
-cleanup() { stop_cluster "$TMP"; rm -rf "$TMP"; }
-trap cleanup EXIT
-start_cluster "$TMP" "$PORT" trust "" fast
+throwaway_cluster test
 export TEST_PG_URL="postgres://app@127.0.0.1:${PORT}"
 export TEST_TEMPLATE_DB="tenthwise_template"
 # The roles (owner, runtime), the template database owned by the owner, migrations run as the owner.
