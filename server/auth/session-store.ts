@@ -38,6 +38,8 @@ type PgStoreOptions = ConstructorParameters<typeof PgStore>[0];
 export class SessionStore extends PgStore {
   readonly #written = new Map<string, number>();
   readonly #cached = new Map<string, { at: number; json: string; userId: string | null; expires: number }>();
+  /** Moves on every change or end of a session here, so a read that was in flight across one is not cached. */
+  #epoch = 0;
 
   constructor(options: PgStoreOptions, private readonly touchIntervalMs = TOUCH_INTERVAL_MS) {
     super(options);
@@ -62,14 +64,17 @@ export class SessionStore extends PgStore {
       fn(null, JSON.parse(hit.json) as session.SessionData);
       return;
     }
+    const epoch = this.#epoch;
     super.get(sid, (err: unknown, sess?: session.SessionData | null) => {
-      if (!err) this.#cache(sid, sess);
+      // A sign-out (or a password reset) that ran while this read was in flight must not be undone by caching it.
+      if (!err && epoch === this.#epoch) this.#cache(sid, sess);
       fn(err, sess);
     });
   }
 
   /** Forget the cached sessions of one person. */
   forgetUser(userId: string) {
+    this.#epoch++;
     for (const [sid, c] of this.#cached) if (c.userId === userId) this.#cached.delete(sid);
   }
 
@@ -85,8 +90,9 @@ export class SessionStore extends PgStore {
   override set(sid: string, sess: session.SessionData, fn?: (err?: unknown) => void) {
     this.#remember(sid);
     this.#cached.delete(sid);
+    const epoch = ++this.#epoch;
     super.set(sid, sess, (err?: unknown) => {
-      if (!err) this.#cache(sid, sess);
+      if (!err && epoch === this.#epoch) this.#cache(sid, sess);
       fn?.(err);
     });
   }
@@ -104,6 +110,7 @@ export class SessionStore extends PgStore {
   override destroy(sid: string, fn?: (err?: unknown) => void) {
     this.#written.delete(sid);
     this.#cached.delete(sid);
+    this.#epoch++;
     super.destroy(sid, fn);
   }
 }

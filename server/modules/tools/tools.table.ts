@@ -1,3 +1,4 @@
+import { sql } from "drizzle-orm";
 import { pgTable, uuid, text, integer, numeric, boolean, timestamp, uniqueIndex, index } from "drizzle-orm/pg-core";
 import { families } from "../families/families.table";
 import { users } from "../users/users.table";
@@ -32,6 +33,8 @@ export const tools = pgTable(
   },
   (t) => [
     uniqueIndex("tools_asset_tag_key").on(t.assetTag),
+    // A scanned or typed tag that differs in case only (the status lookup's and the crib's second try).
+    index("tools_asset_tag_lower_idx").on(sql`lower(${t.assetTag})`),
     index("tools_family_idx").on(t.familyId),
     index("tools_owner_user_idx").on(t.ownerUserId),
     index("tools_location_idx").on(t.location),

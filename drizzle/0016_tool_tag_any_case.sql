@@ -1,0 +1,1 @@
+CREATE INDEX "tools_asset_tag_lower_idx" ON "tools" USING btree (lower("asset_tag"));
