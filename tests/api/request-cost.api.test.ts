@@ -59,6 +59,14 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(sent.filter((q) => /from "session"/i.test(q))).toEqual([]);
     // One status lookup is one statement: the tool with its status, by tag.
     expect(sent).toHaveLength(5);
+
+    // A tag scanned or typed in another case still finds the tool (a second statement, on an index); an unknown one is a 404.
+    const lower = await m.get("/api/tools/rc-0001/status");
+    expect(lower.status).toBe(200);
+    expect(lower.body).toMatchObject({ assetTag: "RC-0001", status: "in_calibration" });
+    const unknown = await m.get("/api/tools/RC-9999/status");
+    expect(unknown.status).toBe(404);
+    expect(unknown.body.error.code).toBe("tool_not_found");
   });
 
   it("a change of role takes effect on the person's next request; deactivating someone signs them out at once", async () => {
