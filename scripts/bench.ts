@@ -20,7 +20,7 @@ import { loadConfig } from "../server/config";
 import { systemClock } from "../server/platform/clock";
 import { sendDueReminders } from "../jobs/send-due-reminders.job";
 import { onOutOfToleranceFinding } from "../server/modules/investigations/investigations.hooks";
-import { JUDGING_RULES_VERSION } from "../shared/inspection/judging";
+import { JUDGING_RULES_VERSION, judgeReading } from "../shared/inspection/judging";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const BASE = process.env.BENCH_PG_URL ?? "postgres://app@127.0.0.1:55439";
@@ -88,6 +88,17 @@ function shapeOf(tools: number) {
   return { tools, families: Math.max(1, Math.round(tools / 200)), calibrationsPerTool: 10, sheets: Math.max(3, Math.round(tools / 4)), itemsPerSheet: 200, indexesPerItem: 5 };
 }
 type Shape = ReturnType<typeof shapeOf>;
+
+/**
+ * The judgement the app stores for a bench reading (journal 2.4990–2.5010 in, read 2.5001 and 2.5002), from the shared
+ * judging, as SQL columns verdict, band, text, detail; the detail names each reading's own item and place.
+ */
+const benchJudgementSql = (() => {
+  const item = { key: "J001", label: "Journal 1", kind: "journal" as const, min: 2.499, max: 2.501, serviceableMin: null, serviceableMax: null, boreKey: null, journalKey: null, stationKeys: null, radial: false, outOfRoundMax: null, expansionPerK: null, directions: 2, repeat: 5 };
+  const { view } = judgeReading(item, { itemKey: "J001", index: 1, unit: "in", values: [2.5001, 2.5002] }, { tableUnit: "in", tableExpansionPerK: null });
+  const lit = (v: string) => `'${v.replace(/'/g, "''")}'`;
+  return `${lit(view.verdict)}, ${lit(String(view.band))}, ${lit(view.text)}, jsonb_set(jsonb_set(${lit(JSON.stringify(view))}::jsonb, '{itemKey}', to_jsonb(r.item_key)), '{index}', to_jsonb(r.index))`;
+})();
 
 const FILL: { name: string; sql: (s: Shape) => string }[] = [
   {
@@ -178,10 +189,11 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       alter table readings enable trigger readings_job_activity`,
   },
   {
+    // Each reading's stored judgement is what the app stores: the judged place of its values under the current rules.
     name: "reading judgements",
     sql: () => `
       insert into reading_judgements (reading_id, rules_version, verdict, band, text, detail, judged_at)
-      select r.id, ${JUDGING_RULES_VERSION}, 'within_limits', 'new', 'Within limits', '{}'::jsonb, r.taken_at from readings r`,
+      select r.id, ${JUDGING_RULES_VERSION}, ${benchJudgementSql}, r.taken_at from readings r`,
   },
 ];
 /** Empty sheets the record_reading measure writes to (five per round, 1,000 places each), made afresh for every run. */

@@ -24,6 +24,9 @@ const toRow = (e: AuditEntry) => ({
   ...(e.at ? { at: e.at } : {}),
 });
 
+/** The statement that appends one line to the trail, not yet run: for a write that sends its rows in one statement. */
+export const auditInsert = (tx: DbOrTx, e: AuditEntry) => tx.insert(auditEvents).values(toRow(e));
+
 /** Appends one line to the audit trail, inside the caller's transaction. */
 export async function recordAudit(tx: DbOrTx, e: AuditEntry): Promise<void> {
   await tx.insert(auditEvents).values(toRow(e));

@@ -2,7 +2,7 @@ import type { DbOrTx } from "../../db/client";
 import { notFound } from "../../http/errors";
 import { jobsRepository, type JobSummaryRow } from "./jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
-import { toItemView } from "../limit-tables/limit-tables.service";
+import { itemViewsOf } from "../limit-tables/limit-tables.service";
 import { readingsRepository } from "../readings/readings.repository";
 import { evidenceOfRow, evidenceOfRows } from "../readings/reading-evidence";
 import { JUDGING_RULES_VERSION, judgeReading, judgeRow, shownOnly, slotKey, type Judged, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../shared/inspection/judging";
@@ -126,10 +126,9 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
   if (!summary) throw notFound("job", jobId);
   // One after another: inside a transaction these share one connection.
   const table = (await limitTablesRepository.summary(db, summary.job.limitTableId))!;
-  const itemRows = await limitTablesRepository.items(db, summary.job.limitTableId);
+  const items = (await itemViewsOf(db, summary.job.limitTableId)) as LimitItemView[];
   const readingRows = await readingsRepository.ofJob(db, jobId, JUDGING_RULES_VERSION);
   const signoffRows = await jobsRepository.signoffs(db, jobId);
-  const items = itemRows.map(toItemView);
   const byKey = new Map(items.map((i) => [i.key, i]));
   const ctx: JudgingContext = { tableUnit: table.table.unit, tableExpansionPerK: n(table.table.expansionPerK) };
   const { views, judged } = await readingViews(db, readingRows, byKey, ctx);

@@ -70,11 +70,12 @@ export const jobsRepository = {
 
   /**
    * Locks a job while a reading is recorded on it and answers what the write needs — the job, its table's unit and
-   * expansion coefficient, and whether it is signed — in one indexed query, whatever the sheet's size.
+   * expansion coefficient, and whether it is signed — in one indexed query, whatever the sheet's size. `alsoLock`, a
+   * lock function call (the place's advisory lock), is taken in the same statement.
    */
-  async lockForReading(db: DbOrTx, id: string) {
+  async lockForReading(db: DbOrTx, id: string, alsoLock?: SQL) {
     const [row] = await db
-      .select({ job: jobs, tableUnit: limitTables.unit, tableExpansionPerK: limitTables.expansionPerK, signed: state.signed })
+      .select({ job: jobs, tableUnit: limitTables.unit, tableExpansionPerK: limitTables.expansionPerK, signed: state.signed, ...(alsoLock ? { alsoLocked: sql<string>`${alsoLock}` } : {}) })
       .from(jobs)
       .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
       .where(eq(jobs.id, id))

@@ -1,4 +1,4 @@
-import type { Db } from "../../db/client";
+import type { Db, DbOrTx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import { recordAudit } from "../audit/audit.repository";
 import { notFound, refused } from "../../http/errors";
@@ -29,6 +29,32 @@ export function toItemView(r: LimitItemRow): LimitItemView {
     expansionPerK: n(r.expansionPerK),
     note: r.note,
   };
+}
+
+/** How many tables' items one process keeps (a shop works from a few dozen tables at a time). */
+const KEPT_TABLES = 500;
+const keptItems = new Map<string, readonly LimitItemView[]>();
+
+/**
+ * The items of a limits table as views, in order. A table's items never change once it is saved (the database refuses
+ * it: limit_items_closed; a revision is a new table), so each process keeps the views of the tables it has read and
+ * a reading or a check sheet does not read and map the whole table again. The views are frozen: callers copy, never change.
+ */
+export async function itemViewsOf(db: DbOrTx, tableId: string): Promise<readonly LimitItemView[]> {
+  const kept = keptItems.get(tableId);
+  if (kept) return kept;
+  const views = Object.freeze((await limitTablesRepository.items(db, tableId)).map((r) => deepFreeze(toItemView(r))));
+  // An unknown id reads no items and is not kept.
+  if (views.length) {
+    if (keptItems.size >= KEPT_TABLES) keptItems.delete(keptItems.keys().next().value!);
+    keptItems.set(tableId, views);
+  }
+  return views;
+}
+
+function deepFreeze<T extends object>(o: T): T {
+  for (const v of Object.values(o)) if (v && typeof v === "object") Object.freeze(v);
+  return Object.freeze(o);
 }
 
 export function toSummary(r: LimitTableSummaryRow): LimitTableSummary {

@@ -1,16 +1,19 @@
+import { randomUUID } from "node:crypto";
 import { z } from "zod";
+import type { SQL } from "drizzle-orm";
 import type { Db, Tx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
-import { recordAudit } from "../audit/audit.repository";
-import { statusContext, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { auditInsert } from "../audit/audit.repository";
+import { statusContext, statusContextOf, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
 import { jobsRepository, type JobForReading } from "../jobs/jobs.repository";
-import { limitTablesRepository, type LimitItemRow } from "../limit-tables/limit-tables.repository";
-import { toItemView } from "../limit-tables/limit-tables.service";
+import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
+import { itemViewsOf } from "../limit-tables/limit-tables.service";
 import { readingsRepository, type ReadingInsert } from "./readings.repository";
 import { studyFlagsForReading } from "../studies/studies.service";
 import { getSettings } from "../settings/settings.service";
+import type { Settings } from "../../../shared/settings/settings.schemas";
 import { can } from "../../../shared/auth/roles";
 import { num } from "../../../shared/common/decimal";
 import { convertLength, type LengthUnit } from "../../../shared/common/units";
@@ -62,10 +65,10 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     return { choice, usable: usableLeaves(leaves) };
   }
 
+  /** The item at a place and every item of its table (kept per process: a saved table never changes). */
   async function loadItem(tx: Db | Tx, limitTableId: string, itemKey: string) {
-    const items = await limitTablesRepository.items(tx, limitTableId);
-    const row = items.find((i) => i.key === itemKey);
-    return { row, items };
+    const items = await itemViewsOf(tx, limitTableId);
+    return { item: items.find((i) => i.key === itemKey), items };
   }
 
   /**
@@ -73,12 +76,20 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
    * enough values, tools exist, are usable at this instant (or quality overrides with a reason), suit the item.
    * Flags what is allowed but worth a second look. Inside the caller's transaction, with the job locked.
    */
-  async function record(tx: Tx, job: JobForReading, place: Place, input: CreateReading, user: SessionUser, extra: { supersedesId?: string; supersedeReason?: string } = {}): Promise<ReadingResult> {
+  async function record(
+    tx: Tx,
+    job: JobForReading,
+    place: Place,
+    input: CreateReading,
+    user: SessionUser,
+    settings: Settings,
+    extra: { supersedesId?: string; supersedeReason?: string } = {},
+  ): Promise<ReadingResult> {
     const at = clock.now();
     const tableUnit = job.tableUnit;
-    const { row: itemRow, items } = await loadItem(tx, job.job.limitTableId, place.itemKey);
-    if (!itemRow) badInput(["itemKey"], `This sheet has no item "${place.itemKey}".`);
-    const item = toItemView(itemRow as LimitItemRow);
+    const { item: found, items } = await loadItem(tx, job.job.limitTableId, place.itemKey);
+    if (!found) badInput(["itemKey"], `This sheet has no item "${place.itemKey}".`);
+    const item = found as LimitItemView;
     if (place.index > item.repeat) badInput(["index"], `${item.label} has ${item.repeat} place${item.repeat === 1 ? "" : "s"}; there is no number ${place.index}.`);
     if (item.kind === "clearance") badInput(["itemKey"], "A clearance is worked out from its bore and journal readings; record those instead.");
     if (item.kind === "taper") badInput(["itemKey"], "A taper is worked out from the readings at its two stations; record those instead.");
@@ -96,9 +107,9 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     }
     const tags = [...new Set(input.toolAssetTags.map((t) => t.toUpperCase()))];
     if (tags.length !== input.toolAssetTags.length) badInput(["toolAssetTags"], "A tool is named twice.");
-    const found = await readingsRepository.toolsByTags(tx, tags);
+    const named = await readingsRepository.toolsByTags(tx, tags);
     const hits = tags.map((tag) => {
-      const hit = found.find((f) => f.tool.assetTag.toUpperCase() === tag);
+      const hit = named.find((f) => f.tool.assetTag.toUpperCase() === tag);
       if (!hit) throw notFound("tool", tag);
       return hit;
     });
@@ -125,8 +136,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     }
 
     // Usable at this instant? The one status derivation decides.
-    const ctx = await statusContext(tx, deps.config.SHOP_TIME_ZONE);
-    const statuses = await statusesFor(tx, hits.map((h) => h.tool.id), at, ctx);
+    const statuses = await statusesFor(tx, hits.map((h) => h.tool.id), at, statusContextOf(settings));
     const flags = new Set<ReadingFlag>();
     const unusable: { assetTag: string; status: string; reasons: string[] }[] = [];
     for (const h of hits) {
@@ -203,8 +213,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       for (const h of hits.filter((x) => TRANSFER_KINDS.has(x.kind))) {
         if (!withinToolRange([convertLength(rawSize, tableUnit, h.tool.unit)], h.tool.rangeMin, h.tool.rangeMax)) flags.add("outside_tool_range");
       }
-      const { resolutionRatio } = await getSettings(tx, deps.config.SHOP_TIME_ZONE);
-      if (resolutionFlag(item, rt.tool.resolution, rt.tool.unit, tableUnit, resolutionRatio)) flags.add("resolution_too_coarse");
+      if (resolutionFlag(item, rt.tool.resolution, rt.tool.unit, tableUnit, settings.resolutionRatio)) flags.add("resolution_too_coarse");
       // Stored exactly: the values as typed (in the read tool's unit), the size and out-of-round as read in the table's unit.
       values = { ...base, values: typed.map(String), unit: rt.tool.unit, size: rawSize.toString(), outOfRound: hi.minus(lo).toString() };
       evidence = { itemKey: item.key, index: place.index, unit: rt.tool.unit, values: typed, temperatureC: input.temperatureC, toolTemperatureC: input.toolTemperatureC, partMaterial: input.partMaterial };
@@ -238,18 +247,29 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     const judged = judgeReading(item, evidence, jctx);
     const verdict = judged.view.verdict;
     const flagList = [...flags];
-    const row = await readingsRepository.insert(
+    const readingId = randomUUID();
+    const stored = { ...values, id: readingId, verdict, flags: flagList };
+    const audit = auditInsert(tx, {
+      actorId: user.id,
+      action: extra.supersedesId ? "reading.supersede" : "reading.create",
+      entityType: "reading",
+      entityId: readingId,
+      after: { jobId: place.jobId, itemKey: item.key, index: place.index, values: stored.values, tools: tags, flags: flagList, supersedesId: extra.supersedesId, reason: extra.supersedeReason, override: override?.reason },
+      at,
+    });
+    await readingsRepository.insertRecorded(
       tx,
-      { ...values, verdict, flags: flagList },
+      stored,
       hits.map((h, i) => {
         const s = statuses.get(h.tool.id)!;
         return { toolId: h.tool.id, position: i + 1, statusAtReading: s.status, dueAtReading: s.dueAt, takenAt: at };
       }),
+      { rulesVersion: JUDGING_RULES_VERSION, verdict, band: judged.view.band, text: judged.view.text, detail: judged.view, judgedAt: at },
+      audit,
     );
-    await readingsRepository.insertJudgements(tx, [{ readingId: row.id, rulesVersion: JUDGING_RULES_VERSION, verdict, band: judged.view.band, text: judged.view.text, detail: judged.view, judgedAt: at }]);
 
     // The places this reading completes (clearances, tapers), with the partner readings now on the sheet.
-    const views = items.map(toItemView);
+    const views = items as LimitItemView[];
     const completes: ReadingResult["completes"] = [];
     for (const d of dependentItems(views, item.key)) {
       if (place.index > d.repeat) continue;
@@ -270,22 +290,12 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
         result.tightestVerdict = j.view.tightest.verdict;
       }
     }
-    const answer: ReadingResult = { id: row.id, ...result, verdict, verdictText: judged.view.text, flags: flagList, place: judged.view, completes, rulesVersion: JUDGING_RULES_VERSION };
-
-    await recordAudit(tx, {
-      actorId: user.id,
-      action: extra.supersedesId ? "reading.supersede" : "reading.create",
-      entityType: "reading",
-      entityId: row.id,
-      after: { jobId: place.jobId, itemKey: item.key, index: place.index, values: row.values, tools: tags, flags: flagList, supersedesId: extra.supersedesId, reason: extra.supersedeReason, override: override?.reason },
-      at,
-    });
-    return answer;
+    return { id: readingId, ...result, verdict, verdictText: judged.view.text, flags: flagList, place: judged.view, completes, rulesVersion: JUDGING_RULES_VERSION };
   }
 
   /** Locks the job against a sign-off (a reading and a sign-off cannot cross) and reads what the write needs; never the whole sheet. */
-  async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean) {
-    const job = await jobsRepository.lockForReading(tx, jobId);
+  async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean, alsoLock?: SQL) {
+    const job = await jobsRepository.lockForReading(tx, jobId, alsoLock);
     if (!job) throw notFound("job", jobId);
     if (job.signed && !allowSigned) {
       throw refused("sheet_signed", "This check sheet is signed and locked; correct a reading with a reason instead.");
@@ -295,16 +305,20 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
 
   return {
     /** POST /api/jobs/:id/readings */
-    create(jobId: string, input: CreateReading, user: SessionUser) {
+    async create(jobId: string, input: CreateReading, user: SessionUser) {
+      // The shop's settings as this instance holds them (read again every few seconds), before the transaction.
+      const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
+      const index = input.index ?? 1;
       return db.transaction(async (tx) => {
-        const job = await lockOpenJob(tx, jobId, false);
-        await readingsRepository.lockPlace(tx, jobId, input.itemKey, input.index ?? 1);
-        return record(tx, job, { jobId, itemKey: input.itemKey, index: input.index ?? 1 }, input, user);
+        // The sheet (shared) and the place (exclusive) in one statement.
+        const job = await lockOpenJob(tx, jobId, false, readingsRepository.placeLock(jobId, input.itemKey, index));
+        return record(tx, job, { jobId, itemKey: input.itemKey, index }, input, user, settings);
       });
     },
 
     /** POST /api/readings/:id/supersede — append-only correction; the old reading stays, marked superseded. */
-    supersede(readingId: string, input: Omit<CreateReading, "itemKey" | "index"> & { reason: string }, user: SessionUser) {
+    async supersede(readingId: string, input: Omit<CreateReading, "itemKey" | "index"> & { reason: string }, user: SessionUser) {
+      const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
       return db.transaction(async (tx) => {
         const old = await readingsRepository.findById(tx, readingId);
         if (!old) throw notFound("reading", readingId);
@@ -314,7 +328,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
         const newer = await readingsRepository.successorOf(tx, readingId);
         if (newer) throw refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId: newer.id });
         const { reason, ...rest } = input;
-        return record(tx, job, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, { supersedesId: old.id, supersedeReason: reason });
+        return record(tx, job, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, settings, { supersedesId: old.id, supersedeReason: reason });
       });
     },
 
@@ -323,15 +337,14 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       const summary = await jobsRepository.summary(db, jobId);
       if (!summary) throw notFound("job", jobId);
       const tableUnit = (await limitTablesRepository.summary(db, summary.job.limitTableId))!.table.unit;
-      const { row } = await loadItem(db, summary.job.limitTableId, itemKey);
-      if (!row || row.kind !== "feeler") throw new AppError("item_not_found", 404, `This sheet has no feeler item "${itemKey}".`);
+      const { item } = await loadItem(db, summary.job.limitTableId, itemKey);
+      if (!item || item.kind !== "feeler") throw new AppError("item_not_found", 404, `This sheet has no feeler item "${itemKey}".`);
       const [hit] = await readingsRepository.toolsByTags(db, [setTag.toUpperCase()]);
       if (!hit) throw notFound("tool", setTag);
       if (hit.kind !== "feeler_set") throw refused("tool_kind_unsuitable", `${hit.tool.assetTag} is not a feeler set.`);
       const at = clock.now();
       const ctx = await statusContext(db, deps.config.SHOP_TIME_ZONE);
       const statuses = await statusesFor(db, [hit.tool.id], at, ctx);
-      const item = toItemView(row);
       const { choice, usable } = await feelerLeaves(db, item, tableUnit, hit, statuses.get(hit.tool.id), at);
       return {
         mode: choice.mode,

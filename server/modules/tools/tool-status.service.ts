@@ -3,6 +3,7 @@ import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
+import type { Settings } from "../../../shared/settings/settings.schemas";
 
 export interface StatusContext {
   timeZone: string;
@@ -27,9 +28,11 @@ export interface ToolStatusView extends ToolStatusResult {
 
 /** Time zone and warning window from the shop's settings. */
 export async function statusContext(db: DbOrTx, defaultTimeZone: string): Promise<StatusContext> {
-  const s = await getSettings(db, defaultTimeZone);
-  return { timeZone: s.shopTimeZone, dueSoonDays: s.dueSoonDays };
+  return statusContextOf(await getSettings(db, defaultTimeZone));
 }
+
+/** The same from settings already read. */
+export const statusContextOf = (s: Pick<Settings, "shopTimeZone" | "dueSoonDays">): StatusContext => ({ timeZone: s.shopTimeZone, dueSoonDays: s.dueSoonDays });
 
 type Row = Record<string, unknown>;
 const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : v == null ? null : new Date(String(v)).toISOString());
