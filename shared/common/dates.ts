@@ -35,11 +35,17 @@ export function isValidTimeZone(timeZone: string): boolean {
 /** The calendar date (YYYY-MM-DD) an instant falls on in the given time zone. */
 export function calendarDate(instant: Date | string, timeZone: string): string {
   const d = instant instanceof Date ? instant : new Date(instant);
-  if (Number.isNaN(d.getTime())) throw new RangeError(`Not an instant: ${String(instant)}`);
+  const ms = d.getTime();
+  if (Number.isNaN(ms)) throw new RangeError(`Not an instant: ${String(instant)}`);
+  // A page of statuses asks for the date of the same instant once per row; the last answer is kept.
+  if (ms === lastDate.ms && timeZone === lastDate.timeZone) return lastDate.date;
   const parts = formatterFor(timeZone).formatToParts(d);
   const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? "";
-  return `${get("year").padStart(4, "0")}-${get("month")}-${get("day")}`;
+  const date = `${get("year").padStart(4, "0")}-${get("month")}-${get("day")}`;
+  lastDate = { ms, timeZone, date };
+  return date;
 }
+let lastDate = { ms: NaN, timeZone: "", date: "" };
 
 function toUtcMs(date: string): number {
   if (!isCalendarDate(date)) throw new RangeError(`Not a calendar date (YYYY-MM-DD): ${date}`);

@@ -552,35 +552,73 @@ async function selectIn<T extends typeof readings | typeof jobs | typeof calibra
 }
 
 /** Counts over an investigation's items (or those a filter keeps): could change or hold, by recorded verdict, undisposed. */
+type FixedTotals = { items: number; readings: number; calibrations: number; couldChange: number; within: number; outside: number; pending: number };
+
+/** How many filtered totals one process keeps. */
+const KEPT_TOTALS = 2_000;
+const keptTotals = new Map<string, FixedTotals>();
+
+/**
+ * Totals of an investigation's affected items under a filter: how many, readings and calibrations, could change or
+ * hold, by recorded verdict, and how many have no disposition yet.
+ *
+ * An investigation's items are written once, when it opens, and never changed by the app (the database refuses it once
+ * it is closed), so the counts that read only the items are kept per process and filter; only the count of items without
+ * a disposition, which moves with every disposition, is read each time, from the dispositions side. A text filter or a
+ * disposition filter reads everything afresh, as does a read inside a transaction (its items may not be committed).
+ */
 export async function itemTotals(tx: DbOrTx, investigationId: string, f: ItemFilter = {}) {
+  if (f.q || f.disposition) return itemTotalsRead(tx, investigationId, f);
+  const key = JSON.stringify([investigationId, f.couldChange ?? null, f.verdict ?? null, f.jobId ?? null]);
+  const inTx = "rollback" in tx;
+  let fixed = inTx ? undefined : keptTotals.get(key);
+  if (!fixed) {
+    fixed = await fixedTotalsRead(tx, itemConditions(investigationId, f));
+    if (!inTx) {
+      if (keptTotals.size >= KEPT_TOTALS) keptTotals.delete(keptTotals.keys().next().value!);
+      keptTotals.set(key, fixed);
+    }
+  }
+  const [{ disposed }] = (await tx
+    .select({ disposed: sql<number>`count(*)::int` })
+    .from(investigationItems)
+    .where(and(itemConditions(investigationId, f), sql`exists (select 1 from dispositions d where d.investigation_item_id = ${investigationItems.id})`))) as { disposed: number }[];
+  return totalsView(fixed, fixed.items - disposed);
+}
+
+const fixedCounts = {
+  items: sql<number>`count(*)::int`,
+  readings: sql<number>`count(${investigationItems.readingId})::int`,
+  calibrations: sql<number>`count(${investigationItems.calibrationId})::int`,
+  couldChange: sql<number>`count(*) filter (where ${investigationItems.verdictCouldChange})::int`,
+  within: sql<number>`count(*) filter (where ${investigationItems.recordedVerdict} = 'within_limits')::int`,
+  outside: sql<number>`count(*) filter (where ${investigationItems.recordedVerdict} = 'outside_limits')::int`,
+  pending: sql<number>`count(*) filter (where ${investigationItems.recordedVerdict} = 'pending')::int`,
+};
+
+async function fixedTotalsRead(tx: DbOrTx, where: SQL): Promise<FixedTotals> {
+  const [row] = (await tx.select(fixedCounts).from(investigationItems).where(where)) as unknown as FixedTotals[];
+  return row;
+}
+
+/** Every total read in one statement, through the joined tables when the filter searches text. */
+async function itemTotalsRead(tx: DbOrTx, investigationId: string, f: ItemFilter) {
   // Only a text filter reads the joined tables; otherwise the items alone answer (no joins to plan).
   const from = f.q ? itemsFrom : <T extends Record<string, unknown>>(db: DbOrTx, fields: T) => db.select(fields as never).from(investigationItems);
-  const [row] = (await from(tx, {
-    items: sql<number>`count(*)::int`,
-    readings: sql<number>`count(${investigationItems.readingId})::int`,
-    calibrations: sql<number>`count(${investigationItems.calibrationId})::int`,
-    couldChange: sql<number>`count(*) filter (where ${investigationItems.verdictCouldChange})::int`,
-    undisposed: sql<number>`count(*) filter (where ${itemWithoutDisposition})::int`,
-    within: sql<number>`count(*) filter (where ${investigationItems.recordedVerdict} = 'within_limits')::int`,
-    outside: sql<number>`count(*) filter (where ${investigationItems.recordedVerdict} = 'outside_limits')::int`,
-    pending: sql<number>`count(*) filter (where ${investigationItems.recordedVerdict} = 'pending')::int`,
-  }).where(itemConditions(investigationId, f))) as unknown as {
-    items: number;
-    readings: number;
-    calibrations: number;
-    couldChange: number;
-    undisposed: number;
-    within: number;
-    outside: number;
-    pending: number;
-  }[];
+  const [row] = (await from(tx, { ...fixedCounts, undisposed: sql<number>`count(*) filter (where ${itemWithoutDisposition})::int` }).where(
+    itemConditions(investigationId, f),
+  )) as unknown as (FixedTotals & { undisposed: number })[];
+  return totalsView(row, row.undisposed);
+}
+
+function totalsView(row: FixedTotals, undisposed: number) {
   return {
     items: row.items,
     readings: row.readings,
     calibrations: row.calibrations,
     couldChange: row.couldChange,
     holds: row.items - row.couldChange,
-    undisposed: row.undisposed,
+    undisposed,
     byVerdict: { within_limits: row.within, outside_limits: row.outside, pending: row.pending },
   };
 }
