@@ -129,8 +129,9 @@ export const readingsRepository = {
 
   /**
    * Every reading of a job (superseded ones too) in one query, as the check sheet shows them: the people named, the
-   * reading that superseded it, its tools with the status and due date stored at the reading (never derived again),
-   * whether an open investigation holds it, and its stored judgement under `rulesVersion` (null until judged).
+   * reading that superseded it (a correction is a reading of the same sheet, so it is read off the rows), its tools
+   * with the status and due date stored at the reading (never derived again), whether an open investigation holds it,
+   * and its stored judgement under `rulesVersion` (null until judged).
    *
    * Written as SQL with the row's columns under their TypeScript names: a sheet of 1,000 readings spent more time in
    * the ORM's per-column mapping than in the database. Each reading's tools and its open-investigation mark are index
@@ -139,7 +140,7 @@ export const readingsRepository = {
    */
   async ofJob(db: DbOrTx, jobId: string, rulesVersion: number): Promise<SheetReadingRow[]> {
     const res = await db.execute(sql`
-      select ${sql.raw(READING_COLUMNS)}, tk.name as "takerName", ov.name as "overriderName", sc.id as "supersededById",
+      select ${sql.raw(READING_COLUMNS)}, tk.name as "takerName", ov.name as "overriderName",
         coalesce(tl.tools, '[]'::json) as tools,
         coalesce((select true from investigation_items ii join investigations i on i.id = ii.investigation_id and i.status = 'open'
                   where ii.reading_id = r.id limit 1), false) as suspect,
@@ -147,7 +148,6 @@ export const readingsRepository = {
       from readings r
       left join users tk on tk.id = r.taken_by
       left join users ov on ov.id = r.override_by
-      left join readings sc on sc.supersedes_id = r.id
       left join lateral (
         select json_agg(json_build_object('assetTag', t.asset_tag, 'description', t.description, 'kind', f.kind, 'unit', t.unit,
                  'statusAtReading', rt.status_at_reading, 'dueAtReading', rt.due_at_reading) order by rt.position) as tools
@@ -156,14 +156,17 @@ export const readingsRepository = {
       left join reading_judgements rj on rj.reading_id = r.id and rj.rules_version = ${rulesVersion}
       where r.job_id = ${jobId}
       order by r.taken_at, r.id`);
+    // A correction is a reading of the same sheet: which reading superseded which is read off the rows themselves.
+    const successorOf = new Map<string, string>();
+    for (const x of res.rows as Record<string, unknown>[]) if (x.supersedesId) successorOf.set(x.supersedesId as string, x.id as string);
     return (res.rows as Record<string, unknown>[]).map((x) => {
-      const { takerName, overriderName, supersededById, tools, suspect, judgedAt, judgedView, ...r } = x;
+      const { takerName, overriderName, tools, suspect, judgedAt, judgedView, ...r } = x;
       r.takenAt = new Date(r.takenAt as string | Date);
       return {
         r: r as unknown as ReadingRow,
         takerName: (takerName as string | null) ?? null,
         overriderName: (overriderName as string | null) ?? null,
-        supersededById: (supersededById as string | null) ?? null,
+        supersededById: successorOf.get(r.id as string) ?? null,
         tools: tools as ReadingToolOfSheet[],
         suspect: suspect === true,
         judgedAt: judgedAt == null ? null : new Date(judgedAt as string | Date),
