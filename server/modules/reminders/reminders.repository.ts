@@ -74,7 +74,8 @@ export const remindersRepository = {
             usageLimit: tools.usageLimit,
           })
           .from(tools)
-          .where(inArray(tools.id, part))),
+          // One array parameter, not a parameter per tool: a run over thousands of due tools built and sent each one.
+          .where(sql`${tools.id} = any(${`{${part.join(",")}}`}::uuid[])`)),
       );
     }
     return out;
