@@ -327,9 +327,14 @@ export async function findReading(tx: DbOrTx, id: string) {
   return (await tx.select().from(readings).where(eq(readings.id, id)))[0] ?? null;
 }
 
-/** How many affected items of an investigation still wait for a disposition (one definition for lists and dashboards). */
+/**
+ * How many affected items of an investigation still wait for a disposition (one definition for lists and dashboards):
+ * its items less the items with a disposition, each counted off its own index (investigation_items_investigation_idx,
+ * dispositions_investigation_idx), not by probing the dispositions of every item.
+ */
 export const undisposedItemsOf = (investigationId: SQL | typeof investigations.id) =>
-  sql`(select count(*) from investigation_items ui where ui.investigation_id = ${investigationId} and not exists (select 1 from dispositions ud where ud.investigation_item_id = ui.id))`;
+  sql`((select count(*) from investigation_items ui where ui.investigation_id = ${investigationId})
+     - (select count(distinct ud.investigation_item_id) from dispositions ud where ud.investigation_id = ${investigationId}))`;
 
 /** Investigations for the list, open first then newest; filters on the tool (or standard, or a cascaded tool), status, job and pending dispositions. */
 export async function listInvestigations(tx: DbOrTx, f: { toolAssetTag?: string; status?: "open" | "closed"; jobId?: string; awaitingDisposition?: boolean; page: number; pageSize: number }) {

@@ -549,6 +549,7 @@ export async function addDispositions(db: Db, clock: Clock, id: string, input: C
       tx,
       items.map((i) => ({
         investigationItemId: i.id,
+        investigationId: i.investigationId,
         kind: input.kind,
         rationale: input.rationale,
         decidedBy: actor.id,

@@ -82,6 +82,8 @@ export const dispositions = pgTable(
   {
     id: uuid("id").primaryKey().defaultRandom(),
     investigationItemId: uuid("investigation_item_id").notNull().references(() => investigationItems.id),
+    /** The investigation of the item (a copy, as the item never moves): its dispositions are counted off one index. */
+    investigationId: uuid("investigation_id").notNull().references(() => investigations.id),
     kind: text("kind", { enum: ["no_impact", "remeasure", "notify_owner", "recall"] }).notNull(),
     rationale: text("rationale").notNull(),
     decidedBy: uuid("decided_by").notNull().references(() => users.id),
@@ -97,6 +99,7 @@ export const dispositions = pgTable(
     // A disposition is replaced at most once: a later change supersedes the one in force, never an old one again.
     uniqueIndex("dispositions_supersedes_idx").on(t.supersedesId),
     index("dispositions_item_idx").on(t.investigationItemId),
+    index("dispositions_investigation_idx").on(t.investigationId, t.investigationItemId),
     index("dispositions_decided_by_idx").on(t.decidedBy),
     index("dispositions_remeasure_idx").on(t.remeasureReadingId),
   ],
