@@ -88,7 +88,7 @@ function FindingCard({ inv }: { inv: InvestigationDetail }) {
               <th className="py-1 pr-3">Check point</th>
               <th className="pr-3">Error found</th>
               <th className="pr-3">Permissible</th>
-              <th>U (k = 2)</th>
+              <th title="Expanded uncertainty of the calibration point, at about 95 % coverage">U (≈ 95 %)</th>
             </tr>
           </thead>
           <tbody>
