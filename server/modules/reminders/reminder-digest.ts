@@ -36,7 +36,11 @@ function rank(stage: string): number {
 
 function sections(lines: DigestLine[]) {
   const by = new Map<string, DigestLine[]>();
-  for (const l of lines) by.set(l.stage, [...(by.get(l.stage) ?? []), l]);
+  for (const l of lines) {
+    const list = by.get(l.stage);
+    if (list) list.push(l);
+    else by.set(l.stage, [l]);
+  }
   return [...by.entries()]
     .sort(([a], [b]) => rank(a) - rank(b))
     .map(([stage, ls]) => ({ stage, title: stageLabel(stage), lines: ls.sort((a, b) => a.assetTag.localeCompare(b.assetTag)) }));

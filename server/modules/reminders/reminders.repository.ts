@@ -1,13 +1,16 @@
-import { and, count, desc, eq, inArray, or, sql } from "drizzle-orm";
+import { and, count, desc, eq, inArray, or, sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { reminderLog, reminderRuns, notificationPreferences } from "./reminders.table";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
 import type { PlannedReminder } from "../../../shared/reminders/reminder-plan";
 import { listPage, pageOffset } from "../../db/paging";
+import { pgArray } from "../../db/values";
 
 export type ReminderRunRow = typeof reminderRuns.$inferSelect;
 export type ReminderLogRow = typeof reminderLog.$inferSelect;
+/** A reminder a run claimed: what the run needs to word and send it. */
+export type ClaimedReminder = Pick<ReminderLogRow, "id" | "toolId" | "stage" | "recipientId">;
 
 const CHUNK = 1000;
 
@@ -18,66 +21,40 @@ const chunks = <T>(xs: T[], n = CHUNK) => Array.from({ length: Math.ceil(xs.leng
 
 export const remindersRepository = {
   /**
-   * Tools that may need a reminder at `at`, from tool_states' indexed due dates (docs/decisions/013):
-   * calibrated with a due date by the horizon (overdue ones included) or a usage limit running low,
-   * or out past the time they were due back. A superset; the status derivation decides.
+   * A select of the tools that may need a reminder at `at`, from tool_states' indexed due dates (docs/decisions/013):
+   * calibrated with a due date by the horizon (overdue ones included) or a usage limit running low, or out past the
+   * time they were due back. A superset; the status derivation decides. Used as a subquery, so a run over thousands
+   * of due tools never ships their ids back and forth.
    */
-  async candidateToolIds(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
+  candidateToolIds(at: Date, horizon: string): SQL {
     // In service: the tool's current lifecycle, as the register shows it.
-    const res = await db.execute(sql`
+    return sql`
       select s.tool_id from tool_states s join tools t on t.id = s.tool_id
       where s.base_status = 'calibrated' and s.cal_next_due <= ${horizon}::date and t.lifecycle = 'active'
       union
       select s.tool_id from tool_states s join tools t on t.id = s.tool_id
       where (s.usage_exhausted or s.usage_warn) and s.base_status = 'calibrated' and t.lifecycle = 'active'
       union
-      select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
-    return (res.rows as { tool_id: string }[]).map((r) => String(r.tool_id));
+      select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`;
   },
 
   /** The same superset from the records themselves, for a run whose instant is before some recorded event (a clock set back). */
-  async candidateToolIdsFromRecords(db: DbOrTx, at: Date, horizon: string): Promise<string[]> {
-    const res = await db.execute(sql`
+  candidateToolIdsFromRecords(at: Date, horizon: string): SQL {
+    return sql`
       select t.id as tool_id from tools t
       where t.lifecycle = 'active' and t.calibration_required
         and (t.usage_limit is not null or exists (select 1 from calibrations c where c.tool_id = t.id and c.next_due_at <= ${horizon}))
       union
-      select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`);
-    return (res.rows as { tool_id: string }[]).map((r) => String(r.tool_id));
+      select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`;
   },
 
   /** Keys (tool|due date|stage|recipient) of the reminders already sent about these tools: they are never sent again. */
-  async sentKeys(db: DbOrTx, toolIds: string[]): Promise<Set<string>> {
+  async sentKeys(db: DbOrTx, toolIdsQuery: SQL): Promise<Set<string>> {
+    const res = await db.execute(sql`
+      select l.tool_id, l.due_at::text as due_at, l.stage, l.recipient_id from reminder_log l
+      where l.status = 'sent' and l.tool_id in (${toolIdsQuery})`);
     const out = new Set<string>();
-    for (const part of chunks(toolIds, 5000)) {
-      const res = await db.execute(sql`
-        select l.tool_id, l.due_at::text as due_at, l.stage, l.recipient_id from reminder_log l
-        where l.status = 'sent' and l.tool_id = any(${`{${part.join(",")}}`}::uuid[])`);
-      for (const r of res.rows as Record<string, unknown>[]) out.add(`${String(r.tool_id)}|${String(r.due_at)}|${String(r.stage)}|${String(r.recipient_id)}`);
-    }
-    return out;
-  },
-
-  async toolFacts(db: DbOrTx, ids: string[]) {
-    const out: { id: string; assetTag: string; description: string; location: string | null; ownerType: string; ownerUserId: string | null; ownerName: string | null; usageLimit: number | null }[] = [];
-    for (const part of chunks(ids)) {
-      out.push(
-        ...(await db
-          .select({
-            id: tools.id,
-            assetTag: tools.assetTag,
-            description: tools.description,
-            location: tools.location,
-            ownerType: tools.ownerType,
-            ownerUserId: tools.ownerUserId,
-            ownerName: tools.ownerName,
-            usageLimit: tools.usageLimit,
-          })
-          .from(tools)
-          // One array parameter, not a parameter per tool: a run over thousands of due tools built and sent each one.
-          .where(sql`${tools.id} = any(${`{${part.join(",")}}`}::uuid[])`)),
-      );
-    }
+    for (const r of res.rows as Record<string, unknown>[]) out.add(`${String(r.tool_id)}|${String(r.due_at)}|${String(r.stage)}|${String(r.recipient_id)}`);
     return out;
   },
 
@@ -110,22 +87,21 @@ export const remindersRepository = {
   /**
    * Claims reminders for a run: a new key is inserted; a key an earlier run
    * claimed but never sent (crash, SMTP failure) is taken over; a key already
-   * sent is left alone and not returned.
+   * sent is left alone and not returned. One statement per 5,000 reminders, each
+   * column sent as one array.
    */
-  async claim(db: DbOrTx, runId: string, at: Date, planned: PlannedReminder[]): Promise<ReminderLogRow[]> {
-    const claimed: ReminderLogRow[] = [];
-    for (const part of chunks(planned)) {
-      claimed.push(
-        ...(await db
-          .insert(reminderLog)
-          .values(part.map((p) => ({ toolId: p.toolId, dueAt: p.dueAt, stage: p.stage, recipientId: p.recipientId, runId, status: "claimed" as const, claimedAt: at })))
-          .onConflictDoUpdate({
-            target: [reminderLog.toolId, reminderLog.dueAt, reminderLog.stage, reminderLog.recipientId],
-            set: { runId, status: "claimed", claimedAt: at },
-            setWhere: sql`${reminderLog.status} <> 'sent' and ${reminderLog.runId} is distinct from ${runId}::uuid`,
-          })
-          .returning()),
-      );
+  async claim(db: DbOrTx, runId: string, at: Date, planned: PlannedReminder[]): Promise<ClaimedReminder[]> {
+    const claimed: ClaimedReminder[] = [];
+    for (const part of chunks(planned, 5000)) {
+      const res = await db.execute(sql`
+        insert into reminder_log (tool_id, due_at, stage, recipient_id, run_id, status, claimed_at)
+        select p.tool_id, p.due_at, p.stage, p.recipient_id, ${runId}::uuid, 'claimed', ${at.toISOString()}::timestamptz
+        from unnest(${pgArray(part.map((p) => p.toolId))}::uuid[], ${pgArray(part.map((p) => p.dueAt))}::date[],
+                    ${pgArray(part.map((p) => p.stage))}::text[], ${pgArray(part.map((p) => p.recipientId))}::uuid[]) as p(tool_id, due_at, stage, recipient_id)
+        on conflict (tool_id, due_at, stage, recipient_id) do update set run_id = excluded.run_id, status = 'claimed', claimed_at = excluded.claimed_at
+          where reminder_log.status <> 'sent' and reminder_log.run_id is distinct from excluded.run_id
+        returning id, tool_id, stage, recipient_id`);
+      for (const r of res.rows as Record<string, unknown>[]) claimed.push({ id: String(r.id), toolId: String(r.tool_id), stage: String(r.stage), recipientId: String(r.recipient_id) });
     }
     return claimed;
   },
@@ -134,14 +110,14 @@ export const remindersRepository = {
     await db
       .update(reminderLog)
       .set({ status: "sent", sentAt: at, attempts: sql`${reminderLog.attempts} + ${attempts}`, lastError: null })
-      .where(inArray(reminderLog.id, ids));
+      .where(sql`${reminderLog.id} = any(${pgArray(ids)}::uuid[])`);
   },
 
   async markFailed(db: DbOrTx, ids: string[], attempts: number, error: string) {
     await db
       .update(reminderLog)
       .set({ status: "failed", attempts: sql`${reminderLog.attempts} + ${attempts}`, lastError: error })
-      .where(inArray(reminderLog.id, ids));
+      .where(sql`${reminderLog.id} = any(${pgArray(ids)}::uuid[])`);
   },
 
   async listRuns(db: DbOrTx, page: number, pageSize: number) {

@@ -6,10 +6,10 @@ import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
 import type { Config } from "../../config";
 import { getSettings } from "../settings/settings.service";
-import { statusesFor } from "../tools/tool-status.service";
+import { statusesIn } from "../tools/tool-status.service";
 import { eventsAfter } from "../tools/tool-states.sql";
 import { recordAudit } from "../audit/audit.repository";
-import { remindersRepository as repo, type ReminderLogRow } from "./reminders.repository";
+import { remindersRepository as repo, type ClaimedReminder } from "./reminders.repository";
 import { renderDigest, type DigestLine } from "./reminder-digest";
 import { planReminders, type DigestKey, type PlannedReminder, type ReminderStage, type ToolForReminders } from "../../../shared/reminders/reminder-plan";
 import type { RunRemindersResult } from "../../../shared/reminders/reminders.schemas";
@@ -98,8 +98,7 @@ async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date)
     const world = await gatherWorld(deps, startedAt);
     const planned = world.planned;
     // Reminders sent by an earlier run are left out before claiming; the claim still refuses any a run sent meanwhile.
-    const sentBefore = await repo.sentKeys(db, [...new Set(planned.map((p) => p.toolId))]);
-    const toClaim = planned.filter((p) => !sentBefore.has(`${p.toolId}|${p.dueAt}|${p.stage}|${p.recipientId}`));
+    const toClaim = planned.filter((p) => !world.sentBefore.has(`${p.toolId}|${p.dueAt}|${p.stage}|${p.recipientId}`));
     const claimed = await db.transaction(async (tx) => {
       const rows = toClaim.length ? await repo.claim(tx, run.id, startedAt, toClaim) : [];
       await repo.updateRun(tx, run.id, { skipped: planned.length - rows.length });
@@ -107,7 +106,7 @@ async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date)
     });
     await opts.hooks?.afterClaim?.();
 
-    const byRecipient = new Map<string, ReminderLogRow[]>();
+    const byRecipient = new Map<string, ClaimedReminder[]>();
     for (const r of claimed) {
       const list = byRecipient.get(r.recipientId);
       if (list) list.push(r);
@@ -182,17 +181,17 @@ function wants(p: Person, digest: DigestKey): boolean {
   return digest === "escalations" || p.digests?.[digest] !== false;
 }
 
-/** Everything the run decides from: statuses at the instant, people, preferences, and what each reminder's line says. */
+/** Everything the run decides from: statuses at the instant, what was sent before, people, preferences, and what each reminder's line says. */
 async function gatherWorld(deps: RemindersDeps, at: Date) {
   const { db, config } = deps;
   const settings = await getSettings(db, config.SHOP_TIME_ZONE);
   const tz = settings.shopTimeZone;
   const today = calendarDate(at, tz);
   const horizon = addDays(today, Math.max(...settings.reminderStages));
-  const ids = (await eventsAfter(db, at)) ? await repo.candidateToolIdsFromRecords(db, at, horizon) : await repo.candidateToolIds(db, at, horizon);
+  const candidates = (await eventsAfter(db, at)) ? repo.candidateToolIdsFromRecords(at, horizon) : repo.candidateToolIds(at, horizon);
   const ctx = { timeZone: tz, dueSoonDays: settings.dueSoonDays };
-  const [statuses, factRows] = await Promise.all([statusesFor(db, ids, at, ctx), repo.toolFacts(db, ids)]);
-  const facts = new Map(factRows.map((f) => [f.id, f]));
+  // Two reads of the same candidate set, side by side; the database names the set each time.
+  const [{ views: statuses, tools: facts }, sentBefore] = await Promise.all([statusesIn(db, candidates, at, ctx), repo.sentKeys(db, candidates)]);
 
   const holderIds = new Set<string>();
   for (const f of facts.values()) if (f.ownerType === "personal" && f.ownerUserId) holderIds.add(f.ownerUserId);
@@ -228,20 +227,30 @@ async function gatherWorld(deps: RemindersDeps, at: Date) {
   });
 
   const baseUrl = publicBaseUrl(config);
-  const when = (instant: string) => `${calendarDate(instant, tz)} ${new Intl.DateTimeFormat("en-GB", { timeZone: tz, hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).format(new Date(instant))}`;
+  const clockTime = new Intl.DateTimeFormat("en-GB", { timeZone: tz, hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
+  const when = (instant: string) => `${calendarDate(instant, tz)} ${clockTime.format(new Date(instant))}`;
   const plural = (n: number, what: string) => `${n} ${what}${n === 1 ? "" : "s"}`;
 
   function lineFor(toolId: string, stage: ReminderStage): DigestLine {
     const s = statuses.get(toolId)!;
     const f = facts.get(toolId)!;
     const days = s.daysToDue ?? 0;
-    const overdueWhy = days < 0 ? `${plural(-days, "day")} overdue` : "usage limit reached";
-    const detail: Record<string, string> = {
-      overdue: `${plural(-days, "day")} overdue; do not use until recalibrated`,
-      usage_low: `${plural(s.usesRemaining ?? 0, "use")} left of ${f.usageLimit}`,
-      usage_limit: `all ${f.usageLimit} uses since calibration taken; recalibrate before further use`,
-      not_returned: s.custodian ? `was due back ${when(s.custodian.dueBackAt)}` : "",
-      escalation: `${overdueWhy}${s.custodian ? " and still issued" : ""}`,
+    // Only the line's own stage is worded (a digest may hold thousands of lines).
+    const detail = (): string => {
+      switch (stage) {
+        case "overdue":
+          return `${plural(-days, "day")} overdue; do not use until recalibrated`;
+        case "usage_low":
+          return `${plural(s.usesRemaining ?? 0, "use")} left of ${f.usageLimit}`;
+        case "usage_limit":
+          return `all ${f.usageLimit} uses since calibration taken; recalibrate before further use`;
+        case "not_returned":
+          return s.custodian ? `was due back ${when(s.custodian.dueBackAt)}` : "";
+        case "escalation":
+          return `${days < 0 ? `${plural(-days, "day")} overdue` : "usage limit reached"}${s.custodian ? " and still issued" : ""}`;
+        default:
+          return days === 0 ? "runs out today; usable until the end of the day" : `in ${plural(days, "day")}`;
+      }
     };
     const owner = f.ownerType === "personal" ? (people.get(f.ownerUserId ?? "")?.name ?? f.ownerName ?? "its owner") : null;
     const c = s.custodian;
@@ -250,12 +259,12 @@ async function gatherWorld(deps: RemindersDeps, at: Date) {
       assetTag: s.assetTag,
       description: f.description,
       dueAt: s.dueAt,
-      detail: detail[stage] ?? (days === 0 ? "runs out today; usable until the end of the day" : `in ${plural(days, "day")}`),
+      detail: detail(),
       where: c ? `Issued out of the crib${f.location ? ` (kept at ${f.location})` : ""}` : (f.location ?? (owner ? "With its owner" : "In the crib")),
       who: c ? `${c.name} (${c.email}), since ${when(c.since)}` : owner ? `${owner} (owner)` : "Nobody: not issued",
       link: `${baseUrl}/tools/${encodeURIComponent(s.assetTag)}`,
     };
   }
 
-  return { planned, people, lineFor, baseUrl, shopName: settings.shopName };
+  return { planned, sentBefore, people, lineFor, baseUrl, shopName: settings.shopName };
 }

@@ -1,5 +1,6 @@
 import { sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
+import { isoInstant } from "../../db/values";
 import { awaitingSignatureOfActivity, jobState } from "../jobs/job-state";
 import { notReturnedCount } from "../checkouts/checkouts.repository";
 import { undisposedItemsOf } from "../investigations/investigations.repository";
@@ -7,7 +8,7 @@ import { undisposedItemsOf } from "../investigations/investigations.repository";
 type Row = Record<string, unknown>;
 /** Sheet states of the job aliased `j` (the same definition as the jobs list's status filter). */
 const sheet = jobState(sql`j.id`);
-const iso = (v: unknown) => (v == null ? null : new Date(String(v instanceof Date ? v.toISOString() : v)).toISOString());
+const iso = isoInstant;
 
 /** A job summary row: counts of readings and the last one; a sheet is open until an inspector signs it. */
 const jobSummary = (r: Row) => ({

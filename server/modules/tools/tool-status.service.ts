@@ -1,6 +1,7 @@
 import { sql, type SQL } from "drizzle-orm";
 import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
+import { isoInstant } from "../../db/values";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
@@ -35,7 +36,7 @@ export async function statusContext(db: DbOrTx, defaultTimeZone: string): Promis
 export const statusContextOf = (s: Pick<Settings, "shopTimeZone" | "dueSoonDays">): StatusContext => ({ timeZone: s.shopTimeZone, dueSoonDays: s.dueSoonDays });
 
 type Row = Record<string, unknown>;
-const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : v == null ? null : new Date(String(v)).toISOString());
+const iso = isoInstant;
 const dateOnly = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISOString().slice(0, 10) : String(v).slice(0, 10));
 
 /**
@@ -51,6 +52,15 @@ export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: 
 }
 
 /**
+ * Statuses at `at` of the tools whose id is in `toolIdsQuery` (a select of tool ids), with where each tool is kept
+ * and whose it is: for a set the database can name itself, such as a batch's candidates, without sending thousands
+ * of ids back and forth.
+ */
+export async function statusesIn(db: DbOrTx, toolIdsQuery: SQL, at: Date, ctx: StatusContext) {
+  return statusesWhere(db, sql`t.id in (${toolIdsQuery})`, at, ctx);
+}
+
+/**
  * One tool's status by its asset tag (exact, else differing in case only, as a scanned or typed tag may), with what
  * a status answer shows of the tool: one query at the present.
  */
@@ -58,22 +68,42 @@ export async function statusByTag(db: DbOrTx, assetTag: string, at: Date, ctx: S
   let found = await statusesWhere(db, sql`t.asset_tag = ${assetTag}`, at, ctx);
   if (found.views.size === 0) found = await statusesWhere(db, sql`lower(t.asset_tag) = lower(${assetTag})`, at, ctx);
   const [view] = found.views.values();
-  return view ? { view, ...found.tools.get(view.toolId)! } : null;
+  const tool = found.tools.get(view?.toolId ?? "");
+  return view && tool ? { view, description: tool.description, unit: tool.unit } : null;
+}
+
+/** What a status answer or a reminder line says of the tool besides its status. */
+export interface ToolFacts {
+  description: string;
+  unit: string;
+  location: string | null;
+  ownerType: string;
+  ownerUserId: string | null;
+  ownerName: string | null;
+  usageLimit: number | null;
 }
 
 async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext) {
   const views = new Map<string, ToolStatusView>();
-  const tools = new Map<string, { description: string; unit: string }>();
+  const tools = new Map<string, ToolFacts>();
   const atTs = at.toISOString();
   const res = await db.execute(sql`
-    select t.id, t.asset_tag, t.unit, t.description, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
+    select t.id, t.asset_tag, t.unit, t.description, t.location, t.owner_type, t.owner_user_id, t.owner_name, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
     from tools t
     left join tool_states s on s.tool_id = t.id
     left join users u on u.id = s.custody_user_id
     where ${where}`);
   const past: string[] = [];
   for (const r of res.rows as Row[]) {
-    tools.set(String(r.id), { description: String(r.description), unit: String(r.unit) });
+    tools.set(String(r.id), {
+      description: String(r.description),
+      unit: String(r.unit),
+      location: (r.location as string | null) ?? null,
+      ownerType: String(r.owner_type),
+      ownerUserId: (r.owner_user_id as string | null) ?? null,
+      ownerName: (r.owner_name as string | null) ?? null,
+      usageLimit: r.usage_limit == null ? null : Number(r.usage_limit),
+    });
     const id = String(r.id);
     if (!r.has_state || (r.settled_at != null && Date.parse(iso(r.settled_at)!) > at.getTime())) {
       past.push(id);
