@@ -50,12 +50,11 @@ export const remindersRepository = {
 
   /** Keys (tool|due date|stage|recipient) of the reminders already sent about these tools: they are never sent again. */
   async sentKeys(db: DbOrTx, toolIdsQuery: SQL): Promise<Set<string>> {
+    // The key is put together by the database: one text column a row to read, not four.
     const res = await db.execute(sql`
-      select l.tool_id, l.due_at::text as due_at, l.stage, l.recipient_id from reminder_log l
+      select l.tool_id::text || '|' || l.due_at::text || '|' || l.stage || '|' || l.recipient_id::text as k from reminder_log l
       where l.status = 'sent' and l.tool_id in (${toolIdsQuery})`);
-    const out = new Set<string>();
-    for (const r of res.rows as Record<string, unknown>[]) out.add(`${String(r.tool_id)}|${String(r.due_at)}|${String(r.stage)}|${String(r.recipient_id)}`);
-    return out;
+    return new Set((res.rows as { k: string }[]).map((r) => r.k));
   },
 
   /** Active people who may receive mail: by id, plus everyone holding one of the roles. */
