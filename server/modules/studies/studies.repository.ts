@@ -1,4 +1,5 @@
 import { asc, eq, inArray, sql, type SQL } from "drizzle-orm";
+import { pgArray } from "../../db/values";
 import type { DbOrTx } from "../../db/client";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
@@ -290,7 +291,7 @@ export const studiesRepository = {
   async latest(db: DbOrTx, filter: { familyId?: string; limitTableId?: string; familyIds?: string[]; itemKey?: string }): Promise<LatestRow[]> {
     const conds: SQL[] = [sql`true`];
     if (filter.familyId) conds.push(sql`s.family_id = ${filter.familyId}`);
-    if (filter.familyIds) conds.push(filter.familyIds.length ? sql`s.family_id = any(${`{${filter.familyIds.join(",")}}`}::uuid[])` : sql`false`);
+    if (filter.familyIds) conds.push(filter.familyIds.length ? sql`s.family_id = any(${pgArray(filter.familyIds)}::uuid[])` : sql`false`);
     if (filter.limitTableId) conds.push(sql`s.table_root_id = (${rootOf(filter.limitTableId)})`);
     if (filter.itemKey) conds.push(sql`s.item_key = ${filter.itemKey}`);
     const res = await db.execute(latestSelect(sql.join(conds, sql` and `)));
@@ -312,7 +313,7 @@ export const studiesRepository = {
     const roots = [...new Set(pairs.map((p) => p.tableRootId))];
     const res = await db.execute(sql`
       with recursive down(id, root_id, version) as (
-        select id, id, version from limit_tables where id = any(${`{${roots.join(",")}}`}::uuid[])
+        select id, id, version from limit_tables where id = any(${pgArray(roots)}::uuid[])
         union all
         select t.id, d.root_id, t.version from limit_tables t join down d on t.supersedes_id = d.id
       ), newest as (select distinct on (root_id) id, root_id from down order by root_id, version desc)

@@ -3,6 +3,7 @@
 // (the definition; tests/api/tool-states-property.api.test.ts holds them equal), written so
 // that a filter by status or a count by status is a range scan on (base_status, cal_next_due).
 import { sql, type SQL } from "drizzle-orm";
+import { pgArray } from "../../db/values";
 import type { DbOrTx } from "../../db/client";
 import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
 import type { StatusContext } from "./tool-status.service";
@@ -60,7 +61,7 @@ export function statusIn(statuses: readonly ToolStatus[], now: StatusNow): SQL {
   if (wanted.length === 0) return sql`false`;
   const fixed = wanted.filter((x) => (FIXED_STATUSES as readonly string[]).includes(x));
   const parts = wanted.filter((x) => !fixed.includes(x)).map((x) => statusIs(x, now));
-  if (fixed.length) parts.push(sql`s.base_status = any(${`{${fixed.join(",")}}`}::text[])`);
+  if (fixed.length) parts.push(sql`s.base_status = any(${pgArray(fixed)}::text[])`);
   return sql`(${sql.join(parts, sql` or `)})`;
 }
 

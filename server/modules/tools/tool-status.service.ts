@@ -1,7 +1,7 @@
 import { sql, type SQL } from "drizzle-orm";
 import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
-import { isoInstant } from "../../db/values";
+import { isoInstant, pgArray } from "../../db/values";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
@@ -48,7 +48,7 @@ const dateOnly = (v: unknown) => (v == null ? null : v instanceof Date ? v.toISO
  */
 export async function statusesFor(db: DbOrTx, toolIds: string[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
   if (toolIds.length === 0) return new Map();
-  return (await statusesWhere(db, sql`t.id = any(${`{${toolIds.join(",")}}`}::uuid[])`, at, ctx)).views;
+  return (await statusesWhere(db, sql`t.id = any(${pgArray(toolIds)}::uuid[])`, at, ctx)).views;
 }
 
 /**
@@ -167,7 +167,7 @@ export async function gatherStatusesAt(db: DbOrTx, toolIds: string[], at: Date, 
   const out = new Map<string, ToolStatusView>();
   if (toolIds.length === 0) return out;
   // One array parameter, however many tools: no parameter-count limit and one plan.
-  const ids = sql`${`{${toolIds.join(",")}}`}::uuid[]`;
+  const ids = sql`${pgArray(toolIds)}::uuid[]`;
   const atTs = at.toISOString();
 
   // A transaction is one connection: its queries go one after another; on the
