@@ -75,10 +75,17 @@ const LimitJudgementSchema = z.object({
   decidingLimits: z.object({ min: z.number().nullable(), max: z.number().nullable() }),
 });
 
+/**
+ * A place's current reading on the sheet: the reading as recorded, without its judged place, which is the row's
+ * `place` (sent once: it is the largest part of a row, and a sheet of 1,000 readings sent it twice).
+ */
+export const SheetReadingSchema = ReadingViewSchema.omit({ place: true });
+export type SheetReading = z.infer<typeof SheetReadingSchema>;
+
 export const SheetRowSchema = z.object({
   index: z.number().int(),
-  /** The current reading (latest, not superseded); clearance rows have none. */
-  reading: ReadingViewSchema.nullable(),
+  /** The current reading (latest, not superseded); clearance rows have none. Its judged place is the row's `place`. */
+  reading: SheetReadingSchema.nullable(),
   /** Readings this place held before, each superseded with a reason. */
   history: z.array(ReadingViewSchema),
   /** Clearance rows: the loosest fit (radial where the table says radial); `place` carries both fits. */

@@ -418,11 +418,13 @@ describe("refusals and flags", () => {
     const a = await t.agent("mechanic");
     const res = await a.post(`/api/jobs/${job.id}/readings`, { itemKey: "journal", values: [50, 50], toolAssetTags: [mic.assetTag], temperatureC: 25, partMaterial: "aluminium_7075" });
     expect(res.body.size).toBe(50);
-    const r = row((await a.get(`/api/jobs/${job.id}`)).body, "journal").reading;
+    const sheetRow = row((await a.get(`/api/jobs/${job.id}`)).body, "journal");
     // 7075 journal 50 mm read with a steel micrometer at 25 °C reads 2.975 µm large (reference-values.md, JCGM 100:2008 H.1).
-    expect(r.size).toBe(50);
-    expect(r.place.thermal).toMatchObject({ correction: -0.002975, source: "reading", material: "aluminium_7075" });
-    expect(r.place).toMatchObject({ rawSize: 50, size: 49.997025 });
+    expect(sheetRow.reading.size).toBe(50);
+    expect(sheetRow.place.thermal).toMatchObject({ correction: -0.002975, source: "reading", material: "aluminium_7075" });
+    expect(sheetRow.place).toMatchObject({ rawSize: 50, size: 49.997025 });
+    // The judged place is sent once, on the row: the reading beside it does not carry a second copy.
+    expect(sheetRow.reading).not.toHaveProperty("place");
   });
 });
 

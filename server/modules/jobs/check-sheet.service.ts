@@ -6,7 +6,7 @@ import { itemViewsOf } from "../limit-tables/limit-tables.service";
 import { readingsRepository } from "../readings/readings.repository";
 import { evidenceOfRow, evidenceOfRows } from "../readings/reading-evidence";
 import { JUDGING_RULES_VERSION, judgeReading, judgeRow, shownOnly, slotKey, type Judged, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../shared/inspection/judging";
-import type { CheckSheet, JobSummary, SheetItem, SheetRow } from "../../../shared/jobs/jobs.schemas";
+import type { CheckSheet, JobSummary, SheetItem, SheetReading, SheetRow } from "../../../shared/jobs/jobs.schemas";
 import type { LeafView, ReadingView } from "../../../shared/readings/readings.schemas";
 import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
 import { stackAsLeaf, type LeafStack } from "../../../shared/inspection/feeler";
@@ -89,6 +89,11 @@ async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, Li
     };
   });
   return { views, judged };
+}
+
+/** The current reading as its row carries it: the judged place is the row's own (`SheetRow.place`), sent once. */
+function withoutPlace({ place: _place, ...shown }: ReadingView): SheetReading {
+  return shown;
 }
 
 /** A feeler check recorded before the leaves were kept with the reading (rules 1): the leaves as its judged place names them. */
@@ -186,10 +191,10 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
       if (reading) readingFlags.push(reading.flags);
       const differs = !!reading && reading.recordedVerdict !== "pending" && reading.verdict !== "pending" && reading.recordedVerdict !== reading.verdict;
       if (differs) judgedDifferently++;
-      const place = reading?.place ?? { kind: "pending" as const, itemKey: item.key, index, verdict: "pending" as const, band: null, margin: null, text: "Pending" };
+      const place = reading ? reading.place : { kind: "pending" as const, itemKey: item.key, index, verdict: "pending" as const, band: null, margin: null, text: "Pending" };
       rows.push({
         index,
-        reading,
+        reading: reading && withoutPlace(reading),
         history: history.get(k) ?? [],
         clearance: null,
         judgement: judgementOf(item, place),

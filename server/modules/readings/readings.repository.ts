@@ -1,6 +1,7 @@
 import { and, asc, eq, getTableColumns, inArray, isNull, sql, type SQLWrapper } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
+import { pgArray } from "../../db/values";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { tools, setElements } from "../tools/tools.table";
 import { families } from "../families/families.table";
@@ -128,51 +129,74 @@ export const readingsRepository = {
   },
 
   /**
-   * Every reading of a job (superseded ones too) in one query, as the check sheet shows them: the people named, the
-   * reading that superseded it (a correction is a reading of the same sheet, so it is read off the rows), its tools
-   * with the status and due date stored at the reading (never derived again), whether an open investigation holds it,
-   * and its stored judgement under `rulesVersion` (null until judged).
+   * Every reading of a job (superseded ones too), as the check sheet shows them: the people named, the reading that
+   * superseded it (a correction is a reading of the same sheet, so it is read off the rows), its tools with the status
+   * and due date stored at the reading (never derived again), whether an open investigation holds it, and its stored
+   * judgement under `rulesVersion` (null until judged).
    *
    * Written as SQL with the row's columns under their TypeScript names: a sheet of 1,000 readings spent more time in
-   * the ORM's per-column mapping than in the database. Each reading's tools and its open-investigation mark are index
-   * probes per reading (a lateral join and a LIMIT 1 subquery), so the cost follows the sheet, not the register or the
-   * number of open investigations.
+   * the ORM's per-column mapping than in the database. The open-investigation mark is one index probe per reading
+   * against the open investigations' ids, read once (an uncorrelated array): joining every open investigation to
+   * each reading cost a probe per reading *and* investigation. The tools come in a second query as plain rows (a
+   * reading's link rows, then each tool used once) rather than a JSON list built per reading; the two run one after
+   * the other, as they share one connection inside a transaction.
    */
   async ofJob(db: DbOrTx, jobId: string, rulesVersion: number): Promise<SheetReadingRow[]> {
     const res = await db.execute(sql`
       select ${sql.raw(READING_COLUMNS)}, tk.name as "takerName", ov.name as "overriderName",
-        coalesce(tl.tools, '[]'::json) as tools,
-        coalesce((select true from investigation_items ii join investigations i on i.id = ii.investigation_id and i.status = 'open'
-                  where ii.reading_id = r.id limit 1), false) as suspect,
+        exists (select 1 from investigation_items ii
+                where ii.reading_id = r.id and ii.investigation_id = any(array(select id from investigations where status = 'open'))) as suspect,
         rj.judged_at as "judgedAt", rj.detail as "judgedView"
       from readings r
       left join users tk on tk.id = r.taken_by
       left join users ov on ov.id = r.override_by
-      left join lateral (
-        select json_agg(json_build_object('assetTag', t.asset_tag, 'description', t.description, 'kind', f.kind, 'unit', t.unit,
-                 'statusAtReading', rt.status_at_reading, 'dueAtReading', rt.due_at_reading) order by rt.position) as tools
-        from reading_tools rt join tools t on t.id = rt.tool_id join families f on f.id = t.family_id
-        where rt.reading_id = r.id) tl on true
       left join reading_judgements rj on rj.reading_id = r.id and rj.rules_version = ${rulesVersion}
       where r.job_id = ${jobId}
       order by r.taken_at, r.id`);
+    const toolsOf = await readingsRepository.toolsOfJob(db, jobId);
     // A correction is a reading of the same sheet: which reading superseded which is read off the rows themselves.
     const successorOf = new Map<string, string>();
     for (const x of res.rows as Record<string, unknown>[]) if (x.supersedesId) successorOf.set(x.supersedesId as string, x.id as string);
     return (res.rows as Record<string, unknown>[]).map((x) => {
-      const { takerName, overriderName, tools, suspect, judgedAt, judgedView, ...r } = x;
+      const { takerName, overriderName, suspect, judgedAt, judgedView, ...r } = x;
       r.takenAt = new Date(r.takenAt as string | Date);
       return {
         r: r as unknown as ReadingRow,
         takerName: (takerName as string | null) ?? null,
         overriderName: (overriderName as string | null) ?? null,
         supersededById: successorOf.get(r.id as string) ?? null,
-        tools: tools as ReadingToolOfSheet[],
+        tools: toolsOf.get(r.id as string) ?? [],
         suspect: suspect === true,
         judgedAt: judgedAt == null ? null : new Date(judgedAt as string | Date),
         judgedView: (judgedView as unknown) ?? null,
       };
     });
+  },
+
+  /** The tools of every reading of a job, by reading id, in the order the reading names them. */
+  async toolsOfJob(db: DbOrTx, jobId: string): Promise<Map<string, ReadingToolOfSheet[]>> {
+    const links = await db.execute<{ readingId: string; toolId: string; statusAtReading: string; dueAtReading: string | null }>(sql`
+      select rt.reading_id as "readingId", rt.tool_id as "toolId", rt.status_at_reading as "statusAtReading", rt.due_at_reading::text as "dueAtReading"
+      from readings r join reading_tools rt on rt.reading_id = r.id
+      where r.job_id = ${jobId}
+      order by rt.reading_id, rt.position`);
+    const ids = [...new Set(links.rows.map((l) => l.toolId))];
+    const used = ids.length
+      ? await db.execute<{ id: string; assetTag: string; description: string; kind: string; unit: "in" | "mm" }>(sql`
+          select t.id, t.asset_tag as "assetTag", t.description, f.kind, t.unit
+          from tools t join families f on f.id = t.family_id
+          where t.id = any(${pgArray(ids)}::uuid[])`)
+      : { rows: [] };
+    const tool = new Map(used.rows.map((t) => [t.id, t]));
+    const byReading = new Map<string, ReadingToolOfSheet[]>();
+    for (const l of links.rows) {
+      const t = tool.get(l.toolId)!;
+      const entry: ReadingToolOfSheet = { assetTag: t.assetTag, description: t.description, kind: t.kind, unit: t.unit, statusAtReading: l.statusAtReading, dueAtReading: l.dueAtReading };
+      const list = byReading.get(l.readingId);
+      if (list) list.push(entry);
+      else byReading.set(l.readingId, [entry]);
+    }
+    return byReading;
   },
 
   /** Records a reading's judgement under a rules version; a second one for the same version is ignored (idempotent). */

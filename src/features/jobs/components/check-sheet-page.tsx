@@ -12,9 +12,9 @@ import { useCan } from "../../auth/api/auth";
 import { formatLength, type LengthUnit } from "../../../../shared/common/units";
 import { clearanceText, judgeRow, lengthText, slotKey, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
 import { evidenceOf } from "../../../../shared/inspection/check-sheet";
-import { FLAG_LABELS, type ReadingFlag, type ReadingView } from "../../../../shared/readings/readings.schemas";
+import { FLAG_LABELS, type ReadingFlag } from "../../../../shared/readings/readings.schemas";
 import { VERIFY_NOTICE } from "../../../../shared/limit-tables/limit-tables.schemas";
-import type { CheckSheet, SheetItem, SheetRow } from "../../../../shared/jobs/jobs.schemas";
+import type { CheckSheet, SheetItem, SheetReading, SheetRow } from "../../../../shared/jobs/jobs.schemas";
 import type { ToolStatus } from "../../../../shared/tools/tool-status";
 import { ReadingEntry } from "./reading-entry";
 import { EntryGridSection } from "./entry-grid";
@@ -231,7 +231,7 @@ function PlaceRow({
     <div className="flex flex-col gap-2" aria-label={`${item.label} no. ${row.index}`}>
       <div className="flex flex-wrap items-center gap-3">
         <span className="w-12 font-semibold">No. {row.index}</span>
-        {r ? <SavedReading reading={r} unit={unit} /> : <span className="text-ink-faint">Not measured yet</span>}
+        {r ? <SavedReading reading={r} place={row.place} unit={unit} /> : <span className="text-ink-faint">Not measured yet</span>}
         {r && <VerdictBadge verdict={r.verdict} text={r.verdictText} />}
         {canWriteHere && !editing && (
           <Button variant={r ? "ghost" : "secondary"} onClick={() => setEditing(true)} aria-label={`${r ? "Correct" : "Measure"} ${item.label} no. ${row.index}`}>
@@ -283,13 +283,13 @@ function PlaceRow({
   );
 }
 
-function SavedReading({ reading: r, unit }: { reading: ReadingView; unit: LengthUnit }) {
+function SavedReading({ reading: r, place, unit }: { reading: SheetReading; place: PlaceView; unit: LengthUnit }) {
   return (
     <div className="flex flex-wrap items-center gap-x-3 gap-y-1 text-sm">
       {r.size != null && (
         <span className="tabular-nums font-semibold">
           size {formatLength(r.size, unit)} {unit}
-          {r.place.kind === "size" && r.place.thermal && ` · ${lengthText(r.place.size, unit)} at 20 °C`}
+          {place.kind === "size" && place.thermal && ` · ${lengthText(place.size, unit)} at 20 °C`}
         </span>
       )}
       {r.finding && <span className="italic">{r.finding}</span>}

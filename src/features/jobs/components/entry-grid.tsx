@@ -12,8 +12,7 @@ import { formatDate } from "../../../lib/format";
 import { STATUS_LABELS, type ToolStatus } from "../../../../shared/tools/tool-status";
 import { clearanceText, dependentItems, judgeRow, lengthText, slotKey, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
 import { evidenceOf } from "../../../../shared/inspection/check-sheet";
-import type { CheckSheet, SheetItem } from "../../../../shared/jobs/jobs.schemas";
-import type { ReadingView } from "../../../../shared/readings/readings.schemas";
+import type { CheckSheet, SheetItem, SheetRow } from "../../../../shared/jobs/jobs.schemas";
 import {
   cellName,
   cellState,
@@ -42,6 +41,9 @@ import {
 } from "../lib/entry-grid";
 import { VerdictBadge } from "./verdict-badge";
 import { rawValue } from "./place-view";
+
+/** A place's saved reading with its judged place, as the sheet's row carries them. */
+type SavedRow = { reading: NonNullable<SheetRow["reading"]>; place: SheetRow["place"] };
 
 // The keyboard entry grid of a check sheet: places as rows, directions as cells. Enter (or Tab) moves on, so a gauge
 // whose data cable types the value and Enter fills the sheet cell by cell; the tool in hand stays until another is
@@ -100,8 +102,8 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
   const rows = useMemo(() => entryRows(sheet.items), [sheet.items]);
   const itemOf = useMemo(() => new Map(sheet.items.map((i) => [i.key, i])), [sheet.items]);
   const saved = useMemo(() => {
-    const m = new Map<string, ReadingView>();
-    for (const it of sheet.items) for (const r of it.rows) if (r.reading) m.set(slotKey(it.key, r.index), r.reading);
+    const m = new Map<string, SavedRow>();
+    for (const it of sheet.items) for (const r of it.rows) if (r.reading) m.set(slotKey(it.key, r.index), { reading: r.reading, place: r.place });
     return m;
   }, [sheet.items]);
   const savedOnSheet = useCallback((slot: string) => saved.has(slot), [saved]);
@@ -245,7 +247,7 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
       const draft = row && !saved.has(slot) ? draftEvidence(row, drafts.rows[slot]) : null;
       if (draft) return draft;
       const r = saved.get(slot);
-      return r ? evidenceOf(r) : undefined;
+      return r ? evidenceOf(r.reading) : undefined;
     },
     [rowOf, saved, drafts.rows],
   );
@@ -303,7 +305,7 @@ function EntryGrid({ sheet }: { sheet: CheckSheet }) {
         cell: ({ row: { original: r } }) => {
           const direction = i + 1;
           if (direction > r.directions) return <span className="text-ink-soft">—</span>;
-          const reading = saved.get(r.slot);
+          const reading = saved.get(r.slot)?.reading;
           const draft = drafts.rows[r.slot];
           const state = cellState(!!reading, draft, direction);
           if (reading || draft?.savedId) {
@@ -489,7 +491,7 @@ function RowResult({
   row: GridRow;
   item: SheetItem;
   items: SheetItem[];
-  saved: ReadingView | null;
+  saved: SavedRow | null;
   evidenceAt: (k: string, i: number) => ReadingEvidence | undefined;
   ctx: JudgingContext;
   unit: "in" | "mm";

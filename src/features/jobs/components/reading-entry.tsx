@@ -7,8 +7,8 @@ import { ApiError, errorMessage } from "../../../lib/api-client";
 import { EXPANSION_COEFFICIENTS, type MaterialKey } from "../../../../shared/common/units";
 import { clearanceText, judgeReading, lengthText, type JudgingContext, type PlaceView, type ReadingEvidence } from "../../../../shared/inspection/judging";
 import { stackFrom, type FeelerEvidence, type LeafStack } from "../../../../shared/inspection/feeler";
-import { CreateReadingSchema, ENTER_A_NUMBER, type CreateReadingInput, type LeafView, type ReadingView } from "../../../../shared/readings/readings.schemas";
-import type { CheckSheet, SheetItem } from "../../../../shared/jobs/jobs.schemas";
+import { CreateReadingSchema, ENTER_A_NUMBER, type CreateReadingInput, type LeafView } from "../../../../shared/readings/readings.schemas";
+import type { CheckSheet, SheetItem, SheetReading } from "../../../../shared/jobs/jobs.schemas";
 import { VerdictBadge } from "./verdict-badge";
 import { PlaceDetail, stackText } from "./place-view";
 import { useCan } from "../../auth/api/auth";
@@ -22,7 +22,7 @@ interface Props {
   index: number;
   sheet: CheckSheet;
   ctx: JudgingContext;
-  correcting?: ReadingView;
+  correcting?: SheetReading;
   /** The places this reading feeds (clearances, tapers), judged with what is typed here. */
   fed: { label: string; place: PlaceView }[];
   onDraft: (evidence: ReadingEvidence | null) => void;
