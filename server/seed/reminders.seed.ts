@@ -17,7 +17,7 @@ export async function seedReminders(ctx: SeedContext): Promise<void> {
       // A missing mail catcher should not hold the first start for long; the scheduled run retries.
       retry: { attempts: 2, backoffMs: () => 500, sleep: (ms) => new Promise((r) => setTimeout(r, ms)) },
     },
-    { trigger: "manual" },
+    { trigger: "setup" },
   );
   ctx.shared.reminderRun = result;
 }

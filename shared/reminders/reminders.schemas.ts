@@ -50,7 +50,9 @@ export const UpdateNotificationPreferencesSchema = z
   .strict();
 export type UpdateNotificationPreferences = z.infer<typeof UpdateNotificationPreferencesSchema>;
 
-export const REMINDER_TRIGGERS = ["schedule", "manual", "cli"] as const;
+/** Who started a run: the schedule, a person ("Run reminders now"), the shell command, or the first start that set up the demo shop. */
+export const REMINDER_TRIGGERS = ["schedule", "manual", "cli", "setup"] as const;
+export type ReminderTrigger = (typeof REMINDER_TRIGGERS)[number];
 export const REMINDER_RUN_STATUSES = ["running", "finished", "failed", "skipped_locked"] as const;
 
 /** One run of the reminder job. `sent` and `failed` count e-mails; `skipped` counts reminders already sent by an earlier run. */

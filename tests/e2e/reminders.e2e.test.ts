@@ -102,6 +102,9 @@ describe("reminder mail in the demo", () => {
     await expect(status.textContent()).resolves.toMatch(/^0 e-mails sent; \d+ reminders? (was|were) already sent by an earlier run\.$/);
     expect(catcher.messages().length).toBe(before);
     await expect(runs.getByRole("row").count()).resolves.toBe(3); // header, the seed's run, this one
+    // The first start's run is named as such, not as a person who has since left.
+    await expect(runs.getByRole("row").filter({ hasText: "First start (demo set-up)" }).count()).resolves.toBe(1);
+    await expect(runs.textContent()).resolves.not.toContain("no longer on record");
     await runs.getByRole("button", { name: /Details of the run/ }).last().click();
     await page.getByRole("table", { name: "Reminders of this run" }).waitFor();
     await b.screenshot(page, "reminders-runs-admin");

@@ -12,7 +12,7 @@ import { recordAudit } from "../audit/audit.repository";
 import { remindersRepository as repo, type ClaimedReminder } from "./reminders.repository";
 import { renderDigest, type DigestLine } from "./reminder-digest";
 import { planReminders, type DigestKey, type PlannedReminder, type ReminderStage, type ToolForReminders } from "../../../shared/reminders/reminder-plan";
-import type { RunRemindersResult } from "../../../shared/reminders/reminders.schemas";
+import type { ReminderTrigger, RunRemindersResult } from "../../../shared/reminders/reminders.schemas";
 import { addDays, calendarDate } from "../../../shared/common/dates";
 
 /** How a failed SMTP delivery is tried again; tests pass a sleep that does not wait. */
@@ -41,7 +41,7 @@ export interface RemindersDeps {
 }
 
 export interface RunOptions {
-  trigger: "schedule" | "manual" | "cli";
+  trigger: ReminderTrigger;
   /** The admin who ran it by hand, for the audit trail. */
   actorId?: string;
   /** Test seams: after the claim is committed, and after each digest is sent (throwing there simulates a crash). */

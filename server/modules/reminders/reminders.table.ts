@@ -1,12 +1,13 @@
 import { pgTable, uuid, text, integer, date, jsonb, timestamp, index, uniqueIndex } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
+import { REMINDER_TRIGGERS } from "../../../shared/reminders/reminders.schemas";
 
 export const reminderRuns = pgTable(
   "reminder_runs",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    trigger: text("trigger", { enum: ["schedule", "manual", "cli"] }).notNull(),
+    trigger: text("trigger", { enum: REMINDER_TRIGGERS }).notNull(),
     startedAt: timestamp("started_at", { withTimezone: true }).notNull(),
     finishedAt: timestamp("finished_at", { withTimezone: true }),
     status: text("status", { enum: ["running", "finished", "failed", "skipped_locked"] }).notNull(),

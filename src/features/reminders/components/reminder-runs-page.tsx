@@ -26,7 +26,7 @@ const STATUS: Record<ReminderRun["status"], { label: string; cls: string }> = {
   skipped_locked: { label: "Skipped: another run was sending", cls: "bg-paper-sunk text-ink-soft border-paper-line" },
 };
 /** Who started a run: the person who pressed "Run reminders now", else the schedule or the shell command. */
-const TRIGGER: Record<ReminderRun["trigger"], string> = { schedule: "Schedule", manual: "A person (no longer on record)", cli: "Shell command (npm run job:reminders)" };
+const TRIGGER: Record<ReminderRun["trigger"], string> = { schedule: "Schedule", manual: "A person (no longer on record)", cli: "Shell command (npm run job:reminders)", setup: "First start (demo set-up)" };
 const startedBy = (r: ReminderRun) => (r.trigger === "manual" && r.startedBy ? r.startedBy : TRIGGER[r.trigger]);
 
 function RunStatus({ run }: { run: Pick<ReminderRun, "status" | "failed"> }) {
