@@ -3,6 +3,7 @@ import type { DbOrTx } from "../../db/client";
 import { auditEvents } from "./audit.table";
 import { users } from "../users/users.table";
 import { listPage, pageOffset } from "../../db/paging";
+import { insertRows } from "../../db/columns";
 
 export interface AuditEntry {
   actorId: string | null;
@@ -25,7 +26,7 @@ const toRow = (e: AuditEntry) => ({
 });
 
 /** The statement that appends one line to the trail, not yet run: for a write that sends its rows in one statement. */
-export const auditInsert = (tx: DbOrTx, e: AuditEntry) => tx.insert(auditEvents).values(toRow(e));
+export const auditInsert = (e: AuditEntry): SQL => insertRows(auditEvents, [toRow(e)]);
 
 /** Appends one line to the audit trail, inside the caller's transaction. */
 export async function recordAudit(tx: DbOrTx, e: AuditEntry): Promise<void> {

@@ -1,7 +1,8 @@
-import { and, asc, eq, getTableColumns, inArray, isNull, sql, type SQLWrapper } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, sql, type SQL, type SQLWrapper } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { pgArray } from "../../db/values";
+import { columnsOf, insertRows } from "../../db/columns";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { tools, setElements } from "../tools/tools.table";
 import { families } from "../families/families.table";
@@ -37,9 +38,9 @@ export interface SheetReadingRow {
 const placeLock = (jobId: string, itemKey: string, index: number) => sql`pg_advisory_xact_lock(hashtextextended(${`reading-place:${jobId}:${itemKey}:${index}`}, 0))`;
 
 /** Every column of a reading, under its TypeScript name (`r.job_id as "jobId"`), for queries written as SQL. */
-const READING_COLUMNS = Object.entries(getTableColumns(readings))
-  .map(([key, col]) => `r.${col.name} as "${key}"`)
-  .join(", ");
+const READING = columnsOf(readings, "r");
+/** A tool's columns, prefixed (`t.asset_tag as "tool.assetTag"`), beside its family's kind. */
+const TOOL = columnsOf(tools, "t", "tool.");
 export type ReadingJudgementInsert = typeof readingJudgements.$inferInsert;
 export type ReadingInsert = typeof readings.$inferInsert;
 
@@ -47,14 +48,12 @@ const successor = alias(readings, "successor");
 
 export const readingsRepository = {
   /** Tools by asset tag, with their family's kind. */
-  toolsByTags: (db: DbOrTx, tags: string[]) =>
-    tags.length
-      ? db
-          .select({ tool: tools, kind: families.kind })
-          .from(tools)
-          .innerJoin(families, eq(families.id, tools.familyId))
-          .where(inArray(tools.assetTag, tags))
-      : Promise.resolve([]),
+  async toolsByTags(db: DbOrTx, tags: string[]): Promise<{ tool: typeof tools.$inferSelect; kind: string }[]> {
+    if (!tags.length) return [];
+    const res = await db.execute(sql`
+      select ${TOOL.list}, f.kind from tools t join families f on f.id = t.family_id where t.asset_tag = any(${pgArray(tags)}::text[])`);
+    return (res.rows as Record<string, unknown>[]).map((x) => ({ tool: TOOL.read(x), kind: String(x.kind) }));
+  },
 
   /** A set's leaves, with their results in the calibration that counts (rejected leaves and calibrated thickness). */
   async leavesOf(db: DbOrTx, toolId: string, calibrationId: string | null, at: Date) {
@@ -79,15 +78,33 @@ export const readingsRepository = {
   },
 
   /** The reading that currently holds a place on a sheet (not superseded). */
-  async currentAt(db: DbOrTx, jobId: string, itemKey: string, index: number) {
-    const [row] = await db
-      .select({ r: readings })
-      .from(readings)
-      .leftJoin(successor, eq(successor.supersedesId, readings.id))
-      .where(and(eq(readings.jobId, jobId), eq(readings.itemKey, itemKey), eq(readings.index, index), isNull(successor.id)))
-      .orderBy(sql`${readings.takenAt} desc`)
-      .limit(1);
-    return row?.r;
+  async currentAt(db: DbOrTx, jobId: string, itemKey: string, index: number): Promise<ReadingRow | undefined> {
+    const res = await db.execute(sql`
+      select ${READING.list} from readings r
+      where r.job_id = ${jobId} and r.item_key = ${itemKey} and r.index = ${index}
+        and not exists (select 1 from readings s where s.supersedes_id = r.id)
+      order by r.taken_at desc limit 1`);
+    const row = res.rows[0] as Record<string, unknown> | undefined;
+    return row && READING.read(row);
+  },
+
+  /**
+   * What a new reading checks at its place once the place is locked, in one statement: the reading that holds the
+   * place now (none when `currentOf` is false: a correction names the reading it replaces), and `flag`, a condition
+   * asked beside it (the gauge-study flag).
+   */
+  async placeCheck(db: DbOrTx, p: { jobId: string; itemKey: string; index: number; current: boolean; flag: SQL | null }) {
+    const res = await db.execute<{ currentId: string | null; flagged: boolean }>(sql`
+      select ${
+        p.current
+          ? sql`(select r.id from readings r
+                 where r.job_id = ${p.jobId} and r.item_key = ${p.itemKey} and r.index = ${p.index}
+                   and not exists (select 1 from readings s where s.supersedes_id = r.id)
+                 order by r.taken_at desc limit 1)`
+          : sql`null::uuid`
+      } as "currentId", ${p.flag ?? sql`false`} as flagged`);
+    const row = res.rows[0];
+    return { currentId: row.currentId ?? null, flagged: row.flagged === true };
   },
 
   /**
@@ -122,10 +139,9 @@ export const readingsRepository = {
     judgement: Omit<ReadingJudgementInsert, "readingId">,
     audit: SQLWrapper,
   ) {
-    // getSQL(): the statements themselves (an embedded query builder would be put in parentheses, as a subquery is).
-    const parts = [sql`r as (${db.insert(readings).values(values).getSQL()})`, sql`j as (${db.insert(readingJudgements).values({ ...judgement, readingId: values.id }).getSQL()})`];
-    if (toolRows.length) parts.push(sql`t as (${db.insert(readingTools).values(toolRows.map((t) => ({ ...t, readingId: values.id }))).getSQL()})`);
-    await db.execute(sql`with ${sql.join(parts, sql`, `)} ${audit.getSQL()}`);
+    const parts = [sql`r as (${insertRows(readings, [values])})`, sql`j as (${insertRows(readingJudgements, [{ ...judgement, readingId: values.id }])})`];
+    if (toolRows.length) parts.push(sql`t as (${insertRows(readingTools, toolRows.map((t) => ({ ...t, readingId: values.id })))})`);
+    await db.execute(sql`with ${sql.join(parts, sql`, `)} ${audit}`);
   },
 
   /**
@@ -143,7 +159,7 @@ export const readingsRepository = {
    */
   async ofJob(db: DbOrTx, jobId: string, rulesVersion: number): Promise<SheetReadingRow[]> {
     const res = await db.execute(sql`
-      select ${sql.raw(READING_COLUMNS)}, tk.name as "takerName", ov.name as "overriderName",
+      select ${READING.list}, tk.name as "takerName", ov.name as "overriderName",
         exists (select 1 from investigation_items ii
                 where ii.reading_id = r.id and ii.investigation_id = any(array(select id from investigations where status = 'open'))) as suspect,
         rj.judged_at as "judgedAt", rj.detail as "judgedView"
@@ -158,14 +174,14 @@ export const readingsRepository = {
     const successorOf = new Map<string, string>();
     for (const x of res.rows as Record<string, unknown>[]) if (x.supersedesId) successorOf.set(x.supersedesId as string, x.id as string);
     return (res.rows as Record<string, unknown>[]).map((x) => {
-      const { takerName, overriderName, suspect, judgedAt, judgedView, ...r } = x;
-      r.takenAt = new Date(r.takenAt as string | Date);
+      const { takerName, overriderName, suspect, judgedAt, judgedView } = x;
+      const r = READING.read(x);
       return {
-        r: r as unknown as ReadingRow,
+        r,
         takerName: (takerName as string | null) ?? null,
         overriderName: (overriderName as string | null) ?? null,
-        supersededById: successorOf.get(r.id as string) ?? null,
-        tools: toolsOf.get(r.id as string) ?? [],
+        supersededById: successorOf.get(r.id) ?? null,
+        tools: toolsOf.get(r.id) ?? [],
         suspect: suspect === true,
         judgedAt: judgedAt == null ? null : new Date(judgedAt as string | Date),
         judgedView: (judgedView as unknown) ?? null,

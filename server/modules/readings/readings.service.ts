@@ -6,12 +6,13 @@ import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
 import { auditInsert } from "../audit/audit.repository";
-import { statusContext, statusContextOf, statusesFor, type ToolStatusView } from "../tools/tool-status.service";
+import { statusContext, statusContextOf, statusesFor, toolsWithStatusByTags, type ToolStatusView } from "../tools/tool-status.service";
 import { jobsRepository, type JobForReading } from "../jobs/jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
 import { itemViewsOf } from "../limit-tables/limit-tables.service";
 import { readingsRepository, type ReadingInsert } from "./readings.repository";
-import { studyFlagsForReading } from "../studies/studies.service";
+import { studyFlagCondition } from "../studies/studies.service";
+import { STUDY_READING_FLAG } from "../../../shared/studies/studies.schemas";
 import { getSettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
 import { can } from "../../../shared/auth/roles";
@@ -107,7 +108,8 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     }
     const tags = [...new Set(input.toolAssetTags.map((t) => t.toUpperCase()))];
     if (tags.length !== input.toolAssetTags.length) badInput(["toolAssetTags"], "A tool is named twice.");
-    const named = await readingsRepository.toolsByTags(tx, tags);
+    // Each tool with its status at this instant (the one status derivation decides), in one statement.
+    const named = await toolsWithStatusByTags(tx, tags, at, statusContextOf(settings));
     const hits = tags.map((tag) => {
       const hit = named.find((f) => f.tool.assetTag.toUpperCase() === tag);
       if (!hit) throw notFound("tool", tag);
@@ -135,8 +137,8 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       if (!feelerSet) throw refused("tool_kind_unsuitable", "A feeler gap is checked with a feeler set; name the set.");
     }
 
-    // Usable at this instant? The one status derivation decides.
-    const statuses = await statusesFor(tx, hits.map((h) => h.tool.id), at, statusContextOf(settings));
+    // Usable at this instant?
+    const statuses = new Map(hits.map((h) => [h.tool.id, h.status]));
     const flags = new Set<ReadingFlag>();
     const unusable: { assetTag: string; status: string; reasons: string[] }[] = [];
     for (const h of hits) {
@@ -176,11 +178,20 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       for (const f of ["tool_overdue", "tool_out_of_tolerance", "tool_quarantined", "tool_never_calibrated"] as const) flags.delete(f);
     }
 
-    // One reading per place; a second one is a correction with a reason.
-    if (!extra.supersedesId) {
-      const existing = await readingsRepository.currentAt(tx, place.jobId, item.key, place.index);
-      if (existing) throw refused("reading_exists", `${item.label} no. ${place.index} already has a reading; correct it with a reason instead.`, { readingId: existing.id });
-    }
+    // One reading per place (a second one is a correction with a reason), asked in one statement with the gauge-study
+    // flag of a measured size: is the characteristic's latest study with these tools' families not acceptable?
+    const measured = item.kind === "journal" || item.kind === "bore";
+    const check =
+      !extra.supersedesId || measured
+        ? await readingsRepository.placeCheck(tx, {
+            jobId: place.jobId,
+            itemKey: item.key,
+            index: place.index,
+            current: !extra.supersedesId,
+            flag: measured ? studyFlagCondition({ limitTableId: job.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) }) : null,
+          })
+        : null;
+    if (check?.currentId) throw refused("reading_exists", `${item.label} no. ${place.index} already has a reading; correct it with a reason instead.`, { readingId: check.currentId });
 
     const base = {
       jobId: place.jobId,
@@ -243,13 +254,13 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       evidence = { itemKey: item.key, index: place.index, unit: tableUnit, values: [], visualResult: input.visualResult, finding: input.finding };
     }
 
-    if (item.kind === "journal" || item.kind === "bore") for (const f of await studyFlagsForReading(tx, { limitTableId: job.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) })) flags.add(f);
+    if (check?.flagged) flags.add(STUDY_READING_FLAG);
     const judged = judgeReading(item, evidence, jctx);
     const verdict = judged.view.verdict;
     const flagList = [...flags];
     const readingId = randomUUID();
     const stored = { ...values, id: readingId, verdict, flags: flagList };
-    const audit = auditInsert(tx, {
+    const audit = auditInsert({
       actorId: user.id,
       action: extra.supersedesId ? "reading.supersede" : "reading.create",
       entityType: "reading",

@@ -287,6 +287,15 @@ export const studiesRepository = {
   family: async (db: DbOrTx, id: string) => (await db.select().from(families).where(eq(families.id, id)))[0],
   usersByIds: (db: DbOrTx, ids: string[]) => (ids.length ? db.select().from(users).where(inArray(users.id, ids)) : Promise.resolve([])),
 
+  /**
+   * "The latest finished study of this characteristic with any of these families is not acceptable", as an SQL
+   * condition: for a statement that asks it beside other things (recording a reading asks it with its place's check).
+   */
+  notAcceptableLatest: (filter: { limitTableId: string; itemKey: string; familyIds: string[] }): SQL =>
+    filter.familyIds.length
+      ? sql`exists (select 1 from (${latestSelect(sql`s.family_id = any(${pgArray(filter.familyIds)}::uuid[]) and s.table_root_id = (${rootOf(filter.limitTableId)}) and s.item_key = ${filter.itemKey}`)}) l where l.verdict = 'not_acceptable')`
+      : sql`false`,
+
   /** Latest finished studies for one family, or for every characteristic of one table's lineage. */
   async latest(db: DbOrTx, filter: { familyId?: string; limitTableId?: string; familyIds?: string[]; itemKey?: string }): Promise<LatestRow[]> {
     const conds: SQL[] = [sql`true`];

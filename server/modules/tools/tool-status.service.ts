@@ -2,6 +2,8 @@ import { sql, type SQL } from "drizzle-orm";
 import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { isoInstant, pgArray } from "../../db/values";
+import { columnsOf } from "../../db/columns";
+import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
@@ -83,13 +85,32 @@ export interface ToolFacts {
   usageLimit: number | null;
 }
 
-async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext) {
+/** A tool's own columns, prefixed (`t.asset_tag as "tool.assetTag"`), beside the columns the status reads. */
+const TOOL = columnsOf(toolsTable, "t", "tool.");
+type ToolRow = typeof toolsTable.$inferSelect;
+
+/**
+ * Statuses at `at` of the tools named by their asset tags as recorded, each with the tool's whole row and its family's
+ * kind: what recording a reading checks of its tools, in one statement instead of two.
+ */
+export async function toolsWithStatusByTags(db: DbOrTx, tags: string[], at: Date, ctx: StatusContext): Promise<{ tool: ToolRow; kind: string; status: ToolStatusView }[]> {
+  if (tags.length === 0) return [];
+  const { views, rows } = await statusesWhere(db, sql`t.asset_tag = any(${pgArray(tags)}::text[])`, at, ctx, {
+    columns: sql`, ${TOOL.list}, f.kind as family_kind`,
+    joins: sql`join families f on f.id = t.family_id`,
+  });
+  return rows.map((r) => ({ tool: TOOL.read(r), kind: String(r.family_kind), status: views.get(String(r.id))! }));
+}
+
+async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext, extra?: { columns: SQL; joins: SQL }) {
   const views = new Map<string, ToolStatusView>();
   const tools = new Map<string, ToolFacts>();
   const atTs = at.toISOString();
   const res = await db.execute(sql`
     select t.id, t.asset_tag, t.unit, t.description, t.location, t.owner_type, t.owner_user_id, t.owner_name, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
+      ${extra?.columns ?? sql``}
     from tools t
+    ${extra?.joins ?? sql``}
     left join tool_states s on s.tool_id = t.id
     left join users u on u.id = s.custody_user_id
     where ${where}`);
@@ -112,7 +133,7 @@ async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContex
     views.set(id, fromState(r, atTs, ctx));
   }
   if (past.length) for (const [id, v] of await gatherStatusesAt(db, past, at, ctx)) views.set(id, v);
-  return { views, tools };
+  return { views, tools, rows: res.rows as Row[] };
 }
 
 /** The derivation's inputs from a tool_states row (with the tool's tag and unit and the custodian's name), derived at `at`. */

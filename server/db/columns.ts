@@ -1,0 +1,45 @@
+import { getTableColumns, sql, SQL, type Column, type InferInsertModel, type InferSelectModel, type Table } from "drizzle-orm";
+
+/**
+ * A table's columns for a statement written as SQL, and the reader that turns such a row into the row type the query
+ * builder gives (each column's own mapping from the driver's value, so dates, numerics and JSON come out the same).
+ *
+ * For the few statements every write runs (recording a reading): building a select or an insert with the query
+ * builder costs about 0.3–0.5 ms of the process's only thread per statement, the same statement as an `sql` template
+ * about 0.01 ms.
+ *
+ * `alias` is how the statement names the table; each column comes back as `prefix` + its TypeScript name.
+ */
+export function columnsOf<T extends Table>(table: T, alias: string, prefix = "") {
+  const cols = Object.entries(getTableColumns(table)) as [string, Column][];
+  const list = sql.raw(cols.map(([key, col]) => `${alias}."${col.name}" as "${prefix}${key}"`).join(", "));
+  const read = (row: Record<string, unknown>): InferSelectModel<T> => {
+    const out: Record<string, unknown> = {};
+    for (const [key, col] of cols) {
+      const v = row[prefix + key];
+      out[key] = v == null ? null : col.mapFromDriverValue(v);
+    }
+    return out as InferSelectModel<T>;
+  };
+  return { list, read };
+}
+
+/**
+ * `insert into <table> (…) values (…), (…)` as an `sql` template: the columns the rows name, each value through its
+ * column's mapping to the driver (a value given as SQL is put in as it is). A column a row leaves out takes the
+ * database's default, as with the query builder; no table written this way has a default computed in TypeScript.
+ */
+export function insertRows<T extends Table>(table: T, rows: InferInsertModel<T>[]): SQL {
+  const cols = getTableColumns(table) as Record<string, Column>;
+  const keys = [...new Set(rows.flatMap((r) => Object.keys(r as object).filter((k) => (r as Record<string, unknown>)[k] !== undefined)))];
+  for (const k of keys) if (!cols[k]) throw new Error(`insertRows: ${k} is not a column`);
+  const tuples = rows.map((r) => {
+    const row = r as Record<string, unknown>;
+    const values = keys.map((k) => {
+      const v = row[k];
+      return v === undefined ? sql`default` : v instanceof SQL ? v : sql.param(v, cols[k]);
+    });
+    return sql`(${sql.join(values, sql`, `)})`;
+  });
+  return sql`insert into ${table} (${sql.join(keys.map((k) => sql.identifier(cols[k].name)), sql`, `)}) values ${sql.join(tuples, sql`, `)}`;
+}
