@@ -387,8 +387,13 @@ describe("refusals and flags", () => {
     const fix = await a.post(`/api/readings/${first.body.id}/supersede`, { reason: "Anvil was not wiped; measured again", values: [1.125, 1.1248], toolAssetTags: [mic.assetTag] });
     expect(fix.status).toBe(201);
     expect(fix.body.size).toBe(1.1248);
-    const r = row((await a.get(`/api/jobs/${job.id}`)).body, "pin");
+    const sheet = (await a.get(`/api/jobs/${job.id}`)).body;
+    const r = row(sheet, "pin");
     expect(r.reading).toMatchObject({ id: fix.body.id, supersedesId: first.body.id, supersedeReason: "Anvil was not wiped; measured again" });
+    // The correction replaces the reading: the sheet and the jobs list both count one reading at that place.
+    const listed = (await a.get(`/api/jobs?engineSerial=${encodeURIComponent(job.engineSerial)}`)).body.items.find((j: { id: string }) => j.id === job.id);
+    expect(sheet.readingCount).toBe(1);
+    expect(listed.readingCount).toBe(1);
     expect(r.history).toHaveLength(1);
     expect(r.history[0]).toMatchObject({ id: first.body.id, supersededById: fix.body.id, values: [1.125, 1.1247] });
     expect((await a.post(`/api/readings/${first.body.id}/supersede`, { reason: "Second try at the old one", values: [1.125, 1.1248], toolAssetTags: [mic.assetTag] })).body.error.code).toBe("reading_superseded");

@@ -42,16 +42,24 @@ const stackView = (st: LeafStack | null): LeafView | null => (st ? stackAsLeaf(s
  * under the current rules — the stored judgement when there is one (every reading is judged when recorded, and the
  * re-judging job judges older ones under new rules); only a reading not judged yet is judged here.
  */
-async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, LimitItemView>, ctx: JudgingContext): Promise<{ views: ReadingView[]; judged: Map<string, Judged> }> {
+async function readingViews(
+  db: DbOrTx,
+  rows: ReadingRows,
+  items: Map<string, LimitItemView>,
+  ctx: JudgingContext,
+): Promise<{ views: SheetReading[]; places: Map<string, PlaceView>; judged: Map<string, Judged> }> {
   const unjudged = rows.filter((x) => !x.judgedView).map((x) => x.r);
   const evidence = unjudged.length ? await evidenceOfRows(db, unjudged, ctx.tableUnit) : new Map<string, ReadingEvidence>();
   const judged = new Map<string, Judged>();
-  const views = rows.map(({ r, takerName, overriderName, supersededById, tools, suspect, judgedAt, judgedView }): ReadingView => {
+  // Each reading's judged place is kept beside it, not in it: a current reading's place is its row's (sent once).
+  const places = new Map<string, PlaceView>();
+  const views = rows.map(({ r, takerName, overriderName, supersededById, tools, suspect, judgedAt, judgedView }): SheetReading => {
     const item = items.get(r.itemKey);
     const readable = !!item && item.kind !== "clearance" && item.kind !== "taper";
     const j: Judged | null = !readable ? null : judgedView ? shownOnly(judgedView as PlaceView) : judgeReading(item, evidence.get(r.id) ?? evidenceOfRow(r), ctx);
     if (j) judged.set(r.id, j);
     const place = j?.view ?? { kind: "pending" as const, itemKey: r.itemKey, index: r.index, verdict: "pending" as const, band: null, margin: null, text: `The item "${r.itemKey}" is not on this table` };
+    places.set(r.id, place);
     const flags = [...r.flags, ...(suspect ? ["suspect"] : [])];
     const f = r.feelerCheck ? { ...r.feelerCheck, goEntered: r.goEntered, noGoEntered: r.noGoEntered } : feelerOfPlace(place);
     return {
@@ -72,7 +80,6 @@ async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, Li
       recordedVerdict: r.verdict,
       verdict: place.verdict,
       verdictText: place.text,
-      place,
       judgedAt: judgedAt ? judgedAt.toISOString() : null,
       flags,
       tools: tools.map((t) => ({ ...t, statusAtReading: t.statusAtReading as ToolStatus })),
@@ -88,12 +95,7 @@ async function readingViews(db: DbOrTx, rows: ReadingRows, items: Map<string, Li
       overrideBy: r.overrideBy && overriderName ? { id: r.overrideBy, name: overriderName } : null,
     };
   });
-  return { views, judged };
-}
-
-/** The current reading as its row carries it: the judged place is the row's own (`SheetRow.place`), sent once. */
-function withoutPlace({ place: _place, ...shown }: ReadingView): SheetReading {
-  return shown;
+  return { views, places, judged };
 }
 
 /** A feeler check recorded before the leaves were kept with the reading (rules 1): the leaves as its judged place names them. */
@@ -127,7 +129,8 @@ function judgementOf(item: LimitItemView, place: SheetRow["place"]): SheetRow["j
 
 /** The check sheet of a job: every item × index with its current reading, judged under the current rules, with flags and tools. */
 export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckSheet> {
-  const summary = await jobsRepository.summary(db, jobId);
+  // The sheet counts its current readings from the rows it reads anyway, not with a second pass over them.
+  const summary = await jobsRepository.summary(db, jobId, { count: false });
   if (!summary) throw notFound("job", jobId);
   // One after another: inside a transaction these share one connection.
   const table = (await limitTablesRepository.summary(db, summary.job.limitTableId))!;
@@ -136,13 +139,14 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
   const signoffRows = await jobsRepository.signoffs(db, jobId);
   const byKey = new Map(items.map((i) => [i.key, i]));
   const ctx: JudgingContext = { tableUnit: table.table.unit, tableExpansionPerK: n(table.table.expansionPerK) };
-  const { views, judged } = await readingViews(db, readingRows, byKey, ctx);
+  const { views, places: placeOf, judged } = await readingViews(db, readingRows, byKey, ctx);
 
-  const current = new Map<string, ReadingView>();
+  const current = new Map<string, SheetReading>();
+  // A superseded reading keeps its judged place with it (the row's place is the current reading's).
   const history = new Map<string, ReadingView[]>();
   for (const v of views) {
     const k = slotKey(v.itemKey, v.index);
-    if (v.supersededById) history.set(k, [...(history.get(k) ?? []), v]);
+    if (v.supersededById) history.set(k, [...(history.get(k) ?? []), { ...v, place: placeOf.get(v.id)! }]);
     else current.set(k, v);
   }
   // Fits and tapers are worked out from their sides' judged places; no reading is judged twice.
@@ -191,10 +195,10 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
       if (reading) readingFlags.push(reading.flags);
       const differs = !!reading && reading.recordedVerdict !== "pending" && reading.verdict !== "pending" && reading.recordedVerdict !== reading.verdict;
       if (differs) judgedDifferently++;
-      const place = reading ? reading.place : { kind: "pending" as const, itemKey: item.key, index, verdict: "pending" as const, band: null, margin: null, text: "Pending" };
+      const place = reading ? placeOf.get(reading.id)! : { kind: "pending" as const, itemKey: item.key, index, verdict: "pending" as const, band: null, margin: null, text: "Pending" };
       rows.push({
         index,
-        reading: reading && withoutPlace(reading),
+        reading,
         history: history.get(k) ?? [],
         clearance: null,
         judgement: judgementOf(item, place),
@@ -232,6 +236,7 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
 
   return {
     ...toJobSummary(summary),
+    readingCount: views.reduce((n, v) => (v.supersededById ? n : n + 1), 0),
     limitTable: {
       id: table.table.id,
       name: table.table.name,

@@ -35,9 +35,10 @@ const summaryColumns = {
 export const jobsRepository = {
   insert: async (db: DbOrTx, values: typeof jobs.$inferInsert) => (await db.insert(jobs).values(values).returning())[0],
 
-  async summary(db: DbOrTx, id: string) {
+  /** A job as the lists show it; `count: false` leaves its reading count out (0) for a caller that counts them itself. */
+  async summary(db: DbOrTx, id: string, opts: { count?: boolean } = {}) {
     const [row] = await db
-      .select(summaryColumns)
+      .select(opts.count === false ? { ...summaryColumns, readingCount: sql<number>`0` } : summaryColumns)
       .from(jobs)
       .innerJoin(limitTables, eq(limitTables.id, jobs.limitTableId))
       .leftJoin(users, eq(users.id, jobs.openedBy))

@@ -191,28 +191,21 @@ export const readingsRepository = {
 
   /** The tools of every reading of a job, by reading id, in the order the reading names them. */
   async toolsOfJob(db: DbOrTx, jobId: string): Promise<Map<string, ReadingToolOfSheet[]>> {
-    const links = await db.execute<{ readingId: string; toolId: string; statusAtReading: string; dueAtReading: string | null }>(sql`
-      select rt.reading_id as "readingId", rt.tool_id as "toolId", rt.status_at_reading as "statusAtReading", rt.due_at_reading::text as "dueAtReading"
-      from readings r join reading_tools rt on rt.reading_id = r.id
-      where r.job_id = ${jobId}
-      order by rt.reading_id, rt.position`);
-    const ids = [...new Set(links.rows.map((l) => l.toolId))];
-    const used = ids.length
-      ? await db.execute<{ id: string; assetTag: string; description: string; kind: string; unit: "in" | "mm" }>(sql`
-          select t.id, t.asset_tag as "assetTag", t.description, f.kind, t.unit
-          from tools t join families f on f.id = t.family_id
-          where t.id = any(${pgArray(ids)}::uuid[])`)
-      : { rows: [] };
-    const tool = new Map(used.rows.map((t) => [t.id, t]));
-    const byReading = new Map<string, ReadingToolOfSheet[]>();
-    for (const l of links.rows) {
-      const t = tool.get(l.toolId)!;
-      const entry: ReadingToolOfSheet = { assetTag: t.assetTag, description: t.description, kind: t.kind, unit: t.unit, statusAtReading: l.statusAtReading, dueAtReading: l.dueAtReading };
-      const list = byReading.get(l.readingId);
-      if (list) list.push(entry);
-      else byReading.set(l.readingId, [entry]);
+    // Unordered: sorting a sheet's link rows cost more than the query; a reading names one tool or a few.
+    const links = await db.execute(sql`
+      select rt.reading_id as "readingId", rt.position, t.asset_tag as "assetTag", t.description, f.kind, t.unit,
+        rt.status_at_reading as "statusAtReading", rt.due_at_reading::text as "dueAtReading"
+      from readings r join reading_tools rt on rt.reading_id = r.id join tools t on t.id = rt.tool_id join families f on f.id = t.family_id
+      where r.job_id = ${jobId}`);
+    const byReading = new Map<string, (ReadingToolOfSheet & { position: number })[]>();
+    for (const { readingId, ...tool } of links.rows as unknown as (ReadingToolOfSheet & { readingId: string; position: number })[]) {
+      const list = byReading.get(readingId);
+      if (list) list.push(tool);
+      else byReading.set(readingId, [tool]);
     }
-    return byReading;
+    const out = new Map<string, ReadingToolOfSheet[]>();
+    for (const [id, list] of byReading) out.set(id, list.sort((a, b) => a.position - b.position).map(({ position: _p, ...t }) => t));
+    return out;
   },
 
   /** Records a reading's judgement under a rules version; a second one for the same version is ignored (idempotent). */
