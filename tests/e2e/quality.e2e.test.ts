@@ -113,6 +113,13 @@ describe("the quality overview in the browser", () => {
 
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Audit trail" }).click();
     await page.getByRole("table", { name: "Audit trail" }).getByText("Family interval changed").waitFor();
+    // The change reads field by field in words, the interval from 365 to 65 days marked as changed.
+    const line = page.getByRole("table", { name: "Audit trail" }).getByRole("row").filter({ hasText: "Family interval changed" }).first();
+    await line.getByText("Details").click();
+    const change = line.getByRole("table", { name: "Change: Family interval changed" });
+    const interval = change.getByRole("row").filter({ has: page.getByRole("rowheader", { name: "Default interval days" }) });
+    await expect(interval.getByRole("cell").allTextContents()).resolves.toEqual(["365", "65"]);
+    await change.getByRole("rowheader", { name: "Rationale" }).waitFor();
     await b.screenshot(page, "quality-audit");
     expect(errors).toEqual([]);
     await context.close();

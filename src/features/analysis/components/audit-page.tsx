@@ -9,6 +9,7 @@ import { DataTable } from "../../../components/ui/data-table";
 import { errorMessage } from "../../../lib/api-client";
 import { useListParams } from "../../../lib/use-list-params";
 import type { AuditEvent } from "../../../../shared/audit/audit.schemas";
+import { changeRows } from "../../../../shared/audit/changes";
 import { downloadCsv } from "../lib/export-csv";
 import { when } from "./format";
 
@@ -16,6 +17,7 @@ const FILTERS = ["actorId", "actorName", "entityType", "entityId", "from", "to"]
 const PAGE_SIZE = 50;
 const col = createColumnHelper<AuditEvent>();
 
+/** The CSV keeps each side as JSON, for a spreadsheet or a script; the page shows it field by field. */
 const json = (v: unknown) => (v == null ? "" : JSON.stringify(v));
 
 const columns = [
@@ -43,19 +45,30 @@ const columns = [
     cell: (c) => {
       const e = c.row.original;
       if (e.before == null && e.after == null) return "—";
+      const rows = changeRows(e.before, e.after);
       return (
         <details className="max-w-md">
           <summary className="cursor-pointer text-sm underline">Details</summary>
-          {e.before != null && (
-            <p className="mt-1 text-xs">
-              <strong>Before:</strong> <span className="break-all font-mono">{json(e.before)}</span>
-            </p>
-          )}
-          {e.after != null && (
-            <p className="mt-1 text-xs">
-              <strong>After:</strong> <span className="break-all font-mono">{json(e.after)}</span>
-            </p>
-          )}
+          <table className="mt-1 text-xs" aria-label={`Change: ${e.actionLabel}`}>
+            <thead>
+              <tr className="text-left text-ink-soft">
+                <th className="py-0.5 pr-3 font-semibold">Field</th>
+                {e.before != null && <th className="py-0.5 pr-3 font-semibold">Before</th>}
+                {e.after != null && <th className="py-0.5 font-semibold">{e.before != null ? "After" : "Recorded"}</th>}
+              </tr>
+            </thead>
+            <tbody>
+              {rows.map((r) => (
+                <tr key={r.field} className={r.changed ? "font-semibold" : undefined}>
+                  <th scope="row" className="py-0.5 pr-3 text-left font-normal text-ink-soft">
+                    {r.field}
+                  </th>
+                  {e.before != null && <td className="py-0.5 pr-3 [overflow-wrap:anywhere]">{r.before ?? "—"}</td>}
+                  {e.after != null && <td className="py-0.5 [overflow-wrap:anywhere]">{r.after ?? "—"}</td>}
+                </tr>
+              ))}
+            </tbody>
+          </table>
         </details>
       );
     },
