@@ -16,6 +16,7 @@ beforeAll(async () => {
   await seedUsers(b.db, DEMO_PASSWORD);
   await inCalibration("PH-MIC-01");
   await overdue("PH-MIC-02");
+  await inCalibration("PH-MIC-03");
   // A 1–2 in micrometer out with Dagny Forsell, to come back with a zero check.
   const mic12 = await inCalibration("PH-MIC-12", { description: "Outside micrometer 1-2 in (demo)", rangeMin: "1", rangeMax: "2" });
   const dagny = await findUserByEmail(b.db, "mechanic@tenthwise.test");
@@ -61,6 +62,22 @@ describe("the crib counter on a phone (390 px)", () => {
     await issued.waitFor();
     await expect(inViewport(page, issued)).resolves.toBe(true);
     await b.screenshot(page, "crib-counter-phone-answer");
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
+  it("a tool reported lost: the answer comes into view below the buttons, saying so in plain words", async () => {
+    const { page, context, errors } = await b.newPage({ width: 390, height: 844 });
+    await b.signIn(page, "crib");
+    await page.goto("/crib");
+    await page.getByRole("tab", { name: "Lost, found, retire" }).click();
+    await page.getByLabel("Asset tag").fill("PH-MIC-03");
+    await page.getByLabel("Reason").fill("Not returned from the test cell; searched the bay");
+    await page.getByRole("button", { name: "Mark lost" }).click();
+    const lost = page.getByRole("alert", { name: "PH-MIC-03 recorded as lost" });
+    await lost.waitFor();
+    await expect(inViewport(page, lost)).resolves.toBe(true);
+    await b.screenshot(page, "crib-lost-phone-answer");
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -333,6 +333,8 @@ function LostFoundPanel() {
   const [tag, setTag] = useState("");
   const [reason, setReason] = useState("");
   const [result, setResult] = useState<{ tone: "go" | "stop" | "caution"; title: string; lines: string[] } | null>(null);
+  // On a phone the answer lands below the buttons: bring it on screen, as the check-out and check-in answers are.
+  const answer = useInView<HTMLDivElement>(result);
   const lostFound = useLostFound();
   const retire = useRetireTool();
   const ready = tag.trim() && reason.trim().length >= 3;
@@ -370,13 +372,15 @@ function LostFoundPanel() {
           Losing a tool opens an out-of-tolerance investigation of the readings it took. A found tool stays held until a passing check or calibration releases it.
         </p>
       </Card>
-      {result && (
-        <ResultPanel tone={result.tone} title={result.title}>
-          {result.lines.map((l) => (
-            <p key={l}>{l}</p>
-          ))}
-        </ResultPanel>
-      )}
+      <div ref={answer} className="scroll-mt-4 empty:hidden">
+        {result && (
+          <ResultPanel tone={result.tone} title={result.title}>
+            {result.lines.map((l) => (
+              <p key={l}>{l}</p>
+            ))}
+          </ResultPanel>
+        )}
+      </div>
     </div>
   );
 }
