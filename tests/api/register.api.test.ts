@@ -272,6 +272,22 @@ describe("due-date filters for dashboard links", () => {
     }
   });
 
+  it("with the clock set back to before a tool was quarantined, the list shows it as it stood then, and as held again once the clock is right", async () => {
+    // The hold was recorded at 15:00 UTC; at 12:00 the tool was still in calibration, due in three days.
+    t.clock.set("2026-06-15T12:00:00Z");
+    try {
+      const a = await t.agent("quality");
+      const res = await a.get("/api/tools?q=DUE-HELD");
+      expect(res.status).toBe(200);
+      expect(res.body.items.map((x: { assetTag: string; status: string }) => [x.assetTag, x.status])).toEqual([["DUE-HELD", "due_soon"]]);
+      expect(res.body.total).toBe(1);
+    } finally {
+      t.clock.set("2026-06-15T15:00:00Z");
+    }
+    const now = await (await t.agent("quality")).get("/api/tools?q=DUE-HELD");
+    expect(now.body.items.map((x: { status: string }) => x.status)).toEqual(["quarantined"]);
+  });
+
   it("a due-date range lists every tool due in it, both ends included, whatever its status, on the list and in the CSV", async () => {
     const a = await t.agent("auditor");
     const res = await a.get("/api/tools?q=DUE-&dueFrom=2026-06-10&dueTo=2026-06-18&sort=dueAt");
