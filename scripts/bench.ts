@@ -154,10 +154,10 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       from generate_series(1, ${s.sheets}) g`,
   },
   {
-    // A sheet's activity row is moved by a deferred trigger per reading (at commit); five million of them in one
-    // statement are filled set-based instead, below, as the migration does for the sheets on record.
+    // A sheet's activity row and its people are kept by triggers per reading; five million of them in one statement
+    // are filled set-based instead, below, as the migrations do for the sheets on record.
     name: "sheet activity off",
-    sql: () => `alter table readings disable trigger readings_job_activity`,
+    sql: () => `alter table readings disable trigger readings_job_activity; alter table readings disable trigger readings_job_people`,
   },
   {
     // ~1,000 readings per sheet (items × indexes), each taken with one tool of the register.
@@ -187,7 +187,8 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
     sql: () => `
       insert into job_activity (job_id, last_reading_at, readings) select job_id, max(taken_at), count(*) from readings group by job_id
       on conflict (job_id) do update set last_reading_at = excluded.last_reading_at, readings = excluded.readings;
-      alter table readings enable trigger readings_job_activity`,
+      insert into job_people (job_id, user_id) select distinct job_id, taken_by from readings where taken_by is not null on conflict do nothing;
+      alter table readings enable trigger readings_job_activity; alter table readings enable trigger readings_job_people`,
   },
   {
     // Each reading's stored judgement is what the app stores: the judged place of its values under the current rules.

@@ -131,7 +131,7 @@ describe("the app's database role", () => {
     expect(members).toEqual({ m: true });
   });
 
-  it("only reads the tables the database keeps by its own triggers (each tool's status inputs, each sheet's activity), also after the app is started again", async () => {
+  it("only reads the tables the database keeps by its own triggers (each tool's status inputs, each sheet's activity and people), also after the app is started again", async () => {
     const writable = async () =>
       (
         await database.db.execute(sql`
@@ -145,6 +145,7 @@ describe("the app's database role", () => {
     expect(await writable()).toEqual([]);
     expect(await refusal("update job_activity set readings = 0")).toMatchObject({ code: "42501" });
     expect(await refusal("delete from tool_states")).toMatchObject({ code: "42501" });
+    expect(await refusal("insert into job_people (job_id, user_id) select id, opened_by from jobs limit 1")).toMatchObject({ code: "42501" });
   });
 });
 

@@ -72,10 +72,17 @@ describe("check sheets awaiting signature", () => {
     const readingId = (await m.get(`/api/jobs/${corrected.id}`)).body.items[0].rows[0].reading.id;
     expect((await m.post(`/api/readings/${readingId}/supersede`, { reason: "Wrong cylinder noted", visualResult: "serviceable" })).status).toBe(201);
 
+    // A sheet quality opened becomes the mechanic's with their first reading on it; one they never touched does not.
+    const q = await t.agent("quality");
+    const measuredThere = (await q.post("/api/jobs", { limitTableId: table.id, engineSerial: "MINE-MEASURED" })).body;
+    const untouched = (await q.post("/api/jobs", { limitTableId: table.id, engineSerial: "MINE-UNTOUCHED" })).body;
+    expect((await m.post(`/api/jobs/${measuredThere.id}/readings`, { itemKey: "visual", visualResult: "serviceable" })).status).toBe(201);
+
     const mine = (await m.get("/api/stats/mine")).body.openJobs.map((j: { id: string }) => j.id).sort();
     const list = (await m.get("/api/jobs?status=open&mine=true&pageSize=200")).body;
-    expect(ids(list)).toEqual(expect.arrayContaining([own.id, corrected.id]));
+    expect(ids(list)).toEqual(expect.arrayContaining([own.id, corrected.id, measuredThere.id]));
     expect(ids(list)).not.toContain(signed.id);
+    expect(ids(list)).not.toContain(untouched.id);
     expect(mine).toEqual(ids(list));
     expect(list.total).toBe(mine.length);
     t.clock.set("2026-06-15T15:00:00Z");

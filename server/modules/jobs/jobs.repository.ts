@@ -50,7 +50,8 @@ export const jobsRepository = {
     const where = and(
       q.engineSerial ? ilike(jobs.engineSerial, `%${q.engineSerial}%`) : undefined,
       q.status ? jobStatusCondition(jobs.id, q.status) : undefined,
-      q.mine ? sql`(${jobs.openedBy} = ${userId} or exists (select 1 from readings r where r.job_id = ${jobs.id} and r.taken_by = ${userId}))` : undefined,
+      // Who took readings on a sheet comes from job_people (kept by a trigger with every reading), not from the readings.
+      q.mine ? sql`(${jobs.openedBy} = ${userId} or exists (select 1 from job_people p where p.job_id = ${jobs.id} and p.user_id = ${userId}))` : undefined,
     );
     return listPage(
       db

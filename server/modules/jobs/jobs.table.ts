@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { pgTable, uuid, text, timestamp, integer, index } from "drizzle-orm/pg-core";
+import { pgTable, uuid, text, timestamp, integer, index, primaryKey } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { limitTables } from "../limit-tables/limit-tables.table";
 
@@ -52,4 +52,21 @@ export const jobActivity = pgTable(
     lastSignedAt: timestamp("last_signed_at", { withTimezone: true }),
   },
   (t) => [index("job_activity_awaiting_idx").on(t.jobId).where(sql`last_reading_at is not null and (last_signed_at is null or last_reading_at > last_signed_at)`)],
+);
+
+/**
+ * Who took readings on each check sheet, kept by a database trigger with every reading (never written by the app):
+ * "the sheets I worked on" is then a person's few rows here, not every reading they ever took.
+ */
+export const jobPeople = pgTable(
+  "job_people",
+  {
+    jobId: uuid("job_id")
+      .notNull()
+      .references(() => jobs.id),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.jobId] })],
 );

@@ -61,7 +61,8 @@ export const statsRepository = {
       select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at, coalesce(a.readings, 0) as readings, a.last_reading_at
       from jobs j left join job_activity a on a.job_id = j.id
       where ${sheet.open}
-        and (j.opened_by = ${userId}::uuid or exists (select 1 from readings r where r.job_id = j.id and r.taken_by = ${userId}::uuid))
+        -- The sheets the person took readings on come from job_people (kept by a trigger), not from their readings.
+        and j.id in (select p.job_id from job_people p where p.user_id = ${userId}::uuid union all select o.id from jobs o where o.opened_by = ${userId}::uuid)
       order by coalesce(a.last_reading_at, j.opened_at) desc
       limit ${limit}`);
     return (r.rows as Row[]).map(jobSummary);
