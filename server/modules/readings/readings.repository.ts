@@ -1,11 +1,9 @@
 import { and, asc, eq, inArray, isNull, sql, type SQL, type SQLWrapper } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
-import { pgArray } from "../../db/values";
 import { columnsOf, insertRows } from "../../db/columns";
 import { readings, readingTools, readingJudgements } from "./readings.table";
-import { tools, setElements } from "../tools/tools.table";
-import { families } from "../families/families.table";
+import { setElements } from "../tools/tools.table";
 import { calibrationPoints } from "../calibrations/calibrations.table";
 import { jobs } from "../jobs/jobs.table";
 import { limitTables } from "../limit-tables/limit-tables.table";
@@ -39,22 +37,12 @@ const placeLock = (jobId: string, itemKey: string, index: number) => sql`pg_advi
 
 /** Every column of a reading, under its TypeScript name (`r.job_id as "jobId"`), for queries written as SQL. */
 const READING = columnsOf(readings, "r");
-/** A tool's columns, prefixed (`t.asset_tag as "tool.assetTag"`), beside its family's kind. */
-const TOOL = columnsOf(tools, "t", "tool.");
 export type ReadingJudgementInsert = typeof readingJudgements.$inferInsert;
 export type ReadingInsert = typeof readings.$inferInsert;
 
 const successor = alias(readings, "successor");
 
 export const readingsRepository = {
-  /** Tools by asset tag, with their family's kind. */
-  async toolsByTags(db: DbOrTx, tags: string[]): Promise<{ tool: typeof tools.$inferSelect; kind: string }[]> {
-    if (!tags.length) return [];
-    const res = await db.execute(sql`
-      select ${TOOL.list}, f.kind from tools t join families f on f.id = t.family_id where t.asset_tag = any(${pgArray(tags)}::text[])`);
-    return (res.rows as Record<string, unknown>[]).map((x) => ({ tool: TOOL.read(x), kind: String(x.kind) }));
-  },
-
   /** A set's leaves, with their results in the calibration that counts (rejected leaves and calibrated thickness). */
   async leavesOf(db: DbOrTx, toolId: string, calibrationId: string | null, at: Date) {
     const elements = await db.select().from(setElements).where(eq(setElements.toolId, toolId)).orderBy(asc(setElements.nominal));
@@ -90,7 +78,7 @@ export const readingsRepository = {
 
   /**
    * What a new reading checks at its place once the place is locked, in one statement: the reading that holds the
-   * place now (none when `currentOf` is false: a correction names the reading it replaces), and `flag`, a condition
+   * place now (not asked when `current` is false: a correction names the reading it replaces), and `flag`, a condition
    * asked beside it (the gauge-study flag).
    */
   async placeCheck(db: DbOrTx, p: { jobId: string; itemKey: string; index: number; current: boolean; flag: SQL | null }) {
@@ -153,9 +141,9 @@ export const readingsRepository = {
    * Written as SQL with the row's columns under their TypeScript names: a sheet of 1,000 readings spent more time in
    * the ORM's per-column mapping than in the database. The open-investigation mark is one index probe per reading
    * against the open investigations' ids, read once (an uncorrelated array): joining every open investigation to
-   * each reading cost a probe per reading *and* investigation. The tools come in a second query as plain rows (a
-   * reading's link rows, then each tool used once) rather than a JSON list built per reading; the two run one after
-   * the other, as they share one connection inside a transaction.
+   * each reading cost a probe per reading *and* investigation. The tools come in a second query, one plain join
+   * (`toolsOfJob`), rather than a JSON list built per reading; the two run one after the other, as they share one
+   * connection inside a transaction.
    */
   async ofJob(db: DbOrTx, jobId: string, rulesVersion: number): Promise<SheetReadingRow[]> {
     const res = await db.execute(sql`

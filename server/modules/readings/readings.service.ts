@@ -6,7 +6,7 @@ import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
 import { auditInsert } from "../audit/audit.repository";
-import { statusContext, statusContextOf, statusesFor, toolsWithStatusByTags, type ToolStatusView } from "../tools/tool-status.service";
+import { statusContext, statusContextOf, toolsWithStatusByTags, type ToolStatusView } from "../tools/tool-status.service";
 import { jobsRepository, type JobForReading } from "../jobs/jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
 import { itemViewsOf } from "../limit-tables/limit-tables.service";
@@ -25,7 +25,7 @@ import type { CreateReading, LeafView, ReadingFlag, ReadingResult } from "../../
 import type { LimitItemView } from "../../../shared/limit-tables/limit-tables.schemas";
 import { evidenceOfRow } from "./reading-evidence";
 
-type ToolHit = Awaited<ReturnType<typeof readingsRepository.toolsByTags>>[number];
+type ToolHit = Awaited<ReturnType<typeof toolsWithStatusByTags>>[number];
 
 // Transfer gauges carry a size to a micrometer; the values are read on the micrometer.
 const TRANSFER_KINDS = new Set(["telescoping_gauge", "small_hole_gauge"]);
@@ -350,13 +350,11 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       const tableUnit = (await limitTablesRepository.summary(db, summary.job.limitTableId))!.table.unit;
       const { item } = await loadItem(db, summary.job.limitTableId, itemKey);
       if (!item || item.kind !== "feeler") throw new AppError("item_not_found", 404, `This sheet has no feeler item "${itemKey}".`);
-      const [hit] = await readingsRepository.toolsByTags(db, [setTag.toUpperCase()]);
+      const at = clock.now();
+      const [hit] = await toolsWithStatusByTags(db, [setTag.toUpperCase()], at, await statusContext(db, deps.config.SHOP_TIME_ZONE));
       if (!hit) throw notFound("tool", setTag);
       if (hit.kind !== "feeler_set") throw refused("tool_kind_unsuitable", `${hit.tool.assetTag} is not a feeler set.`);
-      const at = clock.now();
-      const ctx = await statusContext(db, deps.config.SHOP_TIME_ZONE);
-      const statuses = await statusesFor(db, [hit.tool.id], at, ctx);
-      const { choice, usable } = await feelerLeaves(db, item, tableUnit, hit, statuses.get(hit.tool.id), at);
+      const { choice, usable } = await feelerLeaves(db, item, tableUnit, hit, hit.status, at);
       return {
         mode: choice.mode,
         goLeaf: choice.mode === "go_no_go" ? leafView(choice.go) : null,
