@@ -329,12 +329,11 @@ export async function findReading(tx: DbOrTx, id: string) {
 
 /**
  * How many affected items of an investigation still wait for a disposition (one definition for lists and dashboards):
- * its items less the items with a disposition, each counted off its own index (investigation_items_investigation_idx,
- * dispositions_investigation_idx), not by probing the dispositions of every item.
+ * its items less the items with a disposition, read from its row of investigation_tallies (kept by database triggers
+ * with every item and disposition added), not counted from its items on every request.
  */
 export const undisposedItemsOf = (investigationId: SQL | typeof investigations.id) =>
-  sql`((select count(*) from investigation_items ui where ui.investigation_id = ${investigationId})
-     - (select count(distinct ud.investigation_item_id) from dispositions ud where ud.investigation_id = ${investigationId}))`;
+  sql`coalesce((select ut.items - ut.disposed_items from investigation_tallies ut where ut.investigation_id = ${investigationId}), 0)`;
 
 /** Investigations for the list, open first then newest; filters on the tool (or standard, or a cascaded tool), status, job and pending dispositions. */
 export async function listInvestigations(tx: DbOrTx, f: { toolAssetTag?: string; status?: "open" | "closed"; jobId?: string; awaitingDisposition?: boolean; page: number; pageSize: number }) {
@@ -584,10 +583,13 @@ export async function itemTotals(tx: DbOrTx, investigationId: string, f: ItemFil
       keptTotals.set(key, fixed);
     }
   }
+  // Counted from the dispositions' side (their own index by investigation): an investigation of thousands of items
+  // with few dispositions yet costs those few rows, not a probe per item.
   const [{ disposed }] = (await tx
-    .select({ disposed: sql<number>`count(*)::int` })
-    .from(investigationItems)
-    .where(and(itemConditions(investigationId, f), sql`exists (select 1 from dispositions d where d.investigation_item_id = ${investigationItems.id})`))) as { disposed: number }[];
+    .select({ disposed: sql<number>`count(distinct ${dispositions.investigationItemId})::int` })
+    .from(dispositions)
+    .innerJoin(investigationItems, eq(investigationItems.id, dispositions.investigationItemId))
+    .where(and(eq(dispositions.investigationId, investigationId), itemConditions(investigationId, f)))) as { disposed: number }[];
   return totalsView(fixed, fixed.items - disposed);
 }
 

@@ -68,7 +68,7 @@ export const investigationItems = pgTable(
     recordedVerdict: text("recorded_verdict", { enum: ["within_limits", "outside_limits", "pending"] }),
   },
   (t) => [
-    index("investigation_items_investigation_idx").on(t.investigationId),
+    // Also the index of every question asked by investigation alone (its leading column).
     // The default order of the affected readings: could change first, then by sheet, time and place.
     index("investigation_items_page_idx").on(t.investigationId, t.verdictCouldChange.desc().nullsFirst(), t.sheetSerial.asc().nullsFirst(), t.takenAt, t.placeIndex.asc().nullsFirst(), t.id),
     index("investigation_items_reading_idx").on(t.readingId),
@@ -104,3 +104,17 @@ export const dispositions = pgTable(
     index("dispositions_remeasure_idx").on(t.remeasureReadingId),
   ],
 );
+
+/**
+ * How many affected items each investigation has and how many of them have a disposition, kept by database triggers
+ * in the transaction of every item and disposition added (never written by the app): "items awaiting a disposition"
+ * on the home pages and the investigations list is then one row per investigation, not a count of its items.
+ */
+export const investigationTallies = pgTable("investigation_tallies", {
+  investigationId: uuid("investigation_id")
+    .primaryKey()
+    .references(() => investigations.id),
+  items: integer("items").notNull().default(0),
+  /** Items with at least one disposition (a superseding disposition does not count its item again). */
+  disposedItems: integer("disposed_items").notNull().default(0),
+});

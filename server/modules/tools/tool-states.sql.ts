@@ -65,21 +65,24 @@ export function statusIn(statuses: readonly ToolStatus[], now: StatusNow): SQL {
   return sql`(${sql.join(parts, sql` or `)})`;
 }
 
-/** Count of tools by status, and of tools still in calibration due within each of some numbers of days: index scans on tool_states. */
+/**
+ * Count of tools by status, and of tools still in calibration due within each of some numbers of days. The register is
+ * first grouped by the columns the status reads (a few hundred groups: one per due date and state), and the status is
+ * worked out once per group, not once per tool; the due-within counts are range scans on tool_states.
+ */
 export async function countByStatus(db: DbOrTx, now: StatusNow, dueWithin: number[] = []) {
   const { today } = now;
   const inCal = sql`s.base_status = 'calibrated' and s.cal_next_due >= ${today} and not s.usage_exhausted`;
   const res = await db.execute(sql`
-    select coalesce(jsonb_object_agg(k, n), '{}'::jsonb) as by_status,
-      (select count(*)::int from tool_states) as total
+    select coalesce(jsonb_object_agg(k, n), '{}'::jsonb) as by_status, coalesce(sum(n), 0)::int as total
       ${sql.join(
         dueWithin.map((d, i) => sql`, (select count(*)::int from tool_states s where ${inCal} and s.cal_next_due <= ${today} + ${d}::int) as ${sql.raw(`due_${i}`)}`),
         sql``,
       )}
     from (
-      select s.base_status as k, count(*)::int as n from tool_states s where s.base_status <> 'calibrated' group by s.base_status
-      union all
-      select x.k, count(*)::int from (select ${statusCase(now)} as k from tool_states s where s.base_status = 'calibrated') x group by x.k
+      select ${statusCase(now)} as k, sum(s.n)::int as n
+      from (select base_status, cal_next_due, cal_result, usage_exhausted, usage_warn, count(*) as n from tool_states group by 1, 2, 3, 4, 5) s
+      group by 1
     ) c`);
   const row = res.rows[0] as Record<string, unknown>;
   const raw = (typeof row.by_status === "string" ? JSON.parse(row.by_status) : row.by_status) as Record<string, number>;
