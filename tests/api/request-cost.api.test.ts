@@ -101,5 +101,9 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(res.status).toBe(200);
     expect(res.headers["content-encoding"]).toBe("gzip");
     expect(res.body.items.length).toBeGreaterThan(10);
+    // A browser offers brotli too, and gets it.
+    const br = await m.get("/api/tools?pageSize=50").set("Accept-Encoding", "gzip, deflate, br");
+    expect(br.status).toBe(200);
+    expect(br.headers["content-encoding"]).toBe("br");
   });
 });
