@@ -3,6 +3,7 @@ import pg from "pg";
 import request from "supertest";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { makeCalibration, makeTool } from "../support/factories";
+import { makeJob, makeLimitTable, makeToolInCalibration, pinAndBoreItems } from "../support/factories-inspection";
 
 // What one request costs the database, whatever the size of the register: the statements a signed-in
 // person's request sends, counted on the wire (every pg client of this process).
@@ -14,7 +15,7 @@ beforeAll(async () => {
   t = await createTestApp({ now: "2026-06-15T15:00:00Z" });
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
   (pg.Client.prototype as any).query = function (this: pg.Client, ...args: any[]) {
-    if (counting) seen.push(String(typeof args[0] === "string" ? args[0] : args[0]?.text).replace(/\s+/g, " ").slice(0, 160));
+    if (counting) seen.push(String(typeof args[0] === "string" ? args[0] : args[0]?.text).replace(/\s+/g, " "));
     // eslint-disable-next-line @typescript-eslint/no-explicit-any
     return (original as any).apply(this, args);
   };
@@ -67,6 +68,48 @@ describe("what a request costs the database, whatever the register holds", () =>
     const unknown = await m.get("/api/tools/RC-9999/status");
     expect(unknown.status).toBe(404);
     expect(unknown.body.error.code).toBe("tool_not_found");
+  });
+
+  it("recording a reading sends five statements, whatever the sheet holds: the sheet's and the place's locks with the tools and their status, the place's check, the reading with its tools, judgement and audit line, and the transaction's two ends", async () => {
+    const table = await makeLimitTable(t.db, { items: pinAndBoreItems });
+    const job = await makeJob(t.db, table.id, t.people.mechanic.id);
+    const mic = await makeToolInCalibration(t.db, { kind: "outside_micrometer" });
+    const m = await t.agent("mechanic");
+    const first = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin", index: 1, values: [1.1245, 1.1246], toolAssetTags: [mic.assetTag] });
+    expect(first.status, JSON.stringify(first.body)).toBe(201);
+    const sent = await statementsOf(async () => {
+      const res = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin", index: 2, values: [1.1244, 1.1245], toolAssetTags: [mic.assetTag.toLowerCase()] });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+      expect(res.body.verdict).toBe("within_limits");
+    });
+    expect(sent, sent.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(5);
+    expect(sent[0]).toMatch(/^begin/i);
+    expect(sent[1]).toMatch(/for share of jobs/i);
+    expect(sent[1]).toMatch(/tool_states/i);
+    expect(sent[4]).toMatch(/^commit/i);
+
+    // The tools the reading names are stored with their status at the reading, as read in that first statement.
+    const sheet = await m.get(`/api/jobs/${job.id}`);
+    const row = sheet.body.items.find((i: { key: string }) => i.key === "pin").rows.find((r: { index: number }) => r.index === 2);
+    expect(row.reading.tools).toEqual([expect.objectContaining({ assetTag: mic.assetTag, statusAtReading: "in_calibration", dueAtReading: "2027-04-30" })]);
+
+    // The bore of the same index completes the pin's clearance: the pin's reading comes with the place's check, so
+    // still five statements, and the answer gives the clearance (1.1272 − 1.1244 = 0.0028 in, inside 0.0010–0.0045).
+    const gauge = await makeToolInCalibration(t.db, { kind: "telescoping_gauge" });
+    const bore = await statementsOf(async () => {
+      const res = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin_bore", index: 2, values: [1.1271, 1.1272], toolAssetTags: [gauge.assetTag, mic.assetTag] });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+      expect(res.body.clearance).toBeCloseTo(0.0028, 10);
+      expect(res.body.completes).toEqual([expect.objectContaining({ label: "Pin to piston clearance no. 2" })]);
+    });
+    expect(bore, bore.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(5);
+
+    // A tool no one has registered is refused, and nothing is recorded.
+    const unknown = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin_bore", index: 1, values: [1.127, 1.1271], toolAssetTags: ["NO-SUCH-TOOL"] });
+    expect(unknown.status).toBe(404);
+    expect(unknown.body.error.code).toBe("tool_not_found");
+    const after = await m.get(`/api/jobs/${job.id}`);
+    expect(after.body.readingCount).toBe(3);
   });
 
   it("a change of role takes effect on the person's next request; deactivating someone signs them out at once", async () => {

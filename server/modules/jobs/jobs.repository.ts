@@ -76,14 +76,18 @@ export const jobsRepository = {
   /**
    * Locks a job while a reading is recorded on it and answers what the write needs — the job, its table's unit and
    * expansion coefficient, and whether it is signed — in one indexed query, whatever the sheet's size. `alsoLock`, a
-   * lock function call (the place's advisory lock), is taken in the same statement.
+   * lock function call (the place's advisory lock), is taken in the same statement. `alsoRead`, a select that reads
+   * nothing the locks guard (the reading's tools with their status), is asked in the same statement too: its rows come
+   * back as `alsoRead`, one per row it gives (none when it gives none), each beside the job's columns.
    */
-  async lockForReading(db: DbOrTx, id: string, alsoLock?: SQL): Promise<JobForReading | undefined> {
+  async lockForReading(db: DbOrTx, id: string, alsoLock?: SQL, alsoRead?: SQL): Promise<JobForReading | undefined> {
     // Written as SQL: every reading runs it, and the query builder's cost was more than the statement's own.
     const res = await db.execute(sql`
       select ${JOB.list}, lt.unit as "tableUnit", lt.expansion_per_k as "tableExpansionPerK", ${state.signed} as signed
         ${alsoLock ? sql`, ${alsoLock} as "alsoLocked"` : sql``}
+        ${alsoRead ? sql`, x.*` : sql``}
       from jobs join limit_tables lt on lt.id = jobs.limit_table_id
+      ${alsoRead ? sql`left join (${alsoRead}) x on true` : sql``}
       where jobs.id = ${id}
       -- Shared: readings of different places go on side by side; a sign-off (FOR UPDATE) waits for them, and they for it.
       for share of jobs`);
@@ -94,6 +98,7 @@ export const jobsRepository = {
       tableUnit: row.tableUnit as JobForReading["tableUnit"],
       tableExpansionPerK: (row.tableExpansionPerK as string | null) ?? null,
       signed: row.signed === true,
+      alsoRead: alsoRead ? (res.rows as Record<string, unknown>[]) : undefined,
     };
   },
 
@@ -114,4 +119,6 @@ export interface JobForReading {
   tableUnit: (typeof limitTables.$inferSelect)["unit"];
   tableExpansionPerK: string | null;
   signed: boolean;
+  /** The rows of lockForReading's `alsoRead`, when it was given. */
+  alsoRead?: Record<string, unknown>[];
 }

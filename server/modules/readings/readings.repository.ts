@@ -2,6 +2,7 @@ import { and, asc, eq, inArray, isNull, sql, type SQL, type SQLWrapper } from "d
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { columnsOf, insertRows } from "../../db/columns";
+import { pgArray } from "../../db/values";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { setElements } from "../tools/tools.table";
 import { calibrationPoints } from "../calibrations/calibrations.table";
@@ -65,24 +66,15 @@ export const readingsRepository = {
     });
   },
 
-  /** The reading that currently holds a place on a sheet (not superseded). */
-  async currentAt(db: DbOrTx, jobId: string, itemKey: string, index: number): Promise<ReadingRow | undefined> {
-    const res = await db.execute(sql`
-      select ${READING.list} from readings r
-      where r.job_id = ${jobId} and r.item_key = ${itemKey} and r.index = ${index}
-        and not exists (select 1 from readings s where s.supersedes_id = r.id)
-      order by r.taken_at desc limit 1`);
-    const row = res.rows[0] as Record<string, unknown> | undefined;
-    return row && READING.read(row);
-  },
-
   /**
    * What a new reading checks at its place once the place is locked, in one statement: the reading that holds the
-   * place now (not asked when `current` is false: a correction names the reading it replaces), and `flag`, a condition
-   * asked beside it (the gauge-study flag).
+   * place now (not asked when `current` is false: a correction names the reading it replaces), `flag`, a condition
+   * asked beside it (the gauge-study flag), and the current readings at the same index of the places in
+   * `partnerKeys` (the other sides of the clearances and the other stations of the tapers the reading completes).
    */
-  async placeCheck(db: DbOrTx, p: { jobId: string; itemKey: string; index: number; current: boolean; flag: SQL | null }) {
-    const res = await db.execute<{ currentId: string | null; flagged: boolean }>(sql`
+  async placeCheck(db: DbOrTx, p: { jobId: string; itemKey: string; index: number; current: boolean; flag: SQL | null; partnerKeys?: string[] }) {
+    const partnerKeys = p.partnerKeys ?? [];
+    const res = await db.execute(sql`
       select ${
         p.current
           ? sql`(select r.id from readings r
@@ -90,9 +82,20 @@ export const readingsRepository = {
                    and not exists (select 1 from readings s where s.supersedes_id = r.id)
                  order by r.taken_at desc limit 1)`
           : sql`null::uuid`
-      } as "currentId", ${p.flag ?? sql`false`} as flagged`);
-    const row = res.rows[0];
-    return { currentId: row.currentId ?? null, flagged: row.flagged === true };
+      } as "currentId", ${p.flag ?? sql`false`} as flagged
+      ${
+        partnerKeys.length
+          ? sql`, partner.* from (select 1) one left join lateral (
+              select distinct on (r.item_key) ${READING.list} from readings r
+              where r.job_id = ${p.jobId} and r.index = ${p.index} and r.item_key = any(${pgArray(partnerKeys)}::text[])
+                and not exists (select 1 from readings s where s.supersedes_id = r.id)
+              order by r.item_key, r.taken_at desc) partner on true`
+          : sql``
+      }`);
+    const rows = res.rows as Record<string, unknown>[];
+    const partners = new Map<string, ReadingRow>();
+    for (const r of rows) if (partnerKeys.length && r.id != null) partners.set(String(r.itemKey), READING.read(r));
+    return { currentId: (rows[0].currentId as string | null) ?? null, flagged: rows[0].flagged === true, partners };
   },
 
   /**

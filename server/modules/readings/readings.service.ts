@@ -6,7 +6,7 @@ import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
 import { auditInsert } from "../audit/audit.repository";
-import { statusContext, statusContextOf, toolsWithStatusByTags, type ToolStatusView } from "../tools/tool-status.service";
+import { statusContext, statusContextOf, toolsByTagsSelect, toolsWithStatusByTags, toolsWithStatusFromRows, type ToolStatusView } from "../tools/tool-status.service";
 import { jobsRepository, type JobForReading } from "../jobs/jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
 import { itemViewsOf } from "../limit-tables/limit-tables.service";
@@ -39,6 +39,9 @@ const STATUS_FLAGS: Partial<Record<string, ReadingFlag>> = {
 };
 
 /** A 400 shaped like the zod issues every other bad input gets. */
+/** The tools a reading names, as their tags are matched (a tag typed in lower case is the same tool). */
+const tagsOf = (input: Pick<CreateReading, "toolAssetTags">) => [...new Set(input.toolAssetTags.map((t) => t.toUpperCase()))];
+
 function badInput(path: (string | number)[], message: string): never {
   throw new z.ZodError([{ code: "custom", path, message, input: undefined }]);
 }
@@ -106,10 +109,11 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       if (!input.visualResult) badInput(["visualResult"], "Say whether the part is serviceable or rejected.");
       if (input.visualResult === "reject" && !input.finding) badInput(["finding"], "Describe what was found.");
     }
-    const tags = [...new Set(input.toolAssetTags.map((t) => t.toUpperCase()))];
+    const tags = tagsOf(input);
     if (tags.length !== input.toolAssetTags.length) badInput(["toolAssetTags"], "A tool is named twice.");
-    // Each tool with its status at this instant (the one status derivation decides), in one statement.
-    const named = await toolsWithStatusByTags(tx, tags, at, statusContextOf(settings));
+    // Each tool with its status at this instant (the one status derivation decides): read in the statement that locked
+    // the sheet when the caller asked it there, else in one statement now.
+    const named = job.alsoRead ? await toolsWithStatusFromRows(tx, job.alsoRead, at, statusContextOf(settings)) : await toolsWithStatusByTags(tx, tags, at, statusContextOf(settings));
     const hits = tags.map((tag) => {
       const hit = named.find((f) => f.tool.assetTag.toUpperCase() === tag);
       if (!hit) throw notFound("tool", tag);
@@ -181,14 +185,20 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     // One reading per place (a second one is a correction with a reason), asked in one statement with the gauge-study
     // flag of a measured size: is the characteristic's latest study with these tools' families not acceptable?
     const measured = item.kind === "journal" || item.kind === "bore";
+    // The places this reading completes (clearances, tapers) at its index, and the other places each is judged from.
+    const views = items as LimitItemView[];
+    const dependents = dependentItems(views, item.key).filter((d) => place.index <= d.repeat);
+    const partnerKeysOf = (d: (typeof dependents)[number]) => [d.boreKey, d.journalKey, ...(d.stationKeys ?? [])].filter((k): k is string => !!k && k !== item.key);
+    const partnerKeys = [...new Set(dependents.flatMap(partnerKeysOf))];
     const check =
-      !extra.supersedesId || measured
+      !extra.supersedesId || measured || partnerKeys.length
         ? await readingsRepository.placeCheck(tx, {
             jobId: place.jobId,
             itemKey: item.key,
             index: place.index,
             current: !extra.supersedesId,
             flag: measured ? studyFlagCondition({ limitTableId: job.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) }) : null,
+            partnerKeys,
           })
         : null;
     if (check?.currentId) throw refused("reading_exists", `${item.label} no. ${place.index} already has a reading; correct it with a reason instead.`, { readingId: check.currentId });
@@ -279,15 +289,13 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       audit,
     );
 
-    // The places this reading completes (clearances, tapers), with the partner readings now on the sheet.
-    const views = items as LimitItemView[];
+    // The places this reading completes (clearances, tapers), with the partner readings on the sheet (read with the
+    // place's check, after the place's lock).
     const completes: ReadingResult["completes"] = [];
-    for (const d of dependentItems(views, item.key)) {
-      if (place.index > d.repeat) continue;
-      const partnerKeys = [d.boreKey, d.journalKey, ...(d.stationKeys ?? [])].filter((k): k is string => !!k && k !== item.key);
+    for (const d of dependents) {
       const partners = new Map<string, ReadingEvidence>();
-      for (const k of partnerKeys) {
-        const pr = await readingsRepository.currentAt(tx, place.jobId, k, place.index);
+      for (const k of partnerKeysOf(d)) {
+        const pr = check?.partners.get(k);
         if (pr) partners.set(k, evidenceOfRow(pr));
       }
       const j = judgeRow(views, d, place.index, (k, i) => (i !== place.index ? undefined : k === item.key ? evidence : partners.get(k)), jctx);
@@ -305,8 +313,8 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
   }
 
   /** Locks the job against a sign-off (a reading and a sign-off cannot cross) and reads what the write needs; never the whole sheet. */
-  async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean, alsoLock?: SQL) {
-    const job = await jobsRepository.lockForReading(tx, jobId, alsoLock);
+  async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean, alsoLock?: SQL, alsoRead?: SQL) {
+    const job = await jobsRepository.lockForReading(tx, jobId, alsoLock, alsoRead);
     if (!job) throw notFound("job", jobId);
     if (job.signed && !allowSigned) {
       throw refused("sheet_signed", "This check sheet is signed and locked; correct a reading with a reason instead.");
@@ -321,8 +329,10 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
       const index = input.index ?? 1;
       return db.transaction(async (tx) => {
-        // The sheet (shared) and the place (exclusive) in one statement.
-        const job = await lockOpenJob(tx, jobId, false, readingsRepository.placeLock(jobId, input.itemKey, index));
+        // The sheet (shared) and the place (exclusive) in one statement, with the tools named and their status: the
+        // tools are not what the locks guard (a tool's status may change while a reading waits either way).
+        const tags = tagsOf(input);
+        const job = await lockOpenJob(tx, jobId, false, readingsRepository.placeLock(jobId, input.itemKey, index), tags.length ? toolsByTagsSelect(tags) : undefined);
         return record(tx, job, { jobId, itemKey: input.itemKey, index }, input, user, settings);
       });
     },

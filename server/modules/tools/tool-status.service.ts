@@ -89,33 +89,65 @@ export interface ToolFacts {
 const TOOL = columnsOf(toolsTable, "t", "tool.");
 type ToolRow = typeof toolsTable.$inferSelect;
 
+/** A tool as recording a reading checks it: its whole row, its family's kind, its status at the instant. */
+export type ToolWithStatus = { tool: ToolRow; kind: string; status: ToolStatusView };
+
+/**
+ * The select behind toolsWithStatusByTags, for a caller that runs it inside another statement (recording a reading
+ * asks it in the statement that locks the sheet and the place: one round trip fewer); its rows go to
+ * toolsWithStatusFromRows. Every column it names is the tool's or its status's (none is `job.…`).
+ */
+export function toolsByTagsSelect(tags: string[]): SQL {
+  return statusSelect(sql`t.asset_tag = any(${pgArray(tags)}::text[])`, {
+    columns: sql`, ${TOOL.list}, f.kind as family_kind`,
+    joins: sql`join families f on f.id = t.family_id`,
+  });
+}
+
+/** The tools of toolsByTagsSelect's rows (rows without a tool, as an outer join gives, are left out), with their status at `at`. */
+export async function toolsWithStatusFromRows(db: DbOrTx, rows: Row[], at: Date, ctx: StatusContext): Promise<ToolWithStatus[]> {
+  const found = rows.filter((r) => r.id != null);
+  const { views } = await statusesFromRows(db, found, at, ctx);
+  return found.map((r) => ({ tool: TOOL.read(r), kind: String(r.family_kind), status: views.get(String(r.id))! }));
+}
+
 /**
  * Statuses at `at` of the tools named by their asset tags as recorded, each with the tool's whole row and its family's
  * kind: what recording a reading checks of its tools, in one statement instead of two.
  */
-export async function toolsWithStatusByTags(db: DbOrTx, tags: string[], at: Date, ctx: StatusContext): Promise<{ tool: ToolRow; kind: string; status: ToolStatusView }[]> {
+export async function toolsWithStatusByTags(db: DbOrTx, tags: string[], at: Date, ctx: StatusContext): Promise<ToolWithStatus[]> {
   if (tags.length === 0) return [];
-  const { views, rows } = await statusesWhere(db, sql`t.asset_tag = any(${pgArray(tags)}::text[])`, at, ctx, {
-    columns: sql`, ${TOOL.list}, f.kind as family_kind`,
-    joins: sql`join families f on f.id = t.family_id`,
-  });
-  return rows.map((r) => ({ tool: TOOL.read(r), kind: String(r.family_kind), status: views.get(String(r.id))! }));
+  const res = await db.execute(toolsByTagsSelect(tags));
+  return toolsWithStatusFromRows(db, res.rows as Row[], at, ctx);
 }
 
-async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext, extra?: { columns: SQL; joins: SQL }) {
-  const views = new Map<string, ToolStatusView>();
-  const tools = new Map<string, ToolFacts>();
-  const atTs = at.toISOString();
-  const res = await db.execute(sql`
+/** The tools that `where` names (over `tools t`), with the columns their status and a status answer read. */
+function statusSelect(where: SQL, extra?: { columns: SQL; joins: SQL }): SQL {
+  return sql`
     select t.id, t.asset_tag, t.unit, t.description, t.location, t.owner_type, t.owner_user_id, t.owner_name, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
       ${extra?.columns ?? sql``}
     from tools t
     ${extra?.joins ?? sql``}
     left join tool_states s on s.tool_id = t.id
     left join users u on u.id = s.custody_user_id
-    where ${where}`);
+    where ${where}`;
+}
+
+async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext) {
+  const res = await db.execute(statusSelect(where));
+  return statusesFromRows(db, res.rows as Row[], at, ctx);
+}
+
+/**
+ * Each tool's status at `at` from statusSelect's rows: from its tool_states columns when `at` is at or after every
+ * event the row has read, else gathered from the records as they stood then.
+ */
+async function statusesFromRows(db: DbOrTx, rows: Row[], at: Date, ctx: StatusContext) {
+  const views = new Map<string, ToolStatusView>();
+  const tools = new Map<string, ToolFacts>();
+  const atTs = at.toISOString();
   const past: string[] = [];
-  for (const r of res.rows as Row[]) {
+  for (const r of rows) {
     tools.set(String(r.id), {
       description: String(r.description),
       unit: String(r.unit),
@@ -133,7 +165,7 @@ async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContex
     views.set(id, fromState(r, atTs, ctx));
   }
   if (past.length) for (const [id, v] of await gatherStatusesAt(db, past, at, ctx)) views.set(id, v);
-  return { views, tools, rows: res.rows as Row[] };
+  return { views, tools };
 }
 
 /** The derivation's inputs from a tool_states row (with the tool's tag and unit and the custodian's name), derived at `at`. */
