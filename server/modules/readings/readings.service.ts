@@ -38,10 +38,10 @@ const STATUS_FLAGS: Partial<Record<string, ReadingFlag>> = {
   never_calibrated: "tool_never_calibrated",
 };
 
-/** A 400 shaped like the zod issues every other bad input gets. */
 /** The tools a reading names, as their tags are matched (a tag typed in lower case is the same tool). */
 const tagsOf = (input: Pick<CreateReading, "toolAssetTags">) => [...new Set(input.toolAssetTags.map((t) => t.toUpperCase()))];
 
+/** A 400 shaped like the zod issues every other bad input gets. */
 function badInput(path: (string | number)[], message: string): never {
   throw new z.ZodError([{ code: "custom", path, message, input: undefined }]);
 }
