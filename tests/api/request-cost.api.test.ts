@@ -104,6 +104,16 @@ describe("what a request costs the database, whatever the register holds", () =>
     });
     expect(bore, bore.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(5);
 
+    // Correcting the pin's reading, with a reason: the reading corrected, the locks with the tools, whether it was
+    // corrected already, the place's check with the bore's reading, the correction: seven statements with the two ends.
+    const pin2 = (await m.get(`/api/jobs/${job.id}`)).body.items.find((i: { key: string }) => i.key === "pin").rows.find((r: { index: number }) => r.index === 2).reading;
+    const correction = await statementsOf(async () => {
+      const res = await m.post(`/api/readings/${pin2.id}/supersede`).send({ values: [1.1243, 1.1244], toolAssetTags: [mic.assetTag], reason: "Read the wrong thimble line." });
+      expect(res.status, JSON.stringify(res.body)).toBe(201);
+      expect(res.body.clearance).toBeCloseTo(0.0029, 10);
+    });
+    expect(correction, correction.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(7);
+
     // A tool no one has registered is refused, and nothing is recorded.
     const unknown = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin_bore", index: 1, values: [1.127, 1.1271], toolAssetTags: ["NO-SUCH-TOOL"] });
     expect(unknown.status).toBe(404);

@@ -99,14 +99,10 @@ export const readingsRepository = {
   },
 
   /**
-   * Serialises writers of one place of one sheet until the transaction ends (a transaction-level advisory lock keyed
-   * by the place): two readings or two corrections of the same place cannot both see it free; other places go on.
+   * The place's lock as an SQL call, taken inside the statement that locks the sheet (jobsRepository.lockForReading):
+   * a transaction-level advisory lock keyed by the place, so two readings or two corrections of the same place cannot
+   * both see it free, and other places go on.
    */
-  async lockPlace(db: DbOrTx, jobId: string, itemKey: string, index: number) {
-    await db.execute(sql`select ${placeLock(jobId, itemKey, index)}`);
-  },
-
-  /** The place's lock as an SQL call, to be taken inside another statement (the sheet's lock: jobsRepository.lockForReading). */
   placeLock: (jobId: string, itemKey: string, index: number) => placeLock(jobId, itemKey, index),
 
   findById: async (db: DbOrTx, id: string) => (await db.select().from(readings).where(eq(readings.id, id)))[0],

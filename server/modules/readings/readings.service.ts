@@ -343,9 +343,10 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       return db.transaction(async (tx) => {
         const old = await readingsRepository.findById(tx, readingId);
         if (!old) throw notFound("reading", readingId);
-        // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
-        const job = await lockOpenJob(tx, old.jobId, true);
-        await readingsRepository.lockPlace(tx, old.jobId, old.itemKey, old.index);
+        // A correction is allowed on a signed sheet: it reopens the sheet for signing again. The sheet, the place and
+        // the tools named with their status in one statement, as for a new reading.
+        const tags = tagsOf(input);
+        const job = await lockOpenJob(tx, old.jobId, true, readingsRepository.placeLock(old.jobId, old.itemKey, old.index), tags.length ? toolsByTagsSelect(tags) : undefined);
         const newer = await readingsRepository.successorOf(tx, readingId);
         if (newer) throw refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId: newer.id });
         const { reason, ...rest } = input;
