@@ -1,3 +1,5 @@
+import { sql, type SQL, type SQLWrapper } from "drizzle-orm";
+
 /**
  * Raw SQL answers (db.execute) carry timestamptz as PostgreSQL's text, e.g. "2026-01-16 20:24:04.317721+00" on our
  * UTC sessions. Turning that into the ISO instant the shared rules read is, through `new Date`, the largest part of
@@ -21,3 +23,9 @@ export function isoInstant(v: unknown): string | null {
 export function pgArray(values: readonly string[]): string {
   return `{${values.map((v) => `"${v.replace(/[\\"]/g, "\\$&")}"`).join(",")}}`;
 }
+
+/**
+ * `column = any($1::uuid[])`: a list of ids as one array parameter, where the query builder's `inArray` sends one
+ * parameter per id (opening an investigation over 5,000 readings named thousands of them per statement).
+ */
+export const anyId = (column: SQLWrapper, ids: readonly string[]): SQL => sql`${column} = any(${pgArray(ids)}::uuid[])`;

@@ -20,6 +20,7 @@ import {
 } from "../../db/schema";
 import { dispositions, investigationItems, investigations } from "./investigations.table";
 import { pageOffset } from "../../db/paging";
+import { anyId } from "../../db/values";
 
 export type InvestigationRow = typeof investigations.$inferSelect;
 export type InvestigationItemRow = typeof investigationItems.$inferSelect;
@@ -88,7 +89,7 @@ export async function readingsWithTool(tx: DbOrTx, toolId: string, start: Date |
 
 /** The jobs of some readings with their limits tables and every item of those tables (in sheet order). */
 export async function jobsWithTables(tx: DbOrTx, jobIds: string[]) {
-  const jobRows = jobIds.length ? await tx.select().from(jobs).where(inArray(jobs.id, jobIds)) : [];
+  const jobRows = jobIds.length ? await tx.select().from(jobs).where(anyId(jobs.id, jobIds)) : [];
   const tableIds = [...new Set(jobRows.map((j) => j.limitTableId))];
   const tables = tableIds.length ? await tx.select().from(limitTables).where(inArray(limitTables.id, tableIds)) : [];
   const items = tableIds.length ? await tx.select().from(limitItems).where(inArray(limitItems.limitTableId, tableIds)).orderBy(asc(limitItems.seq)) : [];
@@ -124,7 +125,7 @@ export async function toolsOfReadings(tx: DbOrTx, readingIds: string[]) {
   const rows = await tx
     .select({ readingId: readingTools.readingId, toolId: readingTools.toolId })
     .from(readingTools)
-    .where(inArray(readingTools.readingId, readingIds))
+    .where(anyId(readingTools.readingId, readingIds))
     .orderBy(asc(readingTools.position));
   for (const t of rows) {
     const list = toolsOf.get(t.readingId);
