@@ -63,8 +63,8 @@ const columns = [
                   <th scope="row" className="py-0.5 pr-3 text-left font-normal text-ink-soft">
                     {r.field}
                   </th>
-                  {e.before != null && <td className="py-0.5 pr-3 [overflow-wrap:anywhere]">{r.before ?? "—"}</td>}
-                  {e.after != null && <td className="py-0.5 [overflow-wrap:anywhere]">{r.after ?? "—"}</td>}
+                  {e.before != null && <td className="py-0.5 pr-3 break-words">{r.before ?? "—"}</td>}
+                  {e.after != null && <td className="py-0.5 break-words">{r.after ?? "—"}</td>}
                 </tr>
               ))}
             </tbody>
