@@ -65,11 +65,19 @@ export function needsEscalation(daysOverdue: number, escalationDays: number, iss
   return issued || daysOverdue >= escalationDays;
 }
 
+/** The key a reminder is sent once under (the reminder log's unique key): tool|cycle date|stage|recipient. */
+export const reminderKey = (r: Pick<PlannedReminder, "toolId" | "dueAt" | "stage" | "recipientId">) => `${r.toolId}|${r.dueAt}|${r.stage}|${r.recipientId}`;
+
 /** Every reminder due at this run, one per (tool, cycle date, stage, recipient). */
 export function planReminders(input: PlanInput): PlannedReminder[] {
+  return [...planReminderMap(input).values()];
+}
+
+/** The same, by reminderKey: a caller comparing with the reminders already sent reuses the keys built here. */
+export function planReminderMap(input: PlanInput): Map<string, PlannedReminder> {
   const out = new Map<string, PlannedReminder>();
   const add = (r: PlannedReminder) => {
-    const key = `${r.toolId}|${r.dueAt}|${r.stage}|${r.recipientId}`;
+    const key = reminderKey(r);
     // A person reached twice (a crib attendant holding the tool) keeps their own copy, not the crib's.
     if (!out.has(key)) out.set(key, r);
   };
@@ -108,7 +116,7 @@ export function planReminders(input: PlanInput): PlannedReminder[] {
       toQuality(t.dueAt, "escalation", "escalations");
     }
   }
-  return [...out.values()];
+  return out;
 }
 
 /** How each kind of reminder reads in a digest and in the run's log. */

@@ -93,6 +93,21 @@ describe("each lead-time stage fires once as a tool comes due", () => {
     expect(crib.map(headings)).toEqual([["Calibration due within 7 days"], ["Calibration due within 7 days"]]);
     expect(crib[1].text).toContain("Due: 2027-06-18");
   });
+
+  it("a run whose clock is behind a recorded calibration judges the tool as it stood at the run's instant", async () => {
+    // A clock set back (docs/decisions/013): the calibration recorded on 18 June has not happened yet on the 16th, so
+    // the tool is still due on 22 June; the register's stored state (due 2027) must not decide the reminder.
+    const { tool } = await makeDueTool(t.db, { assetTag: "MIC-7004", dueAt: "2026-06-22" });
+    await recalibrate(t.db, tool.id, "2026-06-18T15:00:00Z", "2027-06-18");
+    t.clock.set(at("2026-06-16"));
+    await run();
+    const crib = to("crib@test.example");
+    expect(crib.map(headings)).toEqual([["Calibration due within 7 days"]]);
+    expect(crib[0].text).toContain("Due: 2026-06-22");
+    // With the clock right again, that cycle is over and the new due date is a year away: nothing more to send.
+    t.clock.set(at("2026-06-19"));
+    expect(await run()).toMatchObject({ status: "finished", sent: 0, failed: 0 });
+  });
 });
 
 describe("exactly once, even with two instances or a crash", () => {

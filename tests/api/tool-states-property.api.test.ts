@@ -14,6 +14,8 @@ import { countByStatus, statusCase, statusIn, statusNow } from "../../server/mod
 import { TOOL_STATUSES, type ToolStatus } from "../../shared/tools/tool-status";
 import { addDays, calendarDate } from "../../shared/common/dates";
 import type { DbOrTx } from "../../server/db/client";
+import { reminderPlanInputs } from "../../server/modules/reminders/reminders.service";
+import type { ToolForReminders } from "../../shared/reminders/reminder-plan";
 
 const SEED = "tool-states-2026";
 const TOOL_COUNT = 300;
@@ -200,6 +202,41 @@ describe("the indexed status (tool_states) against the definition (deriveToolSta
         for (const id of ids) expect(fast.get(id), `${id} at ${at.toISOString()}`).toEqual(oracle.get(id));
       }
     }
+  }, 240_000);
+
+  it("gives the reminder run what the definition gives (status, due date, days to it, uses left, owner, custodian), from SQL for the present and from the records for a past instant", async () => {
+    const db = tdb.db;
+    // Some tools owned by a person, as a mechanic's own micrometer is: the plan sends their reminders to the owner.
+    const owner = (await db.execute(sql`select id from users where email = 'prop@example.test'`)).rows[0] as { id: string };
+    await db.execute(sql`update tools set owner_type = 'personal', owner_user_id = ${owner.id}::uuid where id = any(${`{${ids.filter((_, i) => i % 7 === 3).join(",")}}`}::uuid[])`);
+    const facts = new Map(((await db.execute(sql`select id, usage_limit, owner_type, owner_user_id from tools where id = any(${`{${ids.join(",")}}`}::uuid[])`)).rows as Record<string, unknown>[]).map((r) => [String(r.id), r]));
+    const every = sql`select unnest(${`{${ids.join(",")}}`}::uuid[])`;
+    let settledOnes = 0;
+    for (const { zone, dstDates } of ZONES) {
+      const instants = [...instantsFor(zone, dstDates).slice(0, 6), new Date("2025-03-01T10:00:00Z"), new Date("2025-09-15T23:30:00Z")];
+      for (const at of instants) {
+        const ctx: StatusContext = { timeZone: zone, dueSoonDays: 30 };
+        const [{ tools: got }, oracle] = await Promise.all([reminderPlanInputs(db, every, at, ctx), gatherStatusesAt(db, ids, at, ctx)]);
+        if (at.getTime() > HISTORY_END) settledOnes += got.length;
+        expect(got.length).toBe(ids.length);
+        const want = (id: string): ToolForReminders => {
+          const v = oracle.get(id)!;
+          const f = facts.get(id)!;
+          return {
+            toolId: id,
+            status: v.status,
+            dueAt: v.dueAt,
+            daysToDue: v.daysToDue,
+            usageLimit: f.usage_limit == null ? null : Number(f.usage_limit),
+            usesRemaining: v.usesRemaining,
+            ownerUserId: f.owner_type === "personal" ? String(f.owner_user_id) : null,
+            custodian: v.custodian ? { userId: v.custodian.userId, dueBackAt: v.custodian.dueBackAt } : null,
+          };
+        };
+        for (const g of got) expect(g, `${g.toolId} at ${at.toISOString()} in ${zone}`).toEqual(want(g.toolId));
+      }
+    }
+    expect(settledOnes).toBeGreaterThan(1000);
   }, 240_000);
 
   it("changes in the same transaction as the event: a quarantine shows inside it, and is gone when the transaction rolls back", async () => {

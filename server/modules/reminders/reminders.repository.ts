@@ -6,6 +6,7 @@ import { tools } from "../tools/tools.table";
 import type { PlannedReminder } from "../../../shared/reminders/reminder-plan";
 import { listPage, pageOffset } from "../../db/paging";
 import { pgArray } from "../../db/values";
+import { statusCase, type StatusNow } from "../tools/tool-states.sql";
 
 export type ReminderRunRow = typeof reminderRuns.$inferSelect;
 export type ReminderLogRow = typeof reminderLog.$inferSelect;
@@ -48,13 +49,41 @@ export const remindersRepository = {
       select c.tool_id from checkouts c where c.returned_at is null and c.due_back_at < ${at.toISOString()}`;
   },
 
-  /** Keys (tool|due date|stage|recipient) of the reminders already sent about these tools: they are never sent again. */
-  async sentKeys(db: DbOrTx, toolIdsQuery: SQL): Promise<Set<string>> {
-    // The key is put together by the database: one text column a row to read, not four.
+  /**
+   * What the reminder plan reads of each candidate tool, worked out by the database from tool_states: the status on
+   * the run's date (statusCase, held equal to the one derivation by tests/api/tool-states-property.api.test.ts), the
+   * due date, days to it, uses left, owner and custodian. A row whose state was settled after `at` (a clock set back),
+   * or a tool without a state, comes back with `settled = false`: the service derives those from the records instead.
+   * Each row also names the reminders about the tool already sent (in the same statement: the candidate set is
+   * worked out once).
+   */
+  async planFacts(db: DbOrTx, toolIdsQuery: SQL, at: Date, now: StatusNow) {
     const res = await db.execute(sql`
-      select l.tool_id::text || '|' || l.due_at::text || '|' || l.stage || '|' || l.recipient_id::text as k from reminder_log l
-      where l.status = 'sent' and l.tool_id in (${toolIdsQuery})`);
-    return new Set((res.rows as { k: string }[]).map((r) => r.k));
+      select t.id, s.usage_limit, case when t.owner_type = 'personal' then t.owner_user_id end as owner_user_id,
+        s.tool_id is not null and (s.settled_at is null or s.settled_at <= ${at.toISOString()}::timestamptz) as settled,
+        ${statusCase(now)} as status,
+        case when s.cal_id is not null then to_char(s.cal_next_due, 'YYYY-MM-DD') end as due_at,
+        case when s.cal_id is not null then s.cal_next_due - ${now.today} end as days_to_due,
+        case when s.cal_id is not null and s.usage_limit is not null then greatest(0, s.usage_limit - s.uses_since_cal) end as uses_remaining,
+        s.custody_user_id, s.custody_due_back,
+        (select string_agg(l.due_at::text || '|' || l.stage || '|' || l.recipient_id::text, ',') from reminder_log l
+          where l.tool_id = t.id and l.status = 'sent') as sent
+      from tools t left join tool_states s on s.tool_id = t.id
+      where t.id in (${toolIdsQuery})`);
+    return res.rows as {
+      id: string;
+      usage_limit: number | null;
+      owner_user_id: string | null;
+      settled: boolean;
+      status: string;
+      due_at: string | null;
+      days_to_due: number | null;
+      uses_remaining: number | null;
+      custody_user_id: string | null;
+      custody_due_back: unknown;
+      /** The reminders about the tool already sent, as "due date|stage|recipient", comma-separated: never sent again. */
+      sent: string | null;
+    }[];
   },
 
   /** Active people who may receive mail: by id, plus everyone holding one of the roles. */

@@ -1,17 +1,19 @@
 import { createHash } from "node:crypto";
 import type pg from "pg";
+import { sql, type SQL } from "drizzle-orm";
 import type { Logger } from "pino";
-import type { Db } from "../../db/client";
+import type { Db, DbOrTx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
 import type { Config } from "../../config";
 import { getSettings } from "../settings/settings.service";
-import { statusesIn } from "../tools/tool-status.service";
-import { eventsAfter } from "../tools/tool-states.sql";
+import { statusesIn, type StatusContext, type ToolFacts, type ToolStatusView } from "../tools/tool-status.service";
+import { eventsAfter, statusNow } from "../tools/tool-states.sql";
+import { isoInstant, pgArray } from "../../db/values";
 import { recordAudit } from "../audit/audit.repository";
 import { remindersRepository as repo, type ClaimedReminder } from "./reminders.repository";
 import { renderDigest, type DigestLine } from "./reminder-digest";
-import { planReminders, type DigestKey, type PlannedReminder, type ReminderStage, type ToolForReminders } from "../../../shared/reminders/reminder-plan";
+import { planReminderMap, type DigestKey, type PlannedReminder, type ReminderStage, type ToolForReminders } from "../../../shared/reminders/reminder-plan";
 import type { ReminderTrigger, RunRemindersResult } from "../../../shared/reminders/reminders.schemas";
 import { addDays, calendarDate } from "../../../shared/common/dates";
 
@@ -98,13 +100,15 @@ async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date)
     const world = await gatherWorld(deps, startedAt);
     const planned = world.planned;
     // Reminders sent by an earlier run are left out before claiming; the claim still refuses any a run sent meanwhile.
-    const toClaim = planned.filter((p) => !world.sentBefore.has(`${p.toolId}|${p.dueAt}|${p.stage}|${p.recipientId}`));
+    const toClaim: PlannedReminder[] = [];
+    for (const [key, p] of planned) if (!world.sentBefore.has(key)) toClaim.push(p);
     const claimed = await db.transaction(async (tx) => {
       const rows = toClaim.length ? await repo.claim(tx, run.id, startedAt, toClaim) : [];
-      await repo.updateRun(tx, run.id, { skipped: planned.length - rows.length });
+      await repo.updateRun(tx, run.id, { skipped: planned.size - rows.length });
       return rows;
     });
     await opts.hooks?.afterClaim?.();
+    const lineFor = claimed.length ? await digestLines(db, [...new Set(claimed.map((r) => r.toolId))], startedAt, world.ctx, world.people, world.baseUrl) : null;
 
     const byRecipient = new Map<string, ClaimedReminder[]>();
     for (const r of claimed) {
@@ -120,7 +124,7 @@ async function runLocked(deps: RemindersDeps, opts: RunOptions, startedAt: Date)
         recipient: person,
         shopName: world.shopName,
         baseUrl: world.baseUrl,
-        lines: rows.map((r) => world.lineFor(r.toolId, r.stage as ReminderStage)),
+        lines: rows.map((r) => lineFor!(r.toolId, r.stage as ReminderStage)),
       });
       // The same reminders to the same person keep one Message-ID, so a digest re-sent after a crash
       // (sent, then the process died before recording it) is recognised as the same message.
@@ -181,7 +185,56 @@ function wants(p: Person, digest: DigestKey): boolean {
   return digest === "escalations" || p.digests?.[digest] !== false;
 }
 
-/** Everything the run decides from: statuses at the instant, what was sent before, people, preferences, and what each reminder's line says. */
+/** A derived status as the plan reads it. */
+function forPlan(s: ToolStatusView, f: ToolFacts): ToolForReminders {
+  return {
+    toolId: s.toolId,
+    status: s.status,
+    dueAt: s.dueAt,
+    daysToDue: s.daysToDue,
+    usageLimit: f.usageLimit,
+    usesRemaining: s.usesRemaining,
+    ownerUserId: f.ownerType === "personal" ? f.ownerUserId : null,
+    custodian: s.custodian ? { userId: s.custodian.userId, dueBackAt: s.custodian.dueBackAt } : null,
+  };
+}
+
+/**
+ * What the plan reads of every candidate at `at`. The database works it out from tool_states for the present (the
+ * status by statusCase, the same rules as the derivation); a tool with an event recorded after `at` is derived from
+ * the records as they stood then. Only the tools a reminder is sent about are later derived in full, for their lines.
+ */
+export async function reminderPlanInputs(db: DbOrTx, candidates: SQL, at: Date, ctx: StatusContext): Promise<{ tools: ToolForReminders[]; sentBefore: Set<string> }> {
+  const rows = await repo.planFacts(db, candidates, at, statusNow(at, ctx));
+  const out: ToolForReminders[] = [];
+  const unsettled: string[] = [];
+  const sentBefore = new Set<string>();
+  for (const r of rows) {
+    // The database gives "due date|stage|recipient"; the tool's id before it makes the reminderKey.
+    if (r.sent) for (const k of r.sent.split(",")) sentBefore.add(`${r.id}|${k}`);
+    if (!r.settled) {
+      unsettled.push(r.id);
+      continue;
+    }
+    out.push({
+      toolId: r.id,
+      status: r.status,
+      dueAt: r.due_at,
+      daysToDue: r.days_to_due == null ? null : Number(r.days_to_due),
+      usageLimit: r.usage_limit == null ? null : Number(r.usage_limit),
+      usesRemaining: r.uses_remaining == null ? null : Number(r.uses_remaining),
+      ownerUserId: r.owner_user_id,
+      custodian: r.custody_user_id != null ? { userId: r.custody_user_id, dueBackAt: isoInstant(r.custody_due_back)! } : null,
+    });
+  }
+  if (unsettled.length) {
+    const { views, tools } = await statusesIn(db, sql`select unnest(${pgArray(unsettled)}::uuid[])`, at, ctx);
+    for (const v of views.values()) out.push(forPlan(v, tools.get(v.toolId)!));
+  }
+  return { tools: out, sentBefore };
+}
+
+/** Everything the run decides from: what the plan reads of each candidate, what was sent before, people and preferences. */
 async function gatherWorld(deps: RemindersDeps, at: Date) {
   const { db, config } = deps;
   const settings = await getSettings(db, config.SHOP_TIME_ZONE);
@@ -190,29 +243,17 @@ async function gatherWorld(deps: RemindersDeps, at: Date) {
   const horizon = addDays(today, Math.max(...settings.reminderStages));
   const candidates = (await eventsAfter(db, at)) ? repo.candidateToolIdsFromRecords(at, horizon) : repo.candidateToolIds(at, horizon);
   const ctx = { timeZone: tz, dueSoonDays: settings.dueSoonDays };
-  // Two reads of the same candidate set, side by side; the database names the set each time.
-  const [{ views: statuses, tools: facts }, sentBefore] = await Promise.all([statusesIn(db, candidates, at, ctx), repo.sentKeys(db, candidates)]);
+  const { tools, sentBefore } = await reminderPlanInputs(db, candidates, at, ctx);
 
   const holderIds = new Set<string>();
-  for (const f of facts.values()) if (f.ownerType === "personal" && f.ownerUserId) holderIds.add(f.ownerUserId);
-  for (const s of statuses.values()) if (s.custodian) holderIds.add(s.custodian.userId);
+  for (const t of tools) {
+    if (t.ownerUserId) holderIds.add(t.ownerUserId);
+    if (t.custodian) holderIds.add(t.custodian.userId);
+  }
   const people = new Map<string, Person>((await repo.people(db, [...holderIds], ["crib", "quality"])).map((p) => [p.id, p]));
   const withRole = (role: string) => [...people.values()].filter((p) => p.role === role).map((p) => p.id);
 
-  const tools: ToolForReminders[] = [...statuses.values()].map((s) => {
-    const f = facts.get(s.toolId)!;
-    return {
-      toolId: s.toolId,
-      status: s.status,
-      dueAt: s.dueAt,
-      daysToDue: s.daysToDue,
-      usageLimit: f.usageLimit,
-      usesRemaining: s.usesRemaining,
-      ownerUserId: f.ownerType === "personal" ? f.ownerUserId : null,
-      custodian: s.custodian ? { userId: s.custodian.userId, dueBackAt: s.custodian.dueBackAt } : null,
-    };
-  });
-  const planned: PlannedReminder[] = planReminders({
+  const planned = planReminderMap({
     tools,
     at: at.toISOString(),
     today,
@@ -221,17 +262,23 @@ async function gatherWorld(deps: RemindersDeps, at: Date) {
     escalationDays: settings.escalationDays,
     cribIds: withRole("crib"),
     qualityIds: withRole("quality"),
-  }).filter((p) => {
-    const person = people.get(p.recipientId);
-    return person !== undefined && wants(person, p.digest);
   });
+  for (const [key, p] of planned) {
+    const person = people.get(p.recipientId);
+    if (person === undefined || !wants(person, p.digest)) planned.delete(key);
+  }
+  return { planned, sentBefore, people, ctx, baseUrl: publicBaseUrl(config), shopName: settings.shopName };
+}
 
-  const baseUrl = publicBaseUrl(config);
+/** How each reminder about these tools reads in a digest: from each tool's status at `at`, derived in full. */
+async function digestLines(db: Db, toolIds: string[], at: Date, ctx: StatusContext, people: Map<string, Person>, baseUrl: string) {
+  const { views: statuses, tools: facts } = await statusesIn(db, sql`select unnest(${pgArray(toolIds)}::uuid[])`, at, ctx);
+  const tz = ctx.timeZone;
   const clockTime = new Intl.DateTimeFormat("en-GB", { timeZone: tz, hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
   const when = (instant: string) => `${calendarDate(instant, tz)} ${clockTime.format(new Date(instant))}`;
   const plural = (n: number, what: string) => `${n} ${what}${n === 1 ? "" : "s"}`;
 
-  function lineFor(toolId: string, stage: ReminderStage): DigestLine {
+  return function lineFor(toolId: string, stage: ReminderStage): DigestLine {
     const s = statuses.get(toolId)!;
     const f = facts.get(toolId)!;
     const days = s.daysToDue ?? 0;
@@ -264,7 +311,5 @@ async function gatherWorld(deps: RemindersDeps, at: Date) {
       who: c ? `${c.name} (${c.email}), since ${when(c.since)}` : owner ? `${owner} (owner)` : "Nobody: not issued",
       link: `${baseUrl}/tools/${encodeURIComponent(s.assetTag)}`,
     };
-  }
-
-  return { planned, sentBefore, people, lineFor, baseUrl, shopName: settings.shopName };
+  };
 }
