@@ -7,6 +7,7 @@ import { jobState, jobStatusCondition } from "./job-state";
 import type { JobListStatus } from "../../../shared/jobs/jobs.schemas";
 import { listPage, pageOffset } from "../../db/paging";
 import { columnsOf } from "../../db/columns";
+import { executePrepared } from "../../db/prepared";
 
 export type JobRow = typeof jobs.$inferSelect;
 
@@ -81,8 +82,9 @@ export const jobsRepository = {
    * back as `alsoRead`, one per row it gives (none when it gives none), each beside the job's columns.
    */
   async lockForReading(db: DbOrTx, id: string, alsoLock?: SQL, alsoRead?: SQL): Promise<JobForReading | undefined> {
-    // Written as SQL: every reading runs it, and the query builder's cost was more than the statement's own.
-    const res = await db.execute(sql`
+    // Written as SQL: every reading runs it, and the query builder's cost was more than the statement's own. A named
+    // prepared statement: planned once per connection (its text is one of a few, its plan index lookups).
+    const res = await executePrepared(db, sql`
       select ${JOB.list}, lt.unit as "tableUnit", lt.expansion_per_k as "tableExpansionPerK", ${state.signed} as signed
         ${alsoLock ? sql`, ${alsoLock} as "alsoLocked"` : sql``}
         ${alsoRead ? sql`, x.*` : sql``}

@@ -3,6 +3,7 @@ import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { columnsOf, insertRows } from "../../db/columns";
 import { pgArray } from "../../db/values";
+import { executePrepared } from "../../db/prepared";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { setElements } from "../tools/tools.table";
 import { calibrationPoints } from "../calibrations/calibrations.table";
@@ -74,7 +75,7 @@ export const readingsRepository = {
    */
   async placeCheck(db: DbOrTx, p: { jobId: string; itemKey: string; index: number; current: boolean; flag: SQL | null; partnerKeys?: string[] }) {
     const partnerKeys = p.partnerKeys ?? [];
-    const res = await db.execute(sql`
+    const res = await executePrepared(db, sql`
       select ${
         p.current
           ? sql`(select r.id from readings r
@@ -128,7 +129,7 @@ export const readingsRepository = {
   ) {
     const parts = [sql`r as (${insertRows(readings, [values])})`, sql`j as (${insertRows(readingJudgements, [{ ...judgement, readingId: values.id }])})`];
     if (toolRows.length) parts.push(sql`t as (${insertRows(readingTools, toolRows.map((t) => ({ ...t, readingId: values.id })))})`);
-    await db.execute(sql`with ${sql.join(parts, sql`, `)} ${audit}`);
+    await executePrepared(db, sql`with ${sql.join(parts, sql`, `)} ${audit}`);
   },
 
   /**

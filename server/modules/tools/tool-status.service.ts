@@ -3,6 +3,7 @@ import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { isoInstant, pgArray } from "../../db/values";
 import { columnsOf } from "../../db/columns";
+import { executePrepared } from "../../db/prepared";
 import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
@@ -134,7 +135,8 @@ function statusSelect(where: SQL, extra?: { columns: SQL; joins: SQL }): SQL {
 }
 
 async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContext) {
-  const res = await db.execute(statusSelect(where));
+  // Every caller's condition is a fixed text (a tag, a list of ids as one array, a select of ids).
+  const res = await executePrepared(db, statusSelect(where));
   return statusesFromRows(db, res.rows as Row[], at, ctx);
 }
 

@@ -7,6 +7,7 @@ import { checkouts } from "../checkouts/checkouts.table";
 import { intermediateChecks } from "../checks/checks.table";
 import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
+import { runPrepared } from "../../db/prepared";
 import { alias } from "drizzle-orm/pg-core";
 import { toolStates } from "./tool-states.table";
 import { statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
@@ -148,6 +149,7 @@ export const toolsRepository = {
     f: ToolSqlFilters & StatusFilters,
     sort: { key: string; desc: boolean },
     now: StatusNow,
+    at: Date,
     paging: { page: number; pageSize: number; after?: { v: string | null; tag: string } } | null,
   ) {
     const { value, type } = sortOf(sort.key, now);
@@ -183,14 +185,22 @@ export const toolsRepository = {
     const rowsQ = paging ? base().limit(paging.pageSize).offset(after ? 0 : pageOffset(paging.page, paging.pageSize)) : base();
     // From the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL drops
     // the left joins, and a count by status is a count on tool_states' indexes alone.
+    // Was the clock set back (a tool with an event after `at`)? Asked with the count: one statement fewer.
+    const setBack = sql<boolean>`exists (select 1 from tool_states where settled_at > ${at.toISOString()}::timestamptz)`;
     const countQ = db
-      .select({ total: count() })
+      .select({ total: count(), clockSetBack: setBack })
       .from(s)
       .leftJoin(tools, eq(tools.id, s.toolId))
       .leftJoin(families, eq(families.id, tools.familyId))
       .where(where);
-    const [rows, [{ total }]] = await Promise.all([rowsQ, paging ? countQ : Promise.resolve([{ total: -1 }])]);
-    return { rows: rows as (ToolListRow & { sortValue: string | null })[], total: paging ? total : rows.length };
+    // Named prepared statements (planned once per connection), except with free text: how many tools a search
+    // matches decides between the trigram index and a scan, so that plan is made for each search.
+    const run = <T>(qb: { prepare(name: string): unknown; execute(): Promise<T> }) => (f.q ? qb.execute() : runPrepared<T>(qb));
+    const [rows, [{ total, clockSetBack }]] = await Promise.all([
+      run<Awaited<typeof rowsQ>>(rowsQ),
+      run<{ total: number; clockSetBack: boolean }[]>(paging ? countQ : db.select({ total: sql<number>`-1`, clockSetBack: setBack }).from(sql`(select 1) one`)),
+    ]);
+    return { rows: rows as (ToolListRow & { sortValue: string | null })[], total: paging ? total : rows.length, clockSetBack: Boolean(clockSetBack) };
   },
 
   /** Distinct non-blank locations, sorted case-insensitively (tools_location_idx). */

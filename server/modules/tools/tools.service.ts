@@ -1,7 +1,7 @@
 import Papa from "papaparse";
 import { toolsRepository, cursorCodec, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
 import { gatherStatusesAt, statusByTag, statusContext, statusesFor, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
-import { eventsAfter, statusNow } from "./tool-states.sql";
+import { statusNow } from "./tool-states.sql";
 import { changeLifecycle, lockTool, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
 import { recordAudit } from "../audit/audit.repository";
 import { AppError, notFound, refused } from "../../http/errors";
@@ -184,24 +184,22 @@ export function toolsService(deps: RegisterDeps) {
     const statuses = query.status?.length ? (wantUsable ? query.status.filter((st) => wantUsable.includes(st)) : query.status) : wantUsable ?? undefined;
     const after = query.after ? cursorCodec.decode(query.after) : undefined;
     if (after === null) throw new AppError("bad_cursor", 400, "This page link is not from this list; start again from the first page.");
-    // Asked side by side with the page (a clock set back is rare): the page read for nothing then, one round trip
-    // saved every other time.
-    const [clockSetBack, { rows, total }] = await Promise.all([
-      eventsAfter(db, now),
-      toolsRepository.registerPage(
-        db,
-        {
-          ...query,
-          statuses,
-          dueWithin: query.dueWithinDays === undefined ? undefined : { days: query.dueWithinDays, stillIn: STILL_IN_CALIBRATION },
-          dueFrom: query.dueFrom,
-          dueTo: query.dueTo,
-        },
-        { key, desc },
-        statusNow(now, c),
-        opts.all ? null : { page: query.page, pageSize: query.pageSize, after },
-      ),
-    ]);
+    // Whether the clock was set back is asked with the page's count (it is rare): the page read for nothing then, a
+    // statement saved every other time.
+    const { rows, total, clockSetBack } = await toolsRepository.registerPage(
+      db,
+      {
+        ...query,
+        statuses,
+        dueWithin: query.dueWithinDays === undefined ? undefined : { days: query.dueWithinDays, stillIn: STILL_IN_CALIBRATION },
+        dueFrom: query.dueFrom,
+        dueTo: query.dueTo,
+      },
+      { key, desc },
+      statusNow(now, c),
+      now,
+      opts.all ? null : { page: query.page, pageSize: query.pageSize, after },
+    );
     if (clockSetBack) return listDerived(query, now, c, opts);
     const views = await statusesFor(db, rows.map((r) => r.tool.id), now, c);
     const items = rows.map((r) => toToolSummary(r, views.get(r.tool.id)!));
