@@ -526,13 +526,24 @@ const distinct = (xs: (string | null | undefined)[]) => [...new Set(xs.filter((x
 
 /** A page of items with their reading, sheet, place label, taker, tool tag and calibration, each read by id. */
 async function withDetails(tx: DbOrTx, items: InvestigationItemRow[]) {
-  const rs = byIds(await selectIn(tx, readings, readings.id, distinct(items.map((i) => i.readingId))));
-  const js = byIds(await selectIn(tx, jobs, jobs.id, distinct([...rs.values()].map((r) => r.jobId))));
-  const cs = byIds(await selectIn(tx, calibrations, calibrations.id, distinct(items.map((i) => i.calibrationId))));
+  // Three rounds, each asking side by side what it can (on the pool, each on its own connection; inside a
+  // transaction they queue on its one connection): what the items name, then what their readings name, then labels.
   const toolIds = distinct(items.map((i) => i.toolId));
-  const tags = new Map((toolIds.length ? await tx.select({ id: tools.id, assetTag: tools.assetTag }).from(tools).where(inArray(tools.id, toolIds)) : []).map((t) => [t.id, t.assetTag]));
+  const [rsRows, csRows, toolRows] = await Promise.all([
+    selectIn(tx, readings, readings.id, distinct(items.map((i) => i.readingId))),
+    selectIn(tx, calibrations, calibrations.id, distinct(items.map((i) => i.calibrationId))),
+    toolIds.length ? tx.select({ id: tools.id, assetTag: tools.assetTag }).from(tools).where(inArray(tools.id, toolIds)) : [],
+  ]);
+  const rs = byIds(rsRows);
+  const cs = byIds(csRows);
+  const tags = new Map(toolRows.map((t) => [t.id, t.assetTag]));
   const takerIds = distinct([...rs.values()].map((r) => r.takenBy));
-  const takers = new Map((takerIds.length ? await tx.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, takerIds)) : []).map((u) => [u.id, u.name]));
+  const [jsRows, takerRows] = await Promise.all([
+    selectIn(tx, jobs, jobs.id, distinct([...rs.values()].map((r) => r.jobId))),
+    takerIds.length ? tx.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, takerIds)) : [],
+  ]);
+  const js = byIds(jsRows);
+  const takers = new Map(takerRows.map((u) => [u.id, u.name]));
   const tableIds = distinct([...js.values()].map((j) => j.limitTableId));
   const labels = new Map(
     (tableIds.length ? await tx.select({ t: limitItems.limitTableId, key: limitItems.key, label: limitItems.label }).from(limitItems).where(inArray(limitItems.limitTableId, tableIds)) : []).map((l) => [`${l.t}:${l.key}`, l.label]),

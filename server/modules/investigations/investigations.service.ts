@@ -378,10 +378,12 @@ export async function getInvestigation(db: DbOrTx, id: string): Promise<Investig
 /** One page of an investigation's affected items, sorted and filtered in the database, with totals over the filter. */
 export async function listItems(db: DbOrTx, id: string, query: AffectedItemsQuery): Promise<AffectedItemsPage> {
   const q = AffectedItemsQuerySchema.parse(query);
-  if (!(await repo.findInvestigation(db, id))) throw notFound("investigation", id);
-  const rows = await repo.itemPage(db, id, q);
-  const totals = await repo.itemTotals(db, id, q);
-  return { items: await itemViews(db, rows), total: totals.items, totals };
+  // The page is read beside the check that the investigation exists (an unknown one has no items); its totals, which
+  // are kept per process, only once it is known to exist.
+  const [inv, rows] = await Promise.all([repo.findInvestigation(db, id), repo.itemPage(db, id, q)]);
+  if (!inv) throw notFound("investigation", id);
+  const [totals, items] = await Promise.all([repo.itemTotals(db, id, q), itemViews(db, rows)]);
+  return { items, total: totals.items, totals };
 }
 
 /** Every affected item, a page at a time in the table's default order (for the report). */

@@ -50,7 +50,9 @@ export const toolStates = pgTable(
     usageWarn: boolean("usage_warn").notNull().default(false),
   },
   (t) => [
-    index("tool_states_base_due_idx").on(t.baseStatus, t.calNextDue),
+    // Every column the date-dependent status reads (statusCase), in that order: a status filter or sort is a range
+    // scan on its first two, and the count by status reads the index alone, already grouped (decision 019).
+    index("tool_states_status_idx").on(t.baseStatus, t.calNextDue, t.calResult, t.usageExhausted, t.usageWarn),
     index("tool_states_due_idx").on(t.calNextDue),
     index("tool_states_usage_idx").on(t.toolId).where(sql`${t.usageExhausted} or ${t.usageWarn}`),
     index("tool_states_settled_idx").on(t.settledAt),

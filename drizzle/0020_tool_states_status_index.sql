@@ -1,0 +1,2 @@
+DROP INDEX "tool_states_base_due_idx";--> statement-breakpoint
+CREATE INDEX "tool_states_status_idx" ON "tool_states" USING btree ("base_status","cal_next_due","cal_result","usage_exhausted","usage_warn");
