@@ -9,13 +9,18 @@ import { makeJob, makeLimitTable, makeToolInCalibration, pinAndBoreItems } from 
 // person's request sends, counted on the wire (every pg client of this process).
 let t: TestApp;
 const seen: string[] = [];
+/** The name each counted statement went by (a named prepared statement is planned once per connection), or "". */
+const names: string[] = [];
 let counting = false;
 const original = pg.Client.prototype.query;
 beforeAll(async () => {
   t = await createTestApp({ now: "2026-06-15T15:00:00Z" });
   // eslint-disable-next-line @typescript-eslint/no-explicit-any
   (pg.Client.prototype as any).query = function (this: pg.Client, ...args: any[]) {
-    if (counting) seen.push(String(typeof args[0] === "string" ? args[0] : args[0]?.text).replace(/\s+/g, " "));
+    if (counting) {
+      seen.push(String(typeof args[0] === "string" ? args[0] : args[0]?.text).replace(/\s+/g, " "));
+      names.push(typeof args[0] === "object" && args[0]?.name ? String(args[0].name) : "");
+    }
     // eslint-disable-next-line @typescript-eslint/no-explicit-any
     return (original as any).apply(this, args);
   };
@@ -27,6 +32,7 @@ afterAll(async () => {
 
 async function statementsOf(run: () => Promise<unknown>) {
   seen.length = 0;
+  names.length = 0;
   counting = true;
   try {
     await run();
@@ -60,6 +66,19 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(sent.filter((q) => /from "session"/i.test(q))).toEqual([]);
     // One status lookup is one statement: the tool with its status, by tag.
     expect(sent).toHaveLength(5);
+    // Sent by one name every time (a prepared statement: planned once per connection, not on every lookup).
+    expect(new Set(names).size).toBe(1);
+    expect(names[0]).toMatch(/^tw_[0-9a-f]{24}$/);
+
+    // Planned once, answered afresh: the tool quarantined between two lookups shows quarantined at once.
+    const crib = await t.agent("crib");
+    const held = await crib.post("/api/tools/RC-0001/quarantine").send({ reason: "Dropped on the bench" });
+    expect(held.status, JSON.stringify(held.body)).toBe(200);
+    const after = await m.get("/api/tools/RC-0001/status");
+    expect(after.body).toMatchObject({ status: "quarantined", usable: false });
+    const released = await crib.post("/api/tools/RC-0001/release").send({ reason: "Checked against the gauge block: within tolerance" });
+    expect(released.status, JSON.stringify(released.body)).toBe(200);
+    expect((await m.get("/api/tools/RC-0001/status")).body).toMatchObject({ status: "in_calibration", usable: true });
 
     // A tag scanned or typed in another case still finds the tool (a second statement, on an index); an unknown one is a 404.
     const lower = await m.get("/api/tools/rc-0001/status");
@@ -87,6 +106,8 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(sent[1]).toMatch(/for share of jobs/i);
     expect(sent[1]).toMatch(/tool_states/i);
     expect(sent[4]).toMatch(/^commit/i);
+    // The three statements between the ends go by name: planned once per connection, not for every reading.
+    expect(names.map(Boolean)).toEqual([false, true, true, true, false]);
 
     // The tools the reading names are stored with their status at the reading, as read in that first statement.
     const sheet = await m.get(`/api/jobs/${job.id}`);
