@@ -47,7 +47,7 @@ async function readingViews(
   rows: ReadingRows,
   items: Map<string, LimitItemView>,
   ctx: JudgingContext,
-): Promise<{ views: SheetReading[]; places: Map<string, PlaceView>; judged: Map<string, Judged> }> {
+): Promise<{ views: SheetReading[]; places: Map<string, PlaceView>; judged: Map<string, Judged>; judgedHere: number }> {
   const unjudged = rows.filter((x) => !x.judgedView).map((x) => x.r);
   const evidence = unjudged.length ? await evidenceOfRows(db, unjudged, ctx.tableUnit) : new Map<string, ReadingEvidence>();
   const judged = new Map<string, Judged>();
@@ -95,7 +95,7 @@ async function readingViews(
       overrideBy: r.overrideBy && overriderName ? { id: r.overrideBy, name: overriderName } : null,
     };
   });
-  return { views, places, judged };
+  return { views, places, judged, judgedHere: unjudged.length };
 }
 
 /** A feeler check recorded before the leaves were kept with the reading (rules 1): the leaves as its judged place names them. */
@@ -129,6 +129,14 @@ function judgementOf(item: LimitItemView, place: SheetRow["place"]): SheetRow["j
 
 /** The check sheet of a job: every item × index with its current reading, judged under the current rules, with flags and tools. */
 export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckSheet> {
+  return (await assembleCheckSheet(db, jobId)).sheet;
+}
+
+/**
+ * The check sheet, and how many of its readings were judged here rather than read with their stored judgement
+ * (readings not yet judged under the current rules: judged from evidence read now, so not an answer to keep).
+ */
+export async function assembleCheckSheet(db: DbOrTx, jobId: string): Promise<{ sheet: CheckSheet; judgedHere: number }> {
   // The sheet counts its current readings from the rows it reads anyway, not with a second pass over them.
   const summary = await jobsRepository.summary(db, jobId, { count: false });
   if (!summary) throw notFound("job", jobId);
@@ -139,7 +147,7 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
   const signoffRows = await jobsRepository.signoffs(db, jobId);
   const byKey = new Map(items.map((i) => [i.key, i]));
   const ctx: JudgingContext = { tableUnit: table.table.unit, tableExpansionPerK: n(table.table.expansionPerK) };
-  const { views, places: placeOf, judged } = await readingViews(db, readingRows, byKey, ctx);
+  const { views, places: placeOf, judged, judgedHere } = await readingViews(db, readingRows, byKey, ctx);
 
   const current = new Map<string, SheetReading>();
   // A superseded reading keeps its judged place with it (the row's place is the current reading's).
@@ -234,7 +242,7 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
     }
   }
 
-  return {
+  const sheet: CheckSheet = {
     ...toJobSummary(summary),
     readingCount: views.reduce((n, v) => (v.supersededById ? n : n + 1), 0),
     limitTable: {
@@ -256,4 +264,5 @@ export async function buildCheckSheet(db: DbOrTx, jobId: string): Promise<CheckS
     summary: { places, recorded: places - missing.length, missing, outside, flagged, judgedDifferently, rulesVersion: JUDGING_RULES_VERSION },
     tools: [...toolsUsed.values()].sort((a, b) => a.assetTag.localeCompare(b.assetTag)),
   };
+  return { sheet, judgedHere };
 }

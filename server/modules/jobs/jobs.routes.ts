@@ -8,6 +8,7 @@ import { jobsRepository } from "./jobs.repository";
 import { jobsService } from "./jobs.service";
 import { buildCheckSheet, toJobSummary } from "./check-sheet.service";
 import { writeCheckSheetPdf } from "./check-sheet.pdf";
+import { keptSheets, sendSheet } from "./kept-sheets";
 
 const Id = z.string().uuid("Not a job id.");
 
@@ -15,6 +16,7 @@ export function jobsRoutes(deps: AppDeps) {
   const router = Router();
   const route = defineRoutes(router, deps.registry, "jobs");
   const service = jobsService(deps);
+  const sheets = keptSheets();
 
   route(
     { method: "get", path: "/api/jobs", summary: "Jobs (filters engineSerial, status open/awaiting_signature/signed, mine), newest first", access: "signedIn", query: JobListQuerySchema, response: pageOf(JobSummarySchema) },
@@ -28,8 +30,10 @@ export function jobsRoutes(deps: AppDeps) {
     service.create(body, user),
   );
 
-  route({ method: "get", path: "/api/jobs/:id", summary: "The check sheet: items, readings, sizes, clearances, verdicts, flags, tools, sign-off", access: "signedIn", response: CheckSheetSchema }, ({ params }) =>
-    buildCheckSheet(deps.db, Id.parse(params.id)),
+  route(
+    { method: "get", path: "/api/jobs/:id", summary: "The check sheet: items, readings, sizes, clearances, verdicts, flags, tools, sign-off", access: "signedIn", response: CheckSheetSchema },
+    // Answered from a kept copy while nothing the sheet shows has changed (kept-sheets.ts).
+    async ({ params, req, res }) => sendSheet(req, res, await sheets.answer(deps.db, Id.parse(params.id))),
   );
 
   route(

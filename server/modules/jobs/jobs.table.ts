@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { pgTable, uuid, text, timestamp, integer, index, primaryKey } from "drizzle-orm/pg-core";
+import { pgTable, uuid, text, timestamp, integer, bigint, smallint, index, primaryKey } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { limitTables } from "../limit-tables/limit-tables.table";
 
@@ -50,6 +50,11 @@ export const jobActivity = pgTable(
     lastReadingAt: timestamp("last_reading_at", { withTimezone: true }),
     readings: integer("readings").notNull().default(0),
     lastSignedAt: timestamp("last_signed_at", { withTimezone: true }),
+    /**
+     * Moved by every change to what the sheet shows of its own records: a reading, a sign-off, a reading judged under
+     * new rules, a reading named by an investigation, an investigation closed (docs/decisions/020-kept-check-sheets.md).
+     */
+    sheetVersion: bigint("sheet_version", { mode: "number" }).notNull().default(0),
   },
   (t) => [index("job_activity_awaiting_idx").on(t.jobId).where(sql`last_reading_at is not null and (last_signed_at is null or last_reading_at > last_signed_at)`)],
 );
@@ -70,3 +75,14 @@ export const jobPeople = pgTable(
   },
   (t) => [primaryKey({ columns: [t.userId, t.jobId] })],
 );
+
+/**
+ * One row, kept by database triggers (never written by the app): moved by every change to the records a check sheet
+ * shows beside its own, which are shared by many sheets and seldom change: people's names, tools' tags, descriptions
+ * and units, families' kinds, limit tables and their items, the sheets' own rows. A kept check sheet is good while
+ * its sheet's version and this one are both unchanged (docs/decisions/020-kept-check-sheets.md).
+ */
+export const sheetReferences = pgTable("sheet_references", {
+  id: smallint("id").primaryKey(),
+  version: bigint("version", { mode: "number" }).notNull().default(0),
+});
