@@ -86,7 +86,10 @@ export function AppLayout() {
         </div>
       </aside>
       <main className="min-w-0 px-4 py-5 sm:px-6 lg:px-8">
-        <Outlet />
+        {/* A page drawn before the shop's zone is known would keep the browser's zone: the router does not draw it
+            again when the settings come (a page whose data came first, such as a kept check sheet, showed its times
+            hours off). Unreadable settings leave the browser's zone, named as such. */}
+        {settings.isPending ? null : <Outlet />}
       </main>
     </div>
   );

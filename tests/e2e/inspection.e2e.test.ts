@@ -11,6 +11,7 @@ const day = (offset: number) => new Date(Date.now() + offset * DAY).toISOString(
 
 let app: BrowserApp;
 let jobId: string;
+let openedAt: Date;
 let tags: { mic: string; tel: string; overdue: string };
 
 beforeAll(async () => {
@@ -25,7 +26,8 @@ beforeAll(async () => {
       { key: "pin_clearance", label: "Pin to piston clearance", section: "Piston and pin", kind: "clearance", boreKey: "pin_bore", journalKey: "pin", min: 0.001, max: 0.0045 },
     ],
   });
-  const job = await makeJob(app.db, table.id, people.mechanic.id, { engineSerial: "HF360-E2E-1", engineModel: "Harrow HF-360 (demo, invented)", openedAt: new Date(Date.now() - 3600_000) });
+  openedAt = new Date(Date.now() - 3600_000);
+  const job = await makeJob(app.db, table.id, people.mechanic.id, { engineSerial: "HF360-E2E-1", engineModel: "Harrow HF-360 (demo, invented)", openedAt });
   jobId = job.id;
   const inCal = { performedAt: new Date(Date.now() - 30 * DAY).toISOString(), nextDueAt: day(300) };
   const mic = await makeToolInCalibration(app.db, { ...inCal, rangeMin: "1", rangeMax: "2" });
@@ -101,6 +103,27 @@ describe("filling a check sheet on a tablet", () => {
     await page.getByText(/Signed by .*certificate IA-DEMO-40817/).waitFor();
     await page.getByText("Signed", { exact: true }).first().waitFor();
     await app.screenshot(page, "inspection-signed");
+    expect(errors).toEqual([]);
+    await page.context().close();
+  });
+
+  it("a check sheet opened straight from its link shows its times in the shop's zone, even when the shop's settings come after the sheet", async () => {
+    const { page, errors } = await app.newPage({ width: 1024, height: 768 });
+    await app.signIn(page, "inspector");
+    // The settings (which name the shop's zone) held back until the sheet has long arrived.
+    await page.route("**/api/settings", async (route) => {
+      await new Promise((r) => setTimeout(r, 400));
+      await route.continue();
+    });
+    await page.goto(`/jobs/${jobId}`);
+    await page.getByRole("table", { name: "Tools used" }).waitFor();
+    // The browser runs in UTC, the shop in America/Chicago: the time is the shop's, with its zone named.
+    const p = Object.fromEntries(
+      new Intl.DateTimeFormat("en-CA", { timeZone: "America/Chicago", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", hourCycle: "h23" })
+        .formatToParts(openedAt)
+        .map((x) => [x.type, x.value]),
+    );
+    await page.getByText(new RegExp(`^${p.year}-${p.month}-${p.day} ${p.hour}:${p.minute} GMT-[56] by `)).waitFor();
     expect(errors).toEqual([]);
     await page.context().close();
   });

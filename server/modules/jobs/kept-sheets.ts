@@ -72,9 +72,9 @@ export function keptSheets(maxBytes = KEPT_SHEET_BYTES) {
 export type KeptSheets = ReturnType<typeof keptSheets>;
 
 /**
- * Sends a sheet's answer: a kept one compressed once (brotli or gzip, as the browser accepts, at better settings than
- * the per-request compression since it is done once), then sent as it is to every request that accepts it; a fresh
- * one as JSON for the app's compression. A validator the browser sends back unchanged gets 304 (Express).
+ * Sends a sheet's answer: a kept one compressed once (brotli or gzip, as the browser accepts, at the app's settings
+ * for answers), then sent as it is to every request that accepts it; a fresh one as JSON for the app's compression. A
+ * validator the browser sends back unchanged gets 304 (Express).
  */
 export async function sendSheet(req: Request, res: Response, answer: SheetAnswer) {
   res.type("application/json");
@@ -84,7 +84,8 @@ export async function sendSheet(req: Request, res: Response, answer: SheetAnswer
   if (answer.encoded && (encoding === "br" || encoding === "gzip")) {
     let body = answer.encoded[encoding];
     if (!body) {
-      body = encoding === "br" ? brotli(answer.body, { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 5 } }) : gzip(answer.body);
+      // The app's own settings for answers (app.ts): the first request after a change waits for this.
+      body = encoding === "br" ? brotli(answer.body, { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } }) : gzip(answer.body, { level: 1 });
       answer.encoded[encoding] = body;
       // A failed compression is not kept: the next request tries again.
       body.catch(() => delete answer.encoded![encoding]);
