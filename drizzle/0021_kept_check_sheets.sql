@@ -52,49 +52,31 @@ CREATE TRIGGER reading_judgements_sheet_version AFTER INSERT ON reading_judgemen
 --> statement-breakpoint
 -- The records many sheets share: a change that a sheet shows moves the one version row. (Named without the
 -- tenthwise_ prefix, which marks the triggers that guard evidence: these tables are not evidence.)
+-- Triggered by an UPDATE with its rows before and after, it moves the version only when one of the columns named as
+-- the trigger's arguments changed; with no argument, whatever the statement did.
 CREATE OR REPLACE FUNCTION sheet_references_moved() RETURNS trigger
 LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
 BEGIN
-  UPDATE sheet_references SET version = version + 1 WHERE id = 1;
-  RETURN NULL;
-END $$;
---> statement-breakpoint
-CREATE OR REPLACE FUNCTION sheet_references_users() RETURNS trigger
-LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
-BEGIN
-  IF EXISTS (SELECT 1 FROM old_rows o JOIN new_rows n ON n.id = o.id WHERE n.name IS DISTINCT FROM o.name) THEN
+  -- Two statements: the rows before and after exist only for the triggers that name columns.
+  IF TG_NARGS = 0 THEN
+    UPDATE sheet_references SET version = version + 1 WHERE id = 1;
+  ELSIF EXISTS (
+    SELECT 1 FROM old_rows o JOIN new_rows n ON n.id = o.id
+    WHERE EXISTS (SELECT 1 FROM unnest(TG_ARGV) c WHERE to_jsonb(n) -> c IS DISTINCT FROM to_jsonb(o) -> c)
+  ) THEN
     UPDATE sheet_references SET version = version + 1 WHERE id = 1;
   END IF;
   RETURN NULL;
 END $$;
 --> statement-breakpoint
 CREATE TRIGGER users_sheet_references AFTER UPDATE ON users REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows
-  FOR EACH STATEMENT EXECUTE FUNCTION sheet_references_users();
---> statement-breakpoint
-CREATE OR REPLACE FUNCTION sheet_references_tools() RETURNS trigger
-LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
-BEGIN
-  IF EXISTS (SELECT 1 FROM old_rows o JOIN new_rows n ON n.id = o.id
-             WHERE (n.asset_tag, n.description, n.unit, n.family_id) IS DISTINCT FROM (o.asset_tag, o.description, o.unit, o.family_id)) THEN
-    UPDATE sheet_references SET version = version + 1 WHERE id = 1;
-  END IF;
-  RETURN NULL;
-END $$;
+  FOR EACH STATEMENT EXECUTE FUNCTION sheet_references_moved('name');
 --> statement-breakpoint
 CREATE TRIGGER tools_sheet_references AFTER UPDATE ON tools REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows
-  FOR EACH STATEMENT EXECUTE FUNCTION sheet_references_tools();
---> statement-breakpoint
-CREATE OR REPLACE FUNCTION sheet_references_families() RETURNS trigger
-LANGUAGE plpgsql SECURITY DEFINER SET search_path = public, pg_temp AS $$
-BEGIN
-  IF EXISTS (SELECT 1 FROM old_rows o JOIN new_rows n ON n.id = o.id WHERE n.kind IS DISTINCT FROM o.kind) THEN
-    UPDATE sheet_references SET version = version + 1 WHERE id = 1;
-  END IF;
-  RETURN NULL;
-END $$;
+  FOR EACH STATEMENT EXECUTE FUNCTION sheet_references_moved('asset_tag', 'description', 'unit', 'family_id');
 --> statement-breakpoint
 CREATE TRIGGER families_sheet_references AFTER UPDATE ON families REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows
-  FOR EACH STATEMENT EXECUTE FUNCTION sheet_references_families();
+  FOR EACH STATEMENT EXECUTE FUNCTION sheet_references_moved('kind');
 --> statement-breakpoint
 -- A limit table's new revision names the one it supersedes, so a new table moves the version too.
 CREATE TRIGGER limit_tables_sheet_references AFTER INSERT OR UPDATE OR DELETE ON limit_tables

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { roleMatrix } from "../support/role-matrix";
 import { makeCalibration, makeCheckout, makeTool, makeFamily } from "../support/factories";
-import { makeFeelerSetInCalibration, makeJob, makeLimitTable, makeToolInCalibration, pinAndBoreItems } from "../support/factories-inspection";
+import { makeFeelerSetInCalibration, makeJob, makeLimitTable, makePinSheet, makeToolInCalibration, pinAndBoreItems } from "../support/factories-inspection";
 import { readings, readingTools, users } from "../../server/db/schema";
 import { eq } from "drizzle-orm";
 import { CreateReadingSchema, ENTER_A_NUMBER } from "../../shared/readings/readings.schemas";
@@ -16,15 +16,7 @@ beforeAll(async () => {
 afterAll(async () => t.close());
 
 /** A pin-and-bore sheet with a 1–2 in micrometer and a telescoping gauge, both issued to the mechanic. */
-async function pinSheet() {
-  const table = await makeLimitTable(t.db, { items: pinAndBoreItems });
-  const job = await makeJob(t.db, table.id, t.people.mechanic.id);
-  const mic = await makeToolInCalibration(t.db, { rangeMin: "1", rangeMax: "2" });
-  const tel = await makeToolInCalibration(t.db, { kind: "telescoping_gauge", rangeMin: "0.3125", rangeMax: "6" });
-  await makeCheckout(t.db, mic.id, t.people.mechanic.id);
-  await makeCheckout(t.db, tel.id, t.people.mechanic.id);
-  return { table, job, mic, tel };
-}
+const pinSheet = () => makePinSheet(t.db, t.people.mechanic.id);
 
 const readingsOf = async (jobId: string) => t.db.select().from(readings).where(eq(readings.jobId, jobId));
 const row = (sheet: { items: { key: string; rows: { index: number }[] }[] }, key: string, index = 1) =>

@@ -3,8 +3,7 @@ import zlib from "node:zlib";
 import pg from "pg";
 import { eq } from "drizzle-orm";
 import { createTestApp, type TestApp, type TestAgent } from "../support/test-app";
-import { makeCheckout } from "../support/factories";
-import { makeJob, makeLimitTable, makeToolInCalibration, pinAndBoreItems } from "../support/factories-inspection";
+import { makePinSheet, pinAndBoreItems } from "../support/factories-inspection";
 import { makeReading } from "../support/factories-investigations";
 import { users } from "../../server/db/schema";
 import { buildCheckSheet } from "../../server/modules/jobs/check-sheet.service";
@@ -64,15 +63,7 @@ async function answeredAndKept(a: TestAgent, jobId: string) {
 const row = (sheet: { items: { key: string; rows: { index: number }[] }[] }, key: string, index = 1) =>
   sheet.items.find((i) => i.key === key)!.rows.find((r) => r.index === index)! as any;
 
-async function pinSheet() {
-  const table = await makeLimitTable(t.db, { items: pinAndBoreItems });
-  const job = await makeJob(t.db, table.id, t.people.mechanic.id);
-  const mic = await makeToolInCalibration(t.db, { rangeMin: "1", rangeMax: "2" });
-  const tel = await makeToolInCalibration(t.db, { kind: "telescoping_gauge", rangeMin: "0.3125", rangeMax: "6" });
-  await makeCheckout(t.db, mic.id, t.people.mechanic.id);
-  await makeCheckout(t.db, tel.id, t.people.mechanic.id);
-  return { table, job, mic, tel };
-}
+const pinSheet = () => makePinSheet(t.db, t.people.mechanic.id);
 
 describe("a check sheet kept between requests never shows less than the records hold", () => {
   it("readings, a correction, a renamed mechanic, an edited tool, a revised limits table, a sign-off, and a tool lost then its investigation closed: each shows at the next request", async () => {

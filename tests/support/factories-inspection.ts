@@ -4,7 +4,7 @@ import { calibrationPoints, jobs, setElements } from "../../server/db/schema";
 import { limitTablesService } from "../../server/modules/limit-tables/limit-tables.service";
 import { CreateLimitTableSchema, type CreateLimitTableInput, type LimitItemInput } from "../../shared/limit-tables/limit-tables.schemas";
 import type { ToolKind } from "../../shared/families/families.schemas";
-import { makeCalibration, makeFamily, makeFeelerSet, makeTool } from "./factories";
+import { makeCalibration, makeCheckout, makeFamily, makeFeelerSet, makeTool } from "./factories";
 
 // Factories for the inspection tests: limits tables, tools in calibration, jobs.
 let n = 0;
@@ -86,4 +86,15 @@ export async function makeJob(db: Db, limitTableId: string, openedBy: string, ov
     .values({ limitTableId, engineSerial: `SN-${next()}`, engineModel: "Test flat-four (invented)", openedBy, openedAt: new Date("2026-06-15T14:00:00Z"), ...over })
     .returning();
   return row;
+}
+
+/** A pin-and-bore sheet opened by a mechanic, with a 1–2 in micrometer and a telescoping gauge, both issued to them. */
+export async function makePinSheet(db: Db, mechanicId: string) {
+  const table = await makeLimitTable(db, { items: pinAndBoreItems });
+  const job = await makeJob(db, table.id, mechanicId);
+  const mic = await makeToolInCalibration(db, { rangeMin: "1", rangeMax: "2" });
+  const tel = await makeToolInCalibration(db, { kind: "telescoping_gauge", rangeMin: "0.3125", rangeMax: "6" });
+  await makeCheckout(db, mic.id, mechanicId);
+  await makeCheckout(db, tel.id, mechanicId);
+  return { table, job, mic, tel };
 }
