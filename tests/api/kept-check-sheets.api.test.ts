@@ -2,7 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import zlib from "node:zlib";
 import pg from "pg";
 import { eq } from "drizzle-orm";
-import { createTestApp, type TestApp, type TestAgent } from "../support/test-app";
+import request from "supertest";
+import pino from "pino";
+import { createTestApp, TEST_PASSWORD, type TestApp, type TestAgent } from "../support/test-app";
+import { createApp } from "../../server/app";
 import { makePinSheet, pinAndBoreItems } from "../support/factories-inspection";
 import { makeReading } from "../support/factories-investigations";
 import { users } from "../../server/db/schema";
@@ -189,6 +192,24 @@ describe("a check sheet kept between requests never shows less than the records 
     const changed = await m.raw.get(`/api/jobs/${job.id}`).set("If-None-Match", first.etag!);
     expect(changed.status).toBe(200);
     expect(changed.body.readingCount).toBe(2);
+  });
+
+  it("two app processes on one database: a reading recorded through one shows at once on the sheet the other kept", async () => {
+    const { job, mic } = await pinSheet();
+    // A second app on the same database, with its own kept answers (as a second process behind a load balancer).
+    const other = createApp({ db: t.db, pool: t.pool, config: t.config, clock: t.clock, mailer: t.mailer, storage: t.storage, logger: pino({ level: "silent" }), clientDir: "/nonexistent" });
+    const b = request.agent(other);
+    const token = (await b.get("/api/auth/csrf")).body.token as string;
+    expect((await b.post("/api/auth/login").set("X-CSRF-Token", token).send({ email: t.people.inspector.email, password: TEST_PASSWORD })).status).toBe(200);
+    const before = await b.get(`/api/jobs/${job.id}`);
+    expect(before.body.readingCount).toBe(0);
+    expect((await b.get(`/api/jobs/${job.id}`)).body).toEqual(before.body);
+
+    const m = await t.agent("mechanic");
+    expect((await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] })).status).toBe(201);
+    const after = await b.get(`/api/jobs/${job.id}`);
+    expect(after.body.readingCount).toBe(1);
+    expect(after.body).toEqual(await fresh(job.id));
   });
 
   it("an unknown sheet is 404 and a malformed id 400, kept or not", async () => {

@@ -1,3 +1,4 @@
+import { sql } from "drizzle-orm";
 import { pgTable, uuid, text, integer, date, jsonb, timestamp, index, uniqueIndex } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
@@ -41,6 +42,10 @@ export const reminderLog = pgTable(
     index("reminder_log_recipient_idx").on(t.recipientId),
     index("reminder_log_run_idx").on(t.runId),
     index("reminder_log_status_idx").on(t.status),
+    // The reminders already sent about a tool (the run's plan asks once per candidate tool), off this index alone. With
+    // only the status index, the planner once chose that one on the bench after a run had rewritten the log, walking
+    // every sent reminder for each of 6,191 candidates: 7.8 s for the plan's statement instead of about 65 ms.
+    index("reminder_log_sent_idx").on(t.toolId, t.dueAt, t.stage, t.recipientId).where(sql`status = 'sent'`),
   ],
 );
 

@@ -1,0 +1,1 @@
+CREATE INDEX "reminder_log_sent_idx" ON "reminder_log" USING btree ("tool_id","due_at","stage","recipient_id") WHERE status = 'sent';
