@@ -51,8 +51,9 @@ export const jobActivity = pgTable(
     readings: integer("readings").notNull().default(0),
     lastSignedAt: timestamp("last_signed_at", { withTimezone: true }),
     /**
-     * Moved by every change to what the sheet shows of its own records: a reading, a sign-off, a reading judged under
-     * new rules, a reading named by an investigation, an investigation closed (docs/decisions/020-kept-check-sheets.md).
+     * Moved by every change to what the sheet shows of its own records: a reading or correction, a sign-off, a reading
+     * judged under new rules. (Which readings are suspect is read from the open investigations instead, in the same
+     * stamp: docs/decisions/020-kept-check-sheets.md.)
      */
     sheetVersion: bigint("sheet_version", { mode: "number" }).notNull().default(0),
   },

@@ -69,8 +69,6 @@ export function keptSheets(maxBytes = KEPT_SHEET_BYTES) {
   };
 }
 
-export type KeptSheets = ReturnType<typeof keptSheets>;
-
 /**
  * Sends a sheet's answer: a kept one compressed once (brotli or gzip, as the browser accepts, at the app's settings
  * for answers), then sent as it is to every request that accepts it; a fresh one as JSON for the app's compression. A
