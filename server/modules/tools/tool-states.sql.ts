@@ -22,18 +22,6 @@ export function statusNow(now: Date, ctx: StatusContext): StatusNow {
   return { today: sql`((${now.toISOString()}::timestamptz at time zone ${ctx.timeZone})::date)`, window: ctx.dueSoonDays };
 }
 
-/**
- * What a tool's status is derived from in one row: the tool's own columns a status answer shows (`tool` names the
- * tools table in the statement), its tool_states row `s` whole, whether it has one, and its custodian's name and
- * e-mail (`custodian` names the users table joined on s.custody_user_id). Read by the derivation from such rows.
- */
-export function statusColumns(tool: string, custodian: string): SQL {
-  return sql.raw(
-    `${tool}.id, ${tool}.asset_tag, ${tool}.unit, ${tool}.description, ${tool}.location, ${tool}.owner_type, ${tool}.owner_user_id, ${tool}.owner_name, ` +
-      `s.*, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
-  );
-}
-
 /** The status of the tool_states row `s` on that date. */
 export function statusCase({ today, window }: StatusNow): SQL {
   return sql`(case

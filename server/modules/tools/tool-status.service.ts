@@ -7,7 +7,6 @@ import { executePrepared } from "../../db/prepared";
 import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
-import { statusColumns } from "./tool-states.sql";
 import type { Settings } from "../../../shared/settings/settings.schemas";
 
 export interface StatusContext {
@@ -126,7 +125,7 @@ export async function toolsWithStatusByTags(db: DbOrTx, tags: string[], at: Date
 /** The tools that `where` names (over `tools t`), with the columns their status and a status answer read. */
 function statusSelect(where: SQL, extra?: { columns: SQL; joins: SQL }): SQL {
   return sql`
-    select ${statusColumns("t", "u")}
+    select t.id, t.asset_tag, t.unit, t.description, t.location, t.owner_type, t.owner_user_id, t.owner_name, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
       ${extra?.columns ?? sql``}
     from tools t
     ${extra?.joins ?? sql``}
@@ -142,10 +141,10 @@ async function statusesWhere(db: DbOrTx, where: SQL, at: Date, ctx: StatusContex
 }
 
 /**
- * Each tool's status at `at` from rows with statusColumns (statusSelect's, the register page's): from its tool_states columns when `at` is at or after every
+ * Each tool's status at `at` from statusSelect's rows: from its tool_states columns when `at` is at or after every
  * event the row has read, else gathered from the records as they stood then.
  */
-export async function statusesFromRows(db: DbOrTx, rows: Row[], at: Date, ctx: StatusContext) {
+async function statusesFromRows(db: DbOrTx, rows: Row[], at: Date, ctx: StatusContext) {
   const views = new Map<string, ToolStatusView>();
   const tools = new Map<string, ToolFacts>();
   const atTs = at.toISOString();

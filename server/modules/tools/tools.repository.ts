@@ -7,11 +7,10 @@ import { checkouts } from "../checkouts/checkouts.table";
 import { intermediateChecks } from "../checks/checks.table";
 import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
-import { executePrepared } from "../../db/prepared";
-import { columnsOf } from "../../db/columns";
+import { runPrepared } from "../../db/prepared";
 import { alias } from "drizzle-orm/pg-core";
 import { toolStates } from "./tool-states.table";
-import { statusColumns, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
+import { statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 
 export type ToolRow = typeof tools.$inferSelect;
@@ -61,8 +60,6 @@ const listColumns = { tool: tools, familyName: families.name, kind: families.kin
 /** The state row of each tool (tool_states, alias s) and its custodian (cu), for status filters and sorts. */
 const s = alias(toolStates, "s");
 const cu = alias(users, "cu");
-/** A tool's own columns in a statement written as SQL over the unaliased tools table, as "tool.<name>". */
-const TOOL = columnsOf(tools, "tools", "tool.");
 
 /** Filters on the indexed status (docs/decisions/013). */
 export interface StatusFilters {
@@ -142,7 +139,7 @@ export const toolsRepository = {
   },
 
   /**
-   * The register filtered, sorted and paged in one SQL statement with its count, status read from
+   * The register filtered, sorted and paged in one SQL statement (and a count), status read from
    * tool_states on the shop's date: blanks last either way, ties in asset-tag order. A cursor
    * (the last row's sort value and tag) pages by keyset; otherwise page and size give an offset;
    * no limit at all for the whole view (CSV).
@@ -174,39 +171,36 @@ export const toolsRepository = {
         ? sql`((${value}) is null or (${value}) ${cmp} ${cv} or ((${value}) = ${cv} and ${tools.assetTag} > ${after.tag}))`
         : sql`((${value}) is null and ${tools.assetTag} > ${after.tag})`
       : undefined;
-    // Blanks last either way (asc puts nulls last already, so an index on the value serves it in order).
-    const direction = sql.raw(sort.desc ? "desc nulls last" : "asc");
-    const limit = paging ? sql`limit ${paging.pageSize} offset ${after ? 0 : pageOffset(paging.page, paging.pageSize)}` : sql``;
+    const base = () =>
+      db
+        .select({ ...listColumns, sortValue: sql<string | null>`(${value})::text` })
+        .from(tools)
+        .innerJoin(families, eq(families.id, tools.familyId))
+        .leftJoin(s, eq(s.toolId, tools.id))
+        .leftJoin(cu, eq(cu.id, s.custodyUserId))
+        .where(and(where, keyset))
+        // Blanks last either way (asc puts nulls last already, so an index on the value serves it in order).
+        .orderBy(sort.desc ? sql`(${value}) desc nulls last` : sql`(${value}) asc`, asc(tools.assetTag))
+        .$dynamic();
+    const rowsQ = paging ? base().limit(paging.pageSize).offset(after ? 0 : pageOffset(paging.page, paging.pageSize)) : base();
+    // From the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL drops
+    // the left joins, and a count by status is a count on tool_states' indexes alone.
     // Was the clock set back (a tool with an event after `at`)? Asked with the count: one statement fewer.
-    const setBack = sql`exists (select 1 from tool_states where settled_at > ${at.toISOString()}::timestamptz)`;
-    // The count from the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL
-    // drops the left joins, and a count by status is a count on tool_states' indexes alone.
-    const counted = paging
-      ? sql`select count(*)::int as total, ${setBack} as clock_set_back from tool_states s left join ${tools} on ${tools.id} = ${s.toolId}
-          left join ${families} on ${families.id} = ${tools.familyId} where ${where ?? sql`true`}`
-      : sql`select -1 as total, ${setBack} as clock_set_back`;
-    // The page, each tool with the columns its status is derived from (statusColumns): no second statement for them.
-    const page = sql`
-      select ${statusColumns("tools", "cu")}, ${TOOL.list}, ${families.name} as family_name, ${families.kind} as family_kind, (${value})::text as sort_value
-      from ${tools} join ${families} on ${families.id} = ${tools.familyId}
-        left join tool_states s on ${s.toolId} = ${tools.id} left join users cu on ${cu.id} = ${s.custodyUserId}
-      where ${and(where, keyset) ?? sql`true`}
-      order by (${value}) ${sql.raw(sort.desc ? "desc nulls last" : "asc")}, ${tools.assetTag} asc
-      ${paging ? sql`limit ${paging.pageSize} offset ${after ? 0 : pageOffset(paging.page, paging.pageSize)}` : sql``}`;
+    const setBack = sql<boolean>`exists (select 1 from tool_states where settled_at > ${at.toISOString()}::timestamptz)`;
+    const countQ = db
+      .select({ total: count(), clockSetBack: setBack })
+      .from(s)
+      .leftJoin(tools, eq(tools.id, s.toolId))
+      .leftJoin(families, eq(families.id, tools.familyId))
+      .where(where);
     // Named prepared statements (planned once per connection), except with free text: how many tools a search
-    // matches decides between the trigram index and a scan, so that plan is made for each search. The two run side
-    // by side on two connections.
-    const run = (q: SQL) => (f.q ? db.execute(q) : executePrepared(db, q));
-    const [pageRes, countRes] = await Promise.all([run(page), run(counted)]);
-    const found = pageRes.rows as Record<string, unknown>[];
-    const c = countRes.rows[0] as { total: number; clock_set_back: boolean };
-    return {
-      rows: found.map((r) => ({ tool: TOOL.read(r), familyName: String(r.family_name), kind: r.family_kind as ToolListRow["kind"], sortValue: (r.sort_value as string | null) ?? null })),
-      /** The same rows with the columns statusesFromRows derives each tool's status from. */
-      statusRows: found,
-      total: paging ? Number(c.total) : found.length,
-      clockSetBack: Boolean(c.clock_set_back),
-    };
+    // matches decides between the trigram index and a scan, so that plan is made for each search.
+    const run = <T>(qb: { prepare(name: string): unknown; execute(): Promise<T> }) => (f.q ? qb.execute() : runPrepared<T>(qb));
+    const [rows, [{ total, clockSetBack }]] = await Promise.all([
+      run<Awaited<typeof rowsQ>>(rowsQ),
+      run<{ total: number; clockSetBack: boolean }[]>(paging ? countQ : db.select({ total: sql<number>`-1`, clockSetBack: setBack }).from(sql`(select 1) one`)),
+    ]);
+    return { rows: rows as (ToolListRow & { sortValue: string | null })[], total: paging ? total : rows.length, clockSetBack: Boolean(clockSetBack) };
   },
 
   /** Distinct non-blank locations, sorted case-insensitively (tools_location_idx). */

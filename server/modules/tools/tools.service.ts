@@ -1,6 +1,6 @@
 import Papa from "papaparse";
 import { toolsRepository, cursorCodec, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
-import { gatherStatusesAt, statusByTag, statusContext, statusesFromRows, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
+import { gatherStatusesAt, statusByTag, statusContext, statusesFor, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
 import { statusNow } from "./tool-states.sql";
 import { changeLifecycle, lockTool, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
 import { recordAudit } from "../audit/audit.repository";
@@ -169,10 +169,9 @@ export function toolsService(deps: RegisterDeps) {
   }
 
   /**
-   * The register, filtered, sorted and paged on the server: one SQL statement, the count beside the page, with the
+   * The register, filtered, sorted and paged on the server: one SQL statement and a count, with the
    * status read from tool_states on the shop's date (docs/decisions/013), so "overdue, by due date,
-   * page 50" is an index scan; the page's statuses and reasons then come from the one derivation, fed
-   * from the same rows.
+   * page 50" is an index scan; the page's statuses and reasons then come from the one derivation.
    * ?after= pages by keyset. When some tool has a record dated after now (a clock set back), the
    * statuses of the candidates are derived in full instead (listDerived).
    */
@@ -187,7 +186,7 @@ export function toolsService(deps: RegisterDeps) {
     if (after === null) throw new AppError("bad_cursor", 400, "This page link is not from this list; start again from the first page.");
     // Whether the clock was set back is asked with the page's count (it is rare): the page read for nothing then, a
     // statement saved every other time.
-    const { rows, statusRows, total, clockSetBack } = await toolsRepository.registerPage(
+    const { rows, total, clockSetBack } = await toolsRepository.registerPage(
       db,
       {
         ...query,
@@ -202,7 +201,7 @@ export function toolsService(deps: RegisterDeps) {
       opts.all ? null : { page: query.page, pageSize: query.pageSize, after },
     );
     if (clockSetBack) return listDerived(query, now, c, opts);
-    const { views } = await statusesFromRows(db, statusRows, now, c);
+    const views = await statusesFor(db, rows.map((r) => r.tool.id), now, c);
     const items = rows.map((r) => toToolSummary(r, views.get(r.tool.id)!));
     const last = rows.at(-1);
     const nextCursor = !opts.all && last && rows.length === query.pageSize ? cursorCodec.encode(last.sortValue, last.tool.assetTag) : null;
