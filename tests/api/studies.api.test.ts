@@ -267,6 +267,11 @@ describe("what a finished study changes elsewhere", () => {
     const res = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "dev", values: [0.12, 0.14], toolAssetTags: [tool.assetTag] });
     expect(res.status).toBe(201);
     expect(res.body.flags).toContain("gauge_study_not_acceptable");
+    // Named beside a tool of another family, the indicator still brings the flag with it.
+    const second = await makeJob(t.db, world.table.id, t.people.mechanic.id);
+    const both = await m.post(`/api/jobs/${second.id}/readings`, { itemKey: "dev", values: [0.12, 0.14], toolAssetTags: [world.otherFamilyTool.assetTag, tool.assetTag] });
+    expect(both.status, JSON.stringify(both.body)).toBe(201);
+    expect(both.body.flags).toContain("gauge_study_not_acceptable");
     // A characteristic without a failed study carries no such flag.
     const other = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", values: [22.215, 22.22], toolAssetTags: [world.otherFamilyTool.assetTag] });
     expect(other.status).toBe(201);

@@ -2,7 +2,7 @@ import { and, asc, eq, inArray, isNull, sql, type SQL, type SQLWrapper } from "d
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { columnsOf, insertRows } from "../../db/columns";
-import { pgArray } from "../../db/values";
+import { inList } from "../../db/values";
 import { executePrepared } from "../../db/prepared";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { setElements } from "../tools/tools.table";
@@ -88,7 +88,7 @@ export const readingsRepository = {
         partnerKeys.length
           ? sql`, partner.* from (select 1) one left join lateral (
               select distinct on (r.item_key) ${READING.list} from readings r
-              where r.job_id = ${p.jobId} and r.index = ${p.index} and r.item_key = any(${pgArray(partnerKeys)}::text[])
+              where r.job_id = ${p.jobId} and r.index = ${p.index} and ${inList(sql`r.item_key`, partnerKeys, "text")}
                 and not exists (select 1 from readings s where s.supersedes_id = r.id)
               order by r.item_key, r.taken_at desc) partner on true`
           : sql``

@@ -1,5 +1,5 @@
 import { asc, eq, inArray, sql, type SQL } from "drizzle-orm";
-import { pgArray } from "../../db/values";
+import { inList, pgArray } from "../../db/values";
 import type { DbOrTx } from "../../db/client";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
@@ -293,7 +293,7 @@ export const studiesRepository = {
    */
   notAcceptableLatest: (filter: { limitTableId: string; itemKey: string; familyIds: string[] }): SQL =>
     filter.familyIds.length
-      ? sql`exists (select 1 from (${latestSelect(sql`s.family_id = any(${pgArray(filter.familyIds)}::uuid[]) and s.table_root_id = (${rootOf(filter.limitTableId)}) and s.item_key = ${filter.itemKey}`)}) l where l.verdict = 'not_acceptable')`
+      ? sql`exists (select 1 from (${latestSelect(sql`${inList(sql`s.family_id`, filter.familyIds, "uuid")} and s.table_root_id = (${rootOf(filter.limitTableId)}) and s.item_key = ${filter.itemKey}`)}) l where l.verdict = 'not_acceptable')`
       : sql`false`,
 
   /** Latest finished studies for one family, or for every characteristic of one table's lineage. */

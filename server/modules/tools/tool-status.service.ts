@@ -1,7 +1,7 @@
 import { sql, type SQL } from "drizzle-orm";
 import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
-import { isoInstant, pgArray } from "../../db/values";
+import { inList, isoInstant, pgArray } from "../../db/values";
 import { columnsOf } from "../../db/columns";
 import { executePrepared } from "../../db/prepared";
 import { tools as toolsTable } from "./tools.table";
@@ -99,7 +99,7 @@ export type ToolWithStatus = { tool: ToolRow; kind: string; status: ToolStatusVi
  * toolsWithStatusFromRows. Every column it names is the tool's or its status's (none is `job.…`).
  */
 export function toolsByTagsSelect(tags: string[]): SQL {
-  return statusSelect(sql`t.asset_tag = any(${pgArray(tags)}::text[])`, {
+  return statusSelect(inList(sql`t.asset_tag`, tags, "text"), {
     columns: sql`, ${TOOL.list}, f.kind as family_kind`,
     joins: sql`join families f on f.id = t.family_id`,
   });
