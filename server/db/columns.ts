@@ -11,15 +11,28 @@ import { getTableColumns, sql, SQL, type Column, type InferInsertModel, type Inf
  * `alias` is how the statement names the table; each column comes back as `prefix` + its TypeScript name.
  */
 export function columnsOf<T extends Table>(table: T, alias: string, prefix = "") {
-  const cols = Object.entries(getTableColumns(table)) as [string, Column][];
+  return columnsPicked(table, Object.keys(getTableColumns(table)) as (keyof InferSelectModel<T> & string)[], alias, prefix);
+}
+
+/**
+ * As `columnsOf`, for some of a table's columns only (by TypeScript name): a page that shows a few fields of each
+ * joined row reads and maps only those (every column of four tables for 50 rows cost more to parse than the
+ * statement to run).
+ */
+export function columnsPicked<T extends Table, K extends keyof InferSelectModel<T> & string>(table: T, keys: readonly K[], alias: string, prefix = "") {
+  const all = getTableColumns(table) as Record<string, Column>;
+  const cols = keys.map((k) => {
+    if (!all[k]) throw new Error(`columnsPicked: ${k} is not a column`);
+    return [k, all[k]] as const;
+  });
   const list = sql.raw(cols.map(([key, col]) => `${alias}."${col.name}" as "${prefix}${key}"`).join(", "));
-  const read = (row: Record<string, unknown>): InferSelectModel<T> => {
+  const read = (row: Record<string, unknown>): Pick<InferSelectModel<T>, K> => {
     const out: Record<string, unknown> = {};
     for (const [key, col] of cols) {
       const v = row[prefix + key];
       out[key] = v == null ? null : col.mapFromDriverValue(v);
     }
-    return out as InferSelectModel<T>;
+    return out as Pick<InferSelectModel<T>, K>;
   };
   return { list, read };
 }

@@ -20,7 +20,9 @@ import {
 } from "../../db/schema";
 import { dispositions, investigationItems, investigations } from "./investigations.table";
 import { pageOffset } from "../../db/paging";
-import { anyId } from "../../db/values";
+import { anyId, pgArray } from "../../db/values";
+import { columnsOf, columnsPicked } from "../../db/columns";
+import { executePrepared } from "../../db/prepared";
 
 export type InvestigationRow = typeof investigations.$inferSelect;
 export type InvestigationItemRow = typeof investigationItems.$inferSelect;
@@ -282,8 +284,13 @@ export async function lockInvestigation(tx: DbOrTx, id: string) {
   return row ?? null;
 }
 
-export async function findInvestigation(tx: DbOrTx, id: string) {
-  return (await tx.select().from(investigations).where(eq(investigations.id, id)))[0] ?? null;
+/** Every column of an investigation, for the statement the pages of its items ask beside the page. */
+const INVESTIGATION = columnsOf(investigations, "investigations");
+
+/** An investigation by id (a named prepared statement: every page of its items asks it). */
+export async function findInvestigation(tx: DbOrTx, id: string): Promise<InvestigationRow | null> {
+  const res = await executePrepared(tx, sql`select ${INVESTIGATION.list} from investigations where investigations.id = ${id}`);
+  return res.rows[0] ? INVESTIGATION.read(res.rows[0]) : null;
 }
 
 export async function updateInvestigation(tx: DbOrTx, id: string, set: Partial<typeof investigations.$inferInsert>) {
@@ -482,18 +489,7 @@ export async function itemPage(tx: DbOrTx, investigationId: string, f: ItemFilte
     if (col) order.push(desc ? sql`${col} desc nulls last` : sql`${col} asc nulls first`);
   }
   order.push(...DEFAULT_ORDER);
-  if (!f.q && !(f.sort && JOINED_SORTS.has(f.sort.replace(/^-/, "")))) {
-    // Filtered and sorted on the items' own columns: the page comes off investigation_items_page_idx, then what it
-    // shows of each item is read by id (a handful of small queries instead of one seven-table join to plan).
-    const items = await tx
-      .select()
-      .from(investigationItems)
-      .where(itemConditions(investigationId, f))
-      .orderBy(...order)
-      .limit(f.pageSize)
-      .offset(pageOffset(f.page, f.pageSize));
-    return withDetails(tx, items);
-  }
+  if (!f.q && !(f.sort && JOINED_SORTS.has(f.sort.replace(/^-/, "")))) return pageOffIndex(tx, investigationId, f, order);
   const rows = (await itemsFrom(tx, {
     item: investigationItems,
     toolAssetTag: tools.assetTag,
@@ -518,54 +514,58 @@ export async function itemPage(tx: DbOrTx, investigationId: string, f: ItemFilte
   return rows;
 }
 
+/** The columns of each table a page of items shows, under their TypeScript names with a prefix per table. */
+const PAGE = {
+  item: columnsOf(investigationItems, "investigation_items", "i."),
+  reading: columnsPicked(readings, ["id", "jobId", "itemKey", "index", "unit", "values", "size", "verdict", "takenAt", "takenBy", "overrideReason"], "r", "r."),
+  job: columnsPicked(jobs, ["id", "limitTableId", "engineSerial", "engineModel", "workOrder"], "j", "j."),
+  calibration: columnsPicked(calibrations, ["id", "result", "performedAt", "performedByName"], "c", "c."),
+};
+
+/**
+ * A page filtered and sorted on the items' own columns, in one statement: the page comes off
+ * investigation_items_page_idx (the inner select, with its limit), then each of its items is joined by key to what it
+ * shows (reading, sheet, place label, taker, tool tag, calibration). A named prepared statement, so the seven-table
+ * join is planned once per connection, not at every page: one text per filter and sort, with the page's size in the
+ * text and the first page without an offset, which lets PostgreSQL keep one generic plan (with `limit $n` or
+ * `offset $n` it cannot tell how many rows the plan feeds, judges a generic plan dearer, and plans the join afresh at
+ * every call: 1.5–2 ms). Later pages send their offset as a parameter and are planned each time. Where it read the
+ * page, then what it names in three more rounds, a page now costs one round trip.
+ */
+async function pageOffIndex(tx: DbOrTx, investigationId: string, f: ItemFilter & { page: number; pageSize: number }, order: SQL[]) {
+  if (!Number.isInteger(f.pageSize) || f.pageSize < 1 || f.pageSize > 500) throw new Error(`affected items: page size ${f.pageSize} out of bounds`);
+  const offset = pageOffset(f.page, f.pageSize);
+  const orderBy = sql.join(order, sql`, `);
+  const res = await executePrepared(
+    tx,
+    sql`
+    select ${PAGE.item.list}, ${PAGE.reading.list}, ${PAGE.job.list}, ${PAGE.calibration.list},
+      t.asset_tag as "toolAssetTag", li.label as "itemLabel", taker.name as "takenByName"
+    from (
+      select * from investigation_items where ${itemConditions(investigationId, f)}
+      order by ${orderBy} limit ${sql.raw(String(f.pageSize))}${offset ? sql` offset ${offset}` : sql``}
+    ) investigation_items
+    left join tools t on t.id = investigation_items.tool_id
+    left join readings r on r.id = investigation_items.reading_id
+    left join jobs j on j.id = r.job_id
+    left join limit_items li on li.limit_table_id = j.limit_table_id and li.key = r.item_key
+    left join users taker on taker.id = r.taken_by
+    left join calibrations c on c.id = investigation_items.calibration_id
+    order by ${orderBy}`,
+  );
+  return res.rows.map((row) => ({
+    item: PAGE.item.read(row),
+    toolAssetTag: (row.toolAssetTag as string | null) ?? null,
+    reading: row["r.id"] == null ? null : PAGE.reading.read(row),
+    job: row["j.id"] == null ? null : PAGE.job.read(row),
+    itemLabel: (row.itemLabel as string | null) ?? null,
+    takenByName: (row.takenByName as string | null) ?? null,
+    calibration: row["c.id"] == null ? null : PAGE.calibration.read(row),
+  }));
+}
+
 /** The sorts that read a joined table (the place's label, the tool's tag). */
 const JOINED_SORTS = new Set(["item", "tool"]);
-
-const byIds = <T extends { id: string }>(rows: T[]) => new Map(rows.map((r) => [r.id, r]));
-const distinct = (xs: (string | null | undefined)[]) => [...new Set(xs.filter((x): x is string => !!x))];
-
-/** A page of items with their reading, sheet, place label, taker, tool tag and calibration, each read by id. */
-async function withDetails(tx: DbOrTx, items: InvestigationItemRow[]) {
-  // Three rounds, each asking side by side what it can (on the pool, each on its own connection; inside a
-  // transaction they queue on its one connection): what the items name, then what their readings name, then labels.
-  const toolIds = distinct(items.map((i) => i.toolId));
-  const [rsRows, csRows, toolRows] = await Promise.all([
-    selectIn(tx, readings, readings.id, distinct(items.map((i) => i.readingId))),
-    selectIn(tx, calibrations, calibrations.id, distinct(items.map((i) => i.calibrationId))),
-    toolIds.length ? tx.select({ id: tools.id, assetTag: tools.assetTag }).from(tools).where(inArray(tools.id, toolIds)) : [],
-  ]);
-  const rs = byIds(rsRows);
-  const cs = byIds(csRows);
-  const tags = new Map(toolRows.map((t) => [t.id, t.assetTag]));
-  const takerIds = distinct([...rs.values()].map((r) => r.takenBy));
-  const [jsRows, takerRows] = await Promise.all([
-    selectIn(tx, jobs, jobs.id, distinct([...rs.values()].map((r) => r.jobId))),
-    takerIds.length ? tx.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, takerIds)) : [],
-  ]);
-  const js = byIds(jsRows);
-  const takers = new Map(takerRows.map((u) => [u.id, u.name]));
-  const tableIds = distinct([...js.values()].map((j) => j.limitTableId));
-  const labels = new Map(
-    (tableIds.length ? await tx.select({ t: limitItems.limitTableId, key: limitItems.key, label: limitItems.label }).from(limitItems).where(inArray(limitItems.limitTableId, tableIds)) : []).map((l) => [`${l.t}:${l.key}`, l.label]),
-  );
-  return items.map((item) => {
-    const reading = item.readingId ? (rs.get(item.readingId) ?? null) : null;
-    const job = reading ? (js.get(reading.jobId) ?? null) : null;
-    return {
-      item,
-      toolAssetTag: item.toolId ? (tags.get(item.toolId) ?? null) : null,
-      reading,
-      job,
-      itemLabel: reading && job ? (labels.get(`${job.limitTableId}:${reading.itemKey}`) ?? null) : null,
-      takenByName: reading?.takenBy ? (takers.get(reading.takenBy) ?? null) : null,
-      calibration: item.calibrationId ? (cs.get(item.calibrationId) ?? null) : null,
-    };
-  });
-}
-
-async function selectIn<T extends typeof readings | typeof jobs | typeof calibrations>(tx: DbOrTx, table: T, id: T["id"], ids: string[]): Promise<T["$inferSelect"][]> {
-  return ids.length ? ((await tx.select().from(table as never).where(inArray(id, ids))) as T["$inferSelect"][]) : [];
-}
 
 /** Counts over an investigation's items (or those a filter keeps): could change or hold, by recorded verdict, undisposed. */
 type FixedTotals = { items: number; readings: number; calibrations: number; couldChange: number; within: number; outside: number; pending: number };
@@ -597,12 +597,14 @@ export async function itemTotals(tx: DbOrTx, investigationId: string, f: ItemFil
   }
   // Counted from the dispositions' side (their own index by investigation): an investigation of thousands of items
   // with few dispositions yet costs those few rows, not a probe per item.
-  const [{ disposed }] = (await tx
-    .select({ disposed: sql<number>`count(distinct ${dispositions.investigationItemId})::int` })
-    .from(dispositions)
-    .innerJoin(investigationItems, eq(investigationItems.id, dispositions.investigationItemId))
-    .where(and(eq(dispositions.investigationId, investigationId), itemConditions(investigationId, f)))) as { disposed: number }[];
-  return totalsView(fixed, fixed.items - disposed);
+  // A named prepared statement (one text per filter), as the page it is asked beside.
+  const res = await executePrepared(
+    tx,
+    sql`select count(distinct d.investigation_item_id)::int as disposed
+      from dispositions d join investigation_items on investigation_items.id = d.investigation_item_id
+      where d.investigation_id = ${investigationId} and ${itemConditions(investigationId, f)}`,
+  );
+  return totalsView(fixed, fixed.items - Number(res.rows[0].disposed));
 }
 
 const fixedCounts = {
@@ -659,12 +661,13 @@ export async function itemJobs(tx: DbOrTx, investigationId: string) {
  */
 export async function dispositionsOfItems(tx: DbOrTx, itemIds: string[]) {
   if (itemIds.length === 0) return [];
-  const rows = await tx
-    .select({ d: dispositions, byName: users.name })
-    .from(dispositions)
-    .innerJoin(users, eq(users.id, dispositions.decidedBy))
-    .where(inArray(dispositions.investigationItemId, itemIds))
-    .orderBy(asc(dispositions.decidedAt), asc(dispositions.id));
+  // The items as one array parameter, in a named prepared statement: a page of items asks it every time.
+  const res = await executePrepared(
+    tx,
+    sql`select ${DISPOSITION.list}, u.name as "byName" from dispositions d join users u on u.id = d.decided_by
+      where d.investigation_item_id = any(${pgArray(itemIds)}::uuid[]) order by d.decided_at, d.id`,
+  );
+  const rows = res.rows.map((r) => ({ d: DISPOSITION.read(r), byName: String(r.byName) }));
   const byId = new Map(rows.map((r) => [r.d.id, r.d]));
   const depth = (d: typeof dispositions.$inferSelect): number => {
     let n = 0;
@@ -674,6 +677,8 @@ export async function dispositionsOfItems(tx: DbOrTx, itemIds: string[]) {
   const depths = new Map(rows.map((r) => [r.d.id, depth(r.d)]));
   return rows.sort((a, b) => a.d.decidedAt.getTime() - b.d.decidedAt.getTime() || depths.get(a.d.id)! - depths.get(b.d.id)!);
 }
+
+const DISPOSITION = columnsOf(dispositions, "d", "d.");
 
 /** The disposition in force for each of some items (none superseding it), by item. */
 export async function currentDispositions(tx: DbOrTx, itemIds: string[]) {
