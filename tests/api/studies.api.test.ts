@@ -7,7 +7,7 @@ import { roleMatrix } from "../support/role-matrix";
 import { makeCheckout } from "../support/factories";
 import { makeJob } from "../support/factories-inspection";
 import { AIAG_DATA, agentFor, makeMechanics, makeStudyWorld, takeWholeStudy, type StudyAgent } from "../support/factories-studies";
-import { gaugeStudies, gaugeStudyResults, gaugeStudyValues } from "../../server/db/schema";
+import { auditEvents, gaugeStudies, gaugeStudyResults, gaugeStudyValues } from "../../server/db/schema";
 
 let t: TestApp;
 let world: Awaited<ReturnType<typeof makeStudyWorld>>;
@@ -267,6 +267,11 @@ describe("what a finished study changes elsewhere", () => {
     const res = await m.post(`/api/jobs/${job.id}/readings`, { itemKey: "dev", values: [0.12, 0.14], toolAssetTags: [tool.assetTag] });
     expect(res.status).toBe(201);
     expect(res.body.flags).toContain("gauge_study_not_acceptable");
+    // Kept with the reading on the sheet and in its audit line, not only in the answer.
+    const kept = (await m.get(`/api/jobs/${job.id}`)).body.items.find((i: { key: string }) => i.key === "dev").rows[0].reading;
+    expect(kept.flags).toContain("gauge_study_not_acceptable");
+    const [line] = await t.db.select().from(auditEvents).where(eq(auditEvents.entityId, res.body.id));
+    expect((line.after as { flags: string[] }).flags).toEqual(res.body.flags);
     // Named beside a tool of another family, the indicator still brings the flag with it.
     const second = await makeJob(t.db, world.table.id, t.people.mechanic.id);
     const both = await m.post(`/api/jobs/${second.id}/readings`, { itemKey: "dev", values: [0.12, 0.14], toolAssetTags: [world.otherFamilyTool.assetTag, tool.assetTag] });
