@@ -146,6 +146,39 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(after.body.readingCount).toBe(3);
   });
 
+  it("a page of the register is two statements side by side, whatever the page holds: the page with each tool's status, and the count", async () => {
+    // Overdue tools (due date before 2026-06-15, the test's today) and tools in calibration.
+    for (let i = 0; i < 6; i++) {
+      const tool = await makeTool(t.db, { assetTag: `RC-3${String(i).padStart(3, "0")}` });
+      await makeCalibration(t.db, tool.id, { performedAt: new Date("2025-05-01T15:00:00Z"), nextDueAt: `2026-05-${String(10 + i).padStart(2, "0")}` });
+    }
+    for (let i = 0; i < 4; i++) {
+      const tool = await makeTool(t.db, { assetTag: `RC-4${String(i).padStart(3, "0")}` });
+      await makeCalibration(t.db, tool.id, { performedAt: new Date("2026-03-01T15:00:00Z"), nextDueAt: "2027-03-01" });
+    }
+    const q = await t.agent("quality");
+    const path = "/api/tools?status=overdue&sort=dueAt&pageSize=4";
+    await q.get(path);
+    let page: { items: { assetTag: string; status: string; dueAt: string; usable: boolean }[]; total: number } | undefined;
+    const sent = await statementsOf(async () => {
+      const res = await q.get(path);
+      expect(res.status).toBe(200);
+      page = res.body;
+    });
+    // Overdue first by due date, each with its status and why it may not be used: the four most overdue of six.
+    expect(page!.total).toBe(6);
+    expect(page!.items.map((x) => [x.assetTag, x.status, x.dueAt, x.usable])).toEqual([
+      ["RC-3000", "overdue", "2026-05-10", false],
+      ["RC-3001", "overdue", "2026-05-11", false],
+      ["RC-3002", "overdue", "2026-05-12", false],
+      ["RC-3003", "overdue", "2026-05-13", false],
+    ]);
+    expect(sent, sent.map((x) => x.slice(0, 160)).join("\n")).toHaveLength(2);
+    expect(sent.filter((x) => /tool_states/.test(x))).toHaveLength(2);
+    // Both by name: planned once per connection.
+    expect(names.every((n) => /^tw_[0-9a-f]{24}$/.test(n))).toBe(true);
+  });
+
   it("a change of role takes effect on the person's next request; deactivating someone signs them out at once", async () => {
     const tool = await makeTool(t.db, { assetTag: "RC-0002" });
     await makeCalibration(t.db, tool.id, { performedAt: new Date("2026-03-01T15:00:00Z"), nextDueAt: "2027-03-01" });

@@ -122,10 +122,29 @@ export async function toolsWithStatusByTags(db: DbOrTx, tags: string[], at: Date
   return toolsWithStatusFromRows(db, res.rows as Row[], at, ctx);
 }
 
+/**
+ * The columns statusesFromRows reads (and a status answer shows), for a statement over `tools` named `tool`, its
+ * `tool_states s` and the custodian `users` named `custodian`, both outer-joined.
+ */
+export function statusColumns(tool: string, custodian: string): SQL {
+  return sql.raw(
+    `${tool}.id, ${tool}.asset_tag, ${tool}.unit, ${tool}.description, ${tool}.location, ${tool}.owner_type, ${tool}.owner_user_id, ${tool}.owner_name, ` +
+      `s.*, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
+  );
+}
+
+/**
+ * Each tool's status at `at` from rows that carry statusColumns (the register's page reads them with the page): from
+ * the row's tool_states columns, or from the records as they stood at `at` when that is before the row's last event.
+ */
+export async function statusesOfRows(db: DbOrTx, rows: Row[], at: Date, ctx: StatusContext): Promise<Map<string, ToolStatusView>> {
+  return (await statusesFromRows(db, rows, at, ctx)).views;
+}
+
 /** The tools that `where` names (over `tools t`), with the columns their status and a status answer read. */
 function statusSelect(where: SQL, extra?: { columns: SQL; joins: SQL }): SQL {
   return sql`
-    select t.id, t.asset_tag, t.unit, t.description, t.location, t.owner_type, t.owner_user_id, t.owner_name, s.*, s.tool_id is not null as has_state, u.name as custody_name, u.email as custody_email
+    select ${statusColumns("t", "u")}
       ${extra?.columns ?? sql``}
     from tools t
     ${extra?.joins ?? sql``}

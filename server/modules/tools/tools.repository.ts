@@ -7,9 +7,9 @@ import { checkouts } from "../checkouts/checkouts.table";
 import { intermediateChecks } from "../checks/checks.table";
 import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
-import { runPrepared } from "../../db/prepared";
-import { alias } from "drizzle-orm/pg-core";
-import { toolStates } from "./tool-states.table";
+import { executePrepared } from "../../db/prepared";
+import { columnsOf } from "../../db/columns";
+import { statusColumns } from "./tool-status.service";
 import { statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 
@@ -57,9 +57,9 @@ function orderOf(sort: { key: SqlSortKey; desc: boolean }) {
 
 const listColumns = { tool: tools, familyName: families.name, kind: families.kind };
 
-/** The state row of each tool (tool_states, alias s) and its custodian (cu), for status filters and sorts. */
-const s = alias(toolStates, "s");
-const cu = alias(users, "cu");
+/** A tool's own columns in a statement written as SQL over `tools`, each as `tool.<name>`, and their reader. */
+const TOOL = columnsOf(tools, "tools", "tool.");
+
 
 /** Filters on the indexed status (docs/decisions/013). */
 export interface StatusFilters {
@@ -151,10 +151,12 @@ export const toolsRepository = {
   },
 
   /**
-   * The register filtered, sorted and paged in one SQL statement (and a count), status read from
-   * tool_states on the shop's date: blanks last either way, ties in asset-tag order. A cursor
-   * (the last row's sort value and tag) pages by keyset; otherwise page and size give an offset;
-   * no limit at all for the whole view (CSV).
+   * The register filtered, sorted and paged in one SQL statement (and a count), status read from tool_states on the
+   * shop's date: blanks last either way, ties in asset-tag order. A cursor (the last row's sort value and tag) pages by
+   * keyset; otherwise page and size give an offset; no limit at all for the whole view (CSV). Each row carries the
+   * columns its status is derived from (statusColumns), read with the page: no second statement for the statuses.
+   * Written as SQL, not with the query builder, whose building cost more of the process's thread than the page costs
+   * the database (docs/decisions/022).
    */
   async registerPage(
     db: DbOrTx,
@@ -166,53 +168,62 @@ export const toolsRepository = {
   ) {
     const { value, type } = sortOf(sort.key, now);
     const today = now.today;
-    const where = and(
-      whereOf(f),
-      f.statuses ? statusIn(f.statuses, now) : undefined,
-      f.dueWithin
-        ? and(statusIn(f.dueWithin.stillIn, now), sql`s.cal_next_due >= ${today} and s.cal_next_due <= ${today} + ${f.dueWithin.days}::int`)
-        : undefined,
-      f.dueFrom ? sql`s.cal_next_due >= ${f.dueFrom}::date` : undefined,
-      f.dueTo ? sql`s.cal_next_due <= ${f.dueTo}::date` : undefined,
-    );
+    const where =
+      and(
+        whereOf(f),
+        f.statuses ? statusIn(f.statuses, now) : undefined,
+        f.dueWithin
+          ? and(statusIn(f.dueWithin.stillIn, now), sql`s.cal_next_due >= ${today} and s.cal_next_due <= ${today} + ${f.dueWithin.days}::int`)
+          : undefined,
+        f.dueFrom ? sql`s.cal_next_due >= ${f.dueFrom}::date` : undefined,
+        f.dueTo ? sql`s.cal_next_due <= ${f.dueTo}::date` : undefined,
+      ) ?? sql`true`;
     const after = paging?.after;
     const cmp = sort.desc ? sql`<` : sql`>`;
     const cv = after?.v == null ? null : sql`${after.v}::${sql.raw(type)}`;
     const keyset = after
       ? cv
-        ? sql`((${value}) is null or (${value}) ${cmp} ${cv} or ((${value}) = ${cv} and ${tools.assetTag} > ${after.tag}))`
-        : sql`((${value}) is null and ${tools.assetTag} > ${after.tag})`
-      : undefined;
-    const base = () =>
-      db
-        .select({ ...listColumns, sortValue: sql<string | null>`(${value})::text` })
-        .from(tools)
-        .innerJoin(families, eq(families.id, tools.familyId))
-        .leftJoin(s, eq(s.toolId, tools.id))
-        .leftJoin(cu, eq(cu.id, s.custodyUserId))
-        .where(and(where, keyset))
-        // Blanks last either way (asc puts nulls last already, so an index on the value serves it in order).
-        .orderBy(sort.desc ? sql`(${value}) desc nulls last` : sql`(${value}) asc`, asc(tools.assetTag))
-        .$dynamic();
-    const rowsQ = paging ? base().limit(literalLimit(paging.pageSize)).offset(after ? 0 : pageOffset(paging.page, paging.pageSize)) : base();
+        ? sql` and ((${value}) is null or (${value}) ${cmp} ${cv} or ((${value}) = ${cv} and ${tools.assetTag} > ${after.tag}))`
+        : sql` and ((${value}) is null and ${tools.assetTag} > ${after.tag})`
+      : sql``;
+    const skip = paging && !after ? pageOffset(paging.page, paging.pageSize) : 0;
+    // The size in the text (one plan kept, literalLimit); the offset only past the first page.
+    const limit = paging ? sql` limit ${literalLimit(paging.pageSize)}${skip > 0 ? sql` offset ${skip}` : sql``}` : sql``;
+    // Blanks last either way (asc puts nulls last already, so an index on the value serves it in order).
+    const order = sort.desc ? sql`(${value}) desc nulls last` : sql`(${value}) asc`;
+    const pageQ = sql`select ${TOOL.list}, ${statusColumns("tools", "cu")}, families.name as family_name, families.kind as family_kind,
+        (${value})::text as sort_value
+      from tools
+      join families on families.id = tools.family_id
+      left join tool_states s on s.tool_id = tools.id
+      left join users cu on cu.id = s.custody_user_id
+      where ${where}${keyset}
+      order by ${order}, tools.asset_tag asc${limit}`;
     // From the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL drops
     // the left joins, and a count by status is a count on tool_states' indexes alone.
     // Was the clock set back (a tool with an event after `at`)? Asked with the count: one statement fewer.
-    const setBack = sql<boolean>`exists (select 1 from tool_states where settled_at > ${at.toISOString()}::timestamptz)`;
-    const countQ = db
-      .select({ total: count(), clockSetBack: setBack })
-      .from(s)
-      .leftJoin(tools, eq(tools.id, s.toolId))
-      .leftJoin(families, eq(families.id, tools.familyId))
-      .where(where);
+    const setBack = sql`exists (select 1 from tool_states where settled_at > ${at.toISOString()}::timestamptz)`;
+    const countQ = paging
+      ? sql`select count(*)::int as total, ${setBack} as clock_set_back
+          from tool_states s
+          left join tools on tools.id = s.tool_id
+          left join families on families.id = tools.family_id
+          where ${where}`
+      : sql`select -1 as total, ${setBack} as clock_set_back`;
     // Named prepared statements (planned once per connection), except with free text: how many tools a search
     // matches decides between the trigram index and a scan, so that plan is made for each search.
-    const run = <T>(qb: { prepare(name: string): unknown; execute(): Promise<T> }) => (f.q ? qb.execute() : runPrepared<T>(qb));
-    const [rows, [{ total, clockSetBack }]] = await Promise.all([
-      run<Awaited<typeof rowsQ>>(rowsQ),
-      run<{ total: number; clockSetBack: boolean }[]>(paging ? countQ : db.select({ total: sql<number>`-1`, clockSetBack: setBack }).from(sql`(select 1) one`)),
-    ]);
-    return { rows: rows as (ToolListRow & { sortValue: string | null })[], total: paging ? total : rows.length, clockSetBack: Boolean(clockSetBack) };
+    const run = (q: SQL) => (f.q ? db.execute(q) : executePrepared(db, q));
+    const [page, counted] = await Promise.all([run(pageQ), run(countQ)]);
+    const rows = (page.rows as Record<string, unknown>[]).map((r) => ({
+      tool: TOOL.read(r) as ToolRow,
+      familyName: String(r.family_name),
+      kind: r.family_kind as ToolListRow["kind"],
+      sortValue: (r.sort_value as string | null) ?? null,
+      /** The columns the tool's status is derived from (statusesOfRows). */
+      state: r,
+    }));
+    const { total, clock_set_back } = counted.rows[0] as { total: number; clock_set_back: boolean };
+    return { rows, total: paging ? total : rows.length, clockSetBack: Boolean(clock_set_back) };
   },
 
   /** Distinct non-blank locations, sorted case-insensitively (tools_location_idx). */

@@ -1,6 +1,6 @@
 import Papa from "papaparse";
 import { toolsRepository, cursorCodec, SQL_SORTS, type SetElementRow, type SqlSortKey, type ToolListRow, type ToolRow } from "./tools.repository";
-import { gatherStatusesAt, statusByTag, statusContext, statusesFor, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
+import { gatherStatusesAt, statusByTag, statusContext, statusesOfRows, statusOf, type StatusContext, type ToolStatusView } from "./tool-status.service";
 import { statusNow } from "./tool-states.sql";
 import { changeLifecycle, lockTool, openHold, placeHold, releaseHold } from "./tool-lifecycle.repository";
 import { recordAudit } from "../audit/audit.repository";
@@ -171,7 +171,8 @@ export function toolsService(deps: RegisterDeps) {
   /**
    * The register, filtered, sorted and paged on the server: one SQL statement and a count, with the
    * status read from tool_states on the shop's date (docs/decisions/013), so "overdue, by due date,
-   * page 50" is an index scan; the page's statuses and reasons then come from the one derivation.
+   * page 50" is an index scan; the page's statuses and reasons then come from the one derivation, on the
+   * columns each row of the page carries (no second statement).
    * ?after= pages by keyset. When some tool has a record dated after now (a clock set back), the
    * statuses of the candidates are derived in full instead (listDerived).
    */
@@ -201,7 +202,7 @@ export function toolsService(deps: RegisterDeps) {
       opts.all ? null : { page: query.page, pageSize: query.pageSize, after },
     );
     if (clockSetBack) return listDerived(query, now, c, opts);
-    const views = await statusesFor(db, rows.map((r) => r.tool.id), now, c);
+    const views = await statusesOfRows(db, rows.map((r) => r.state), now, c);
     const items = rows.map((r) => toToolSummary(r, views.get(r.tool.id)!));
     const last = rows.at(-1);
     const nextCursor = !opts.all && last && rows.length === query.pageSize ? cursorCodec.encode(last.sortValue, last.tool.assetTag) : null;
