@@ -9,6 +9,7 @@ import { pinoHttp } from "pino-http";
 import { pino } from "pino";
 import { OpenApiRegistry } from "./openapi/registry";
 import { requestLog } from "./http/request-log";
+import { compressWholeAnswers } from "./http/compress-answer";
 import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
 import { authRoutes, configurePassport } from "./auth/auth.routes";
 import { csrfProtection } from "./auth/csrf";
@@ -48,6 +49,7 @@ export function createApp(services: AppServices) {
   const compressAnswer = compression({ filter: compressible, level: 1, brotli: { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } } });
   const compressFile = compression({ filter: compressible });
   app.use((req, res, next) => (req.path.startsWith("/api/") ? compressAnswer : compressFile)(req, res, next));
+  app.use("/api", compressWholeAnswers());
   app.use(express.json({ limit: "5mb" }));
 
   // The session table comes with the migrations (the runtime role creates no tables). Pruning is a

@@ -211,9 +211,23 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(res.status).toBe(200);
     expect(res.headers["content-encoding"]).toBe("gzip");
     expect(res.body.items.length).toBeGreaterThan(10);
+    // Sent whole, with its length (one write, not a stream of chunks).
+    expect(Number(res.headers["content-length"])).toBeGreaterThan(0);
+    expect(res.headers["transfer-encoding"]).toBeUndefined();
+    expect(res.headers.vary).toMatch(/Accept-Encoding/);
     // A browser offers brotli too, and gets it.
     const br = await m.get("/api/tools?pageSize=50").set("Accept-Encoding", "gzip, deflate, br");
     expect(br.status).toBe(200);
     expect(br.headers["content-encoding"]).toBe("br");
+    expect(br.body.items.map((x: { assetTag: string }) => x.assetTag)).toEqual(res.body.items.map((x: { assetTag: string }) => x.assetTag));
+    // A client that accepts neither gets the same answer plain; a HEAD has no body to compress.
+    const plain = await m.get("/api/tools?pageSize=50").set("Accept-Encoding", "identity");
+    expect(plain.headers["content-encoding"]).toBeUndefined();
+    expect(plain.body.items.length).toBe(res.body.items.length);
+    // A large answer (the whole register as CSV, not JSON) still travels compressed, as a stream.
+    const csv = await m.get("/api/tools?format=csv").set("Accept-Encoding", "gzip");
+    expect(csv.status).toBe(200);
+    expect(csv.headers["content-encoding"]).toBe("gzip");
+    expect(csv.text).toContain("RC-1039");
   });
 });
