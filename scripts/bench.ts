@@ -3,6 +3,7 @@
 //   npm run bench                         20,000 tools (and 2,000 for growth), 3 rounds
 //   npm run bench -- --tools 2000         a smaller register to try it (growth from 200)
 //   npm run bench -- --no-growth --rounds 1 --duration 3
+//   npm run bench -- --warmup 0            no unmeasured load before each run (default 2 s)
 // Fills a database per scale with set-based SQL (triggers fire as for any insert), starts the built app
 // and a floor server (bare Express 5 + node-postgres, one indexed lookup of a tool by asset tag) on it,
 // drives both over HTTP with autocannon, interleaved, and prints one line per measure:
@@ -72,6 +73,12 @@ const arg = (name: string, dflt: number) => {
 const TOOLS = arg("tools", 20_000);
 const ROUNDS = arg("rounds", 3);
 const DURATION = arg("duration", 5);
+/**
+ * Seconds of load before each measured run, at the same concurrency, not measured (app and floor alike): what is
+ * measured is a running server, not one whose code for that request the JavaScript engine is still compiling.
+ * `--warmup 0` measures from the first request, as runs before 2026-12-04 did.
+ */
+const WARMUP = arg("warmup", 2);
 const GROWTH = !process.argv.includes("--no-growth");
 /** Keep a filled database of the same scale from an earlier run (with BENCH_DIR, scripts/bench.sh keeps the cluster). */
 const REUSE = process.argv.includes("--reuse");
@@ -279,13 +286,18 @@ async function signIn(base: string, role: string) {
 
 // ---- Driving: autocannon, p95 from every response's time ---------------------------------------------------
 async function drive(base: string, m: { connections: number; method?: string; path: () => string; body?: () => object; headers: Record<string, string> }) {
+  if (WARMUP > 0) await load(base, m, WARMUP);
+  return load(base, m, DURATION);
+}
+
+async function load(base: string, m: { connections: number; method?: string; path: () => string; body?: () => object; headers: Record<string, string> }, seconds: number) {
   const times: number[] = [];
   const codes = new Map<number, number>();
   const instance = autocannon(
     {
     url: base,
     connections: m.connections,
-    duration: DURATION,
+    duration: seconds,
     headers: { ...m.headers, "accept-encoding": "gzip", ...(m.body ? { "content-type": "application/json" } : {}) },
     requests: [{ method: (m.method ?? "GET") as "GET", setupRequest: (req) => ({ ...req, path: m.path(), ...(m.body ? { body: JSON.stringify(m.body()) } : {}) }) }],
     },
@@ -437,7 +449,7 @@ async function measureScale(tools: number) {
 const large = await measureScale(TOOLS);
 const small = GROWTH ? await measureScale(Math.round(TOOLS / 10)) : null;
 
-console.log(`\n# ${TOOLS} tools, ${ROUNDS} round(s) of ${DURATION} s per measure; p95 = median over rounds`);
+console.log(`\n# ${TOOLS} tools, ${ROUNDS} round(s) of ${DURATION} s per measure (after ${WARMUP} s not measured); p95 = median over rounds`);
 for (const m of MEASURES) {
   const r = large.results.get(m.name);
   if (!r) {
