@@ -85,6 +85,10 @@ describe("check sheets awaiting signature", () => {
     expect(ids(list)).not.toContain(untouched.id);
     expect(mine).toEqual(ids(list));
     expect(list.total).toBe(mine.length);
+    // Newest activity first: the sheets read on at 17:00 come before the one opened at 15:00 and never read on.
+    const order = (await m.get("/api/stats/mine")).body.openJobs.map((j: { id: string }) => j.id);
+    expect(order.indexOf(corrected.id)).toBeLessThan(order.indexOf(own.id));
+    expect(order.indexOf(measuredThere.id)).toBeLessThan(order.indexOf(own.id));
     t.clock.set("2026-06-15T15:00:00Z");
   });
 

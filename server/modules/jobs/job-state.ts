@@ -26,6 +26,9 @@ export function jobState(jobId: AnyPgColumn | SQL) {
 /** "Awaiting signature" on the row of job_activity aliased `a`: the predicate of job_activity_awaiting_idx. */
 export const awaitingSignatureOfActivity: SQL = AWAITING;
 
+/** "Open" on the row of job_activity aliased `a`, outer-joined: a sheet with no row there (nothing read, nothing signed) is open. */
+export const openOfActivity: SQL = sql`(not (${SIGNED}))`;
+
 import type { JobListStatus } from "../../../shared/jobs/jobs.schemas";
 
 /** The condition for a list status filter. */

@@ -1,13 +1,12 @@
 import { sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { isoInstant } from "../../db/values";
-import { awaitingSignatureOfActivity, jobState } from "../jobs/job-state";
+import { awaitingSignatureOfActivity, openOfActivity } from "../jobs/job-state";
 import { notReturnedCount } from "../checkouts/checkouts.repository";
 import { undisposedItemsOf } from "../investigations/investigations.repository";
+import { statusColumns } from "../tools/tool-status.service";
 
 type Row = Record<string, unknown>;
-/** Sheet states of the job aliased `j` (the same definition as the jobs list's status filter). */
-const sheet = jobState(sql`j.id`);
 const iso = isoInstant;
 
 /** A job summary row: counts of readings and the last one; a sheet is open until an inspector signs it. */
@@ -46,25 +45,43 @@ export const statsRepository = {
   /** Tools still out on check-out past the time they were due back (the custody list's ?overdue=true). */
   notReturned: (db: DbOrTx, at: Date): Promise<number> => notReturnedCount(db, at),
 
-  /** Tools the person holds on check-out, or owns. */
-  async myToolIds(db: DbOrTx, userId: string) {
+  /** Tools the person holds on check-out, or owns, each with the columns its status is derived from (statusColumns). */
+  async myTools(db: DbOrTx, userId: string) {
     const r = await db.execute(sql`
-      select t.id, t.description, 'personal' as relation from tools t where t.owner_user_id = ${userId}::uuid and t.lifecycle <> 'retired'
-      union
-      select t.id, t.description, 'issued' as relation from checkouts c join tools t on t.id = c.tool_id where c.user_id = ${userId}::uuid and c.returned_at is null`);
-    return r.rows as { id: string; description: string; relation: "issued" | "personal" }[];
+      select m.relation, ${statusColumns("t", "u")}
+      from (
+        select t.id, 'personal' as relation from tools t where t.owner_user_id = ${userId}::uuid and t.lifecycle <> 'retired'
+        union
+        select c.tool_id, 'issued' as relation from checkouts c where c.user_id = ${userId}::uuid and c.returned_at is null
+      ) m
+      join tools t on t.id = m.id
+      left join tool_states s on s.tool_id = t.id
+      left join users u on u.id = s.custody_user_id`);
+    return r.rows as (Row & { id: string; description: string; relation: "issued" | "personal" })[];
   },
 
-  /** Unsigned check sheets the person opened or took readings on, newest activity first. */
+  /**
+   * Unsigned check sheets the person opened or took readings on, newest activity first. The person's sheets (from
+   * job_people, kept by a trigger, not from their readings) are ranked on their job_activity row alone, one probe each;
+   * the sheets themselves are read for the page only.
+   */
   async myOpenJobs(db: DbOrTx, userId: string, limit = 50) {
     const r = await db.execute(sql`
-      select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at, coalesce(a.readings, 0) as readings, a.last_reading_at
-      from jobs j left join job_activity a on a.job_id = j.id
-      where ${sheet.open}
-        -- The sheets the person took readings on come from job_people (kept by a trigger), not from their readings.
-        and j.id in (select p.job_id from job_people p where p.user_id = ${userId}::uuid union all select o.id from jobs o where o.opened_by = ${userId}::uuid)
-      order by coalesce(a.last_reading_at, j.opened_at) desc
-      limit ${limit}`);
+      with mine as (
+        select p.job_id from job_people p where p.user_id = ${userId}::uuid
+        union
+        select o.id from jobs o where o.opened_by = ${userId}::uuid
+      ), ranked as (
+        select m.job_id, a.readings, a.last_reading_at,
+          coalesce(a.last_reading_at, (select o.opened_at from jobs o where o.id = m.job_id)) as last_at
+        from mine m left join job_activity a on a.job_id = m.job_id
+        where ${openOfActivity}
+        order by last_at desc
+        limit ${limit}
+      )
+      select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at, coalesce(r.readings, 0) as readings, r.last_reading_at
+      from ranked r join jobs j on j.id = r.job_id
+      order by r.last_at desc`);
     return (r.rows as Row[]).map(jobSummary);
   },
 

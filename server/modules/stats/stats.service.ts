@@ -2,7 +2,7 @@ import type { Db } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import { statsRepository } from "./stats.repository";
 import { intervalsRepository } from "../intervals/intervals.repository";
-import { gatherStatusesAt, statusContext, statusesFor, type StatusContext, type ToolStatusView } from "../tools/tool-status.service";
+import { gatherStatusesAt, statusContext, statusesOfRows, type StatusContext, type ToolStatusView } from "../tools/tool-status.service";
 import { countByStatus, eventsAfter, statusNow } from "../tools/tool-states.sql";
 import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
 import { addDays, calendarDate } from "../../../shared/common/dates";
@@ -126,8 +126,9 @@ export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; ti
     async mine(userId: string): Promise<StatsMine> {
       const now = clock.now();
       const ctx = await statusContext(db, timeZone);
-      const rows = await statsRepository.myToolIds(db, userId);
-      const statuses = await statusesFor(db, [...new Set(rows.map((r) => r.id))], now, ctx);
+      // The person's tools with what their status is derived from, beside their open sheets: one round.
+      const [rows, openJobs] = await Promise.all([statsRepository.myTools(db, userId), statsRepository.myOpenJobs(db, userId)]);
+      const statuses = await statusesOfRows(db, rows, now, ctx);
       const tools = rows
         .map((r) => {
           const s = statuses.get(r.id)!;
@@ -144,7 +145,7 @@ export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; ti
           };
         })
         .sort((a, b) => (a.dueAt ?? "0000").localeCompare(b.dueAt ?? "0000") || a.assetTag.localeCompare(b.assetTag));
-      return { tools, openJobs: await statsRepository.myOpenJobs(db, userId) };
+      return { tools, openJobs };
     },
 
     async inspection(): Promise<StatsInspection> {
