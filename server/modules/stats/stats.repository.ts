@@ -4,7 +4,7 @@ import { isoInstant } from "../../db/values";
 import { awaitingSignatureOfActivity, openOfActivity } from "../jobs/job-state";
 import { notReturnedCount } from "../checkouts/checkouts.repository";
 import { undisposedItemsOf } from "../investigations/investigations.repository";
-import { statusColumns } from "../tools/tool-status.service";
+import { statusColumns } from "../tools/tool-states.sql";
 
 type Row = Record<string, unknown>;
 const iso = isoInstant;
@@ -76,12 +76,12 @@ export const statsRepository = {
           coalesce(a.last_reading_at, (select o.opened_at from jobs o where o.id = m.job_id)) as last_at
         from mine m left join job_activity a on a.job_id = m.job_id
         where ${openOfActivity}
-        order by last_at desc
+        order by last_at desc, m.job_id
         limit ${limit}
       )
       select j.id, j.engine_serial, j.engine_model, j.work_order, j.opened_at, coalesce(r.readings, 0) as readings, r.last_reading_at
       from ranked r join jobs j on j.id = r.job_id
-      order by r.last_at desc`);
+      order by r.last_at desc, r.job_id`);
     return (r.rows as Row[]).map(jobSummary);
   },
 

@@ -8,6 +8,18 @@ import type { DbOrTx } from "../../db/client";
 import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
 import type { StatusContext } from "./tool-status.service";
 
+/**
+ * The columns a tool's status is derived from (statusesOfRows in tool-status.service.ts) and a status answer shows,
+ * for a statement over `tools` named `tool`, its `tool_states s` and the custodian `users` named `custodian`, both
+ * outer-joined.
+ */
+export function statusColumns(tool: string, custodian: string): SQL {
+  return sql.raw(
+    `${tool}.id, ${tool}.asset_tag, ${tool}.unit, ${tool}.description, ${tool}.location, ${tool}.owner_type, ${tool}.owner_user_id, ${tool}.owner_name, ` +
+      `s.*, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
+  );
+}
+
 /** Statuses that the date never changes: tool_states.base_status holds them as they are. */
 export const FIXED_STATUSES = ["out_of_tolerance", "quarantined", "at_calibration", "never_calibrated", "inactive", "lost", "retired", "reference_only"] as const satisfies readonly ToolStatus[];
 

@@ -4,6 +4,7 @@ import type { DbOrTx } from "../../db/client";
 import { inList, isoInstant, pgArray } from "../../db/values";
 import { columnsOf } from "../../db/columns";
 import { executePrepared } from "../../db/prepared";
+import { statusColumns } from "./tool-states.sql";
 import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { getSettings } from "../settings/settings.service";
@@ -120,17 +121,6 @@ export async function toolsWithStatusByTags(db: DbOrTx, tags: string[], at: Date
   if (tags.length === 0) return [];
   const res = await db.execute(toolsByTagsSelect(tags));
   return toolsWithStatusFromRows(db, res.rows as Row[], at, ctx);
-}
-
-/**
- * The columns statusesFromRows reads (and a status answer shows), for a statement over `tools` named `tool`, its
- * `tool_states s` and the custodian `users` named `custodian`, both outer-joined.
- */
-export function statusColumns(tool: string, custodian: string): SQL {
-  return sql.raw(
-    `${tool}.id, ${tool}.asset_tag, ${tool}.unit, ${tool}.description, ${tool}.location, ${tool}.owner_type, ${tool}.owner_user_id, ${tool}.owner_name, ` +
-      `s.*, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
-  );
 }
 
 /**

@@ -9,8 +9,7 @@ import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
 import { executePrepared } from "../../db/prepared";
 import { columnsOf } from "../../db/columns";
-import { statusColumns } from "./tool-status.service";
-import { statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
+import { statusColumns, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 
 export type ToolRow = typeof tools.$inferSelect;
@@ -59,7 +58,6 @@ const listColumns = { tool: tools, familyName: families.name, kind: families.kin
 
 /** A tool's own columns in a statement written as SQL over `tools`, each as `tool.<name>`, and their reader. */
 const TOOL = columnsOf(tools, "tools", "tool.");
-
 
 /** Filters on the indexed status (docs/decisions/013). */
 export interface StatusFilters {
