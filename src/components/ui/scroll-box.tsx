@@ -1,4 +1,4 @@
-import { useEffect, useRef, useState, type ReactNode } from "react";
+import { useEffect, useLayoutEffect, useRef, useState, type ReactNode } from "react";
 import { cx } from "./cx";
 
 /**
@@ -6,15 +6,22 @@ import { cx } from "./cx";
  * className "max-h-… overflow-auto", down when it is taller than the box). While it
  * scrolls it can be reached with Tab and scrolled with the arrow keys (WCAG 2.1.1), and is named as a
  * region; when everything fits it adds no tab stop.
+ *
+ * The size is measured after every render, before the browser paints (so rows that arrive and make the
+ * table wider bring the tab stop in the same commit, never a moment later), and again whenever the box or
+ * its content is resized (a turned phone, a narrower window).
  */
 export function ScrollBox({ label, className, children }: { label: string; className?: string; children: ReactNode }) {
   const ref = useRef<HTMLDivElement>(null);
   const [scrolls, setScrolls] = useState(false);
+  const measure = () => {
+    const el = ref.current;
+    if (el) setScrolls(el.scrollWidth > el.clientWidth + 1 || el.scrollHeight > el.clientHeight + 1);
+  };
+  useLayoutEffect(measure);
   useEffect(() => {
     const el = ref.current;
     if (!el) return;
-    const measure = () => setScrolls(el.scrollWidth > el.clientWidth + 1 || el.scrollHeight > el.clientHeight + 1);
-    measure();
     const observer = new ResizeObserver(measure);
     observer.observe(el);
     if (el.firstElementChild) observer.observe(el.firstElementChild);
