@@ -408,6 +408,66 @@ describe("refusals and flags", () => {
     expect(both.map((r) => r.status)).toEqual([201, 201]);
   });
 
+  /**
+   * Holds the sheet's row as a sign-off does (FOR UPDATE) in a transaction of its own, runs `meanwhile` in it, sends
+   * `post` (whose reads see none of it yet), waits until the post's write waits for the sheet, then commits.
+   */
+  async function aheadOfTheWrite(jobId: string, meanwhile: (q: (text: string, values: unknown[]) => Promise<unknown>) => Promise<void>, post: () => PromiseLike<any>) {
+    const other = await t.pool.connect();
+    try {
+      await other.query("begin");
+      await other.query("select id from jobs where id = $1 for update", [jobId]);
+      await meanwhile((text, values) => other.query(text, values));
+      const answer = Promise.resolve(post());
+      for (let i = 0; i < 500; i++) {
+        const waiting = await t.pool.query("select count(*)::int as n from pg_stat_activity where datname = current_database() and wait_event_type = 'Lock'");
+        if (waiting.rows[0].n > 0) break;
+        await new Promise((r) => setTimeout(r, 10));
+      }
+      await other.query("commit");
+      return await answer;
+    } finally {
+      other.release();
+    }
+  }
+
+  it("a reading that reaches its place just after another one is refused, not stored beside it: the write looks at the place again once it holds it (common practice, no source)", async () => {
+    const { job, mic } = await pinSheet();
+    const a = await t.agent("mechanic");
+    let otherId = "";
+    const res = await aheadOfTheWrite(
+      job.id,
+      async (q) => {
+        const r = (await q(
+          `insert into readings (job_id, item_key, index, values, unit, size, out_of_round, verdict, taken_by, taken_at) values ($1, 'pin', 1, '["1.1250","1.1248"]', 'in', '1.1248', '0.0002', 'within_limits', $2, now()) returning id`,
+          [job.id, t.people.mechanic.id],
+        )) as { rows: { id: string }[] };
+        otherId = r.rows[0].id;
+      },
+      () => a.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 1, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] }),
+    );
+    expect(res.status, JSON.stringify(res.body)).toBe(409);
+    expect(res.body.error.code).toBe("reading_exists");
+    expect(res.body.error.details).toMatchObject({ readingId: otherId });
+    expect((await readingsOf(job.id)).filter((r) => r.itemKey === "pin" && r.index === 1).map((r) => r.id)).toEqual([otherId]);
+  });
+
+  it("a reading sent while an inspector signs the sheet is refused once the sign-off is in, and the signed sheet stays as signed (common practice, no source)", async () => {
+    const { job, mic } = await pinSheet();
+    const a = await t.agent("mechanic");
+    const res = await aheadOfTheWrite(
+      job.id,
+      async (q) => {
+        await q("insert into job_signoffs (job_id, inspector_id, certificate_number, signed_at) values ($1, $2, 'IA-TEST-1', now())", [job.id, t.people.inspector.id]);
+      },
+      () => a.post(`/api/jobs/${job.id}/readings`, { itemKey: "pin", index: 1, values: [1.125, 1.1247], toolAssetTags: [mic.assetTag] }),
+    );
+    expect(res.status, JSON.stringify(res.body)).toBe(409);
+    expect(res.body.error.code).toBe("sheet_signed");
+    expect(await readingsOf(job.id)).toHaveLength(0);
+    expect((await a.get(`/api/jobs/${job.id}`)).body).toMatchObject({ status: "signed", locked: true });
+  });
+
   it("part temperature and material give a correction to 20 °C beside the raw size, never replacing it (ISO 1; JCGM 100 H.1)", async () => {
     const table = await makeLimitTable(t.db, { unit: "mm", items: [{ key: "journal", label: "Aluminium journal", kind: "journal", min: 49.9, max: 50.1 }] });
     const job = await makeJob(t.db, table.id, t.people.mechanic.id);

@@ -13,7 +13,7 @@ export type JobRow = typeof jobs.$inferSelect;
 
 // A sheet is signed when it has a sign-off and no reading was taken after the latest one (job-state.ts).
 const state = jobState(jobs.id);
-/** A job's columns as `"job.<name>"`, for the statement each reading runs (lockForReading). */
+/** A job's columns as `"job.<name>"`, for the statement each reading runs (forReading). */
 const JOB = columnsOf(jobs, "jobs", "job.");
 
 const SORTS: Record<string, SQL[]> = {
@@ -75,24 +75,21 @@ export const jobsRepository = {
   },
 
   /**
-   * Locks a job while a reading is recorded on it and answers what the write needs — the job, its table's unit and
-   * expansion coefficient, and whether it is signed — in one indexed query, whatever the sheet's size. `alsoLock`, a
-   * lock function call (the place's advisory lock), is taken in the same statement. `alsoRead`, a select that reads
-   * nothing the locks guard (the reading's tools with their status), is asked in the same statement too: its rows come
-   * back as `alsoRead`, one per row it gives (none when it gives none), each beside the job's columns.
+   * What a reading's write needs of its sheet — the job, its table's unit and expansion coefficient, and whether it is
+   * signed — in one indexed query, whatever the sheet's size. Nothing is locked here: the write itself takes the
+   * sheet's and the place's locks and looks again (readingsRepository.insertRecorded). `alsoRead`, a select asked in
+   * the same statement (the reading's tools with their status): its rows come back as `alsoRead`, one per row it gives
+   * (none when it gives none), each beside the job's columns.
    */
-  async lockForReading(db: DbOrTx, id: string, alsoLock?: SQL, alsoRead?: SQL): Promise<JobForReading | undefined> {
+  async forReading(db: DbOrTx, id: string, alsoRead?: SQL): Promise<JobForReading | undefined> {
     // Written as SQL: every reading runs it, and the query builder's cost was more than the statement's own. A named
     // prepared statement: planned once per connection (its text is one of a few, its plan index lookups).
     const res = await executePrepared(db, sql`
       select ${JOB.list}, lt.unit as "tableUnit", lt.expansion_per_k as "tableExpansionPerK", ${state.signed} as signed
-        ${alsoLock ? sql`, ${alsoLock} as "alsoLocked"` : sql``}
         ${alsoRead ? sql`, x.*` : sql``}
       from jobs join limit_tables lt on lt.id = jobs.limit_table_id
       ${alsoRead ? sql`left join (${alsoRead}) x on true` : sql``}
-      where jobs.id = ${id}
-      -- Shared: readings of different places go on side by side; a sign-off (FOR UPDATE) waits for them, and they for it.
-      for share of jobs`);
+      where jobs.id = ${id}`);
     const row = res.rows[0] as Record<string, unknown> | undefined;
     if (!row) return undefined;
     return {
@@ -132,12 +129,12 @@ export const jobsRepository = {
   insertSignoff: async (db: DbOrTx, values: typeof jobSignoffs.$inferInsert) => (await db.insert(jobSignoffs).values(values).returning())[0],
 };
 export type JobSummaryRow = NonNullable<Awaited<ReturnType<typeof jobsRepository.summary>>>;
-/** What a reading's write needs of its sheet, read under the sheet's lock. */
+/** What a reading's write needs of its sheet (forReading). */
 export interface JobForReading {
   job: JobRow;
   tableUnit: (typeof limitTables.$inferSelect)["unit"];
   tableExpansionPerK: string | null;
   signed: boolean;
-  /** The rows of lockForReading's `alsoRead`, when it was given. */
+  /** The rows of forReading's `alsoRead`, when it was given. */
   alsoRead?: Record<string, unknown>[];
 }

@@ -4,6 +4,7 @@ import type { DbOrTx } from "../../db/client";
 import { columnsOf, insertRows } from "../../db/columns";
 import { inList } from "../../db/values";
 import { executePrepared } from "../../db/prepared";
+import { driverError } from "../../http/error-handler";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { setElements } from "../tools/tools.table";
 import { calibrationPoints } from "../calibrations/calibrations.table";
@@ -34,8 +35,9 @@ export interface SheetReadingRow {
   judgedView: unknown;
 }
 
-/** A transaction-level advisory lock keyed by one place of one sheet. */
-const placeLock = (jobId: string, itemKey: string, index: number) => sql`pg_advisory_xact_lock(hashtextextended(${`reading-place:${jobId}:${itemKey}:${index}`}, 0))`;
+/** Why the write of a reading was refused by its place's guard (tenthwise_reading_place, migration 0024). */
+export type PlaceRefusal = { code: "sheet_signed" | "reading_exists" | "reading_superseded"; holderId: string | null };
+const PLACE_REFUSALS = new Set<PlaceRefusal["code"]>(["sheet_signed", "reading_exists", "reading_superseded"]);
 
 /** Every column of a reading, under its TypeScript name (`r.job_id as "jobId"`), for queries written as SQL. */
 const READING = columnsOf(readings, "r");
@@ -99,12 +101,12 @@ export const readingsRepository = {
     return { currentId: (rows[0].currentId as string | null) ?? null, flagged: rows[0].flagged === true, partners };
   },
 
-  /**
-   * The place's lock as an SQL call, taken inside the statement that locks the sheet (jobsRepository.lockForReading):
-   * a transaction-level advisory lock keyed by the place, so two readings or two corrections of the same place cannot
-   * both see it free, and other places go on.
-   */
-  placeLock: (jobId: string, itemKey: string, index: number) => placeLock(jobId, itemKey, index),
+  /** The refusal of a reading's place guard, when `e` is one (else null). */
+  placeRefusal(e: unknown): PlaceRefusal | null {
+    const pg = driverError(e);
+    const code = String(pg?.message ?? "") as PlaceRefusal["code"];
+    return pg?.code === "P0001" && PLACE_REFUSALS.has(code) ? { code, holderId: (pg as { detail?: string }).detail ?? null } : null;
+  },
 
   findById: async (db: DbOrTx, id: string) => (await db.select().from(readings).where(eq(readings.id, id)))[0],
   successorOf: async (db: DbOrTx, id: string) => (await db.select({ id: readings.id }).from(readings).where(eq(readings.supersedesId, id)))[0],
@@ -117,8 +119,12 @@ export const readingsRepository = {
 
   /**
    * Records a reading with its tools, its judgement and its audit line in one statement (data-modifying WITH parts; the
-   * foreign keys are checked at the statement's end, when all four rows are in). The reading's id is chosen by the
-   * caller so that the rows naming it go in together: one round trip instead of four, for the write every mechanic makes.
+   * foreign keys are checked at the statement's end, when all four rows are in), on its own: no transaction around it.
+   * The reading's id is chosen by the caller so that the rows naming it go in together. The reading's job_id is given
+   * by the place's guard (tenthwise_reading_place): before the row goes in it takes the sheet's lock (shared; a
+   * sign-off waits for it and it for a sign-off) and the place's lock, and looks at the place again as committed then.
+   * It refuses, and the statement writes nothing, when the sheet was signed (a new reading, `onSigned` false), the
+   * place was taken, or the reading corrected was corrected meanwhile (placeRefusal reads which).
    */
   async insertRecorded(
     db: DbOrTx,
@@ -126,8 +132,13 @@ export const readingsRepository = {
     toolRows: Omit<typeof readingTools.$inferInsert, "readingId">[],
     judgement: Omit<ReadingJudgementInsert, "readingId">,
     audit: SQLWrapper,
+    onSigned: boolean,
   ) {
-    const parts = [sql`r as (${insertRows(readings, [values])})`, sql`j as (${insertRows(readingJudgements, [{ ...judgement, readingId: values.id }])})`];
+    const guard = sql`tenthwise_reading_place(${values.jobId}::uuid, ${values.itemKey}::text, ${values.index ?? 1}::integer, ${values.supersedesId ?? null}::uuid, ${onSigned}::boolean)`;
+    const parts = [
+      sql`r as (${insertRows(readings, [{ ...values, jobId: guard as unknown as string }])})`,
+      sql`j as (${insertRows(readingJudgements, [{ ...judgement, readingId: values.id }])})`,
+    ];
     if (toolRows.length) parts.push(sql`t as (${insertRows(readingTools, toolRows.map((t) => ({ ...t, readingId: values.id })))})`);
     await executePrepared(db, sql`with ${sql.join(parts, sql`, `)} ${audit}`);
   },

@@ -1,7 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { z } from "zod";
-import type { SQL } from "drizzle-orm";
-import type { Db, Tx } from "../../db/client";
+import type { Db, DbOrTx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
@@ -56,7 +55,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
   const { db, clock } = deps;
 
   /** The leaves of a set for a feeler item, in the table's unit, and the go and no-go chosen inside the limits. */
-  async function feelerLeaves(tx: Db | Tx, item: LimitItemView, tableUnit: LengthUnit, set: ToolHit, status: ToolStatusView | undefined, at: Date) {
+  async function feelerLeaves(tx: DbOrTx, item: LimitItemView, tableUnit: LengthUnit, set: ToolHit, status: ToolStatusView | undefined, at: Date) {
     const raw = await readingsRepository.leavesOf(tx, set.tool.id, status?.lastCalibration?.id ?? null, at);
     const leaves: FeelerLeaf[] = raw.map((l) => ({
       id: l.id,
@@ -70,7 +69,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
   }
 
   /** The item at a place and every item of its table (kept per process: a saved table never changes). */
-  async function loadItem(tx: Db | Tx, limitTableId: string, itemKey: string) {
+  async function loadItem(tx: DbOrTx, limitTableId: string, itemKey: string) {
     const items = await itemViewsOf(tx, limitTableId);
     return { item: items.find((i) => i.key === itemKey), items };
   }
@@ -78,10 +77,11 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
   /**
    * Records one reading at `place`, after every rule of the trade: the job is not signed, the item and index exist,
    * enough values, tools exist, are usable at this instant (or quality overrides with a reason), suit the item.
-   * Flags what is allowed but worth a second look. Inside the caller's transaction, with the job locked.
+   * Flags what is allowed but worth a second look. Each read is a statement of its own and nothing is locked until the
+   * write, which is one statement that takes the sheet's and the place's locks and looks at the place again
+   * (readingsRepository.insertRecorded): a reading that lost a race for its place is refused as if it had come second.
    */
   async function record(
-    tx: Tx,
     job: JobForReading,
     place: Place,
     input: CreateReading,
@@ -91,7 +91,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
   ): Promise<ReadingResult> {
     const at = clock.now();
     const tableUnit = job.tableUnit;
-    const { item: found, items } = await loadItem(tx, job.job.limitTableId, place.itemKey);
+    const { item: found, items } = await loadItem(db, job.job.limitTableId, place.itemKey);
     if (!found) badInput(["itemKey"], `This sheet has no item "${place.itemKey}".`);
     const item = found as LimitItemView;
     if (place.index > item.repeat) badInput(["index"], `${item.label} has ${item.repeat} place${item.repeat === 1 ? "" : "s"}; there is no number ${place.index}.`);
@@ -113,7 +113,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     if (tags.length !== input.toolAssetTags.length) badInput(["toolAssetTags"], "A tool is named twice.");
     // Each tool with its status at this instant (the one status derivation decides): read in the statement that locked
     // the sheet when the caller asked it there, else in one statement now.
-    const named = job.alsoRead ? await toolsWithStatusFromRows(tx, job.alsoRead, at, statusContextOf(settings)) : await toolsWithStatusByTags(tx, tags, at, statusContextOf(settings));
+    const named = job.alsoRead ? await toolsWithStatusFromRows(db, job.alsoRead, at, statusContextOf(settings)) : await toolsWithStatusByTags(db, tags, at, statusContextOf(settings));
     const hits = tags.map((tag) => {
       const hit = named.find((f) => f.tool.assetTag.toUpperCase() === tag);
       if (!hit) throw notFound("tool", tag);
@@ -192,7 +192,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     const partnerKeys = [...new Set(dependents.flatMap(partnerKeysOf))];
     const check =
       !extra.supersedesId || measured || partnerKeys.length
-        ? await readingsRepository.placeCheck(tx, {
+        ? await readingsRepository.placeCheck(db, {
             jobId: place.jobId,
             itemKey: item.key,
             index: place.index,
@@ -201,7 +201,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
             partnerKeys,
           })
         : null;
-    if (check?.currentId) throw refused("reading_exists", `${item.label} no. ${place.index} already has a reading; correct it with a reason instead.`, { readingId: check.currentId });
+    if (check?.currentId) throw placeTaken(item.label, place.index, check.currentId);
 
     const base = {
       jobId: place.jobId,
@@ -241,7 +241,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       result.size = num(rawSize);
       result.outOfRound = num(hi.minus(lo));
     } else if (item.kind === "feeler") {
-      const { choice, usable } = await feelerLeaves(tx, item, tableUnit, feelerSet!, statuses.get(feelerSet!.tool.id), at);
+      const { choice, usable } = await feelerLeaves(db, item, tableUnit, feelerSet!, statuses.get(feelerSet!.tool.id), at);
       const check = feelerCheckFrom(item, feelerSet!.tool.assetTag, choice, usable, input);
       const first = (s: LeafStack | null) => s?.leaves[0]?.id ?? null;
       values = {
@@ -278,16 +278,26 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       after: { jobId: place.jobId, itemKey: item.key, index: place.index, values: stored.values, tools: tags, flags: flagList, supersedesId: extra.supersedesId, reason: extra.supersedeReason, override: override?.reason },
       at,
     });
-    await readingsRepository.insertRecorded(
-      tx,
-      stored,
-      hits.map((h, i) => {
-        const s = statuses.get(h.tool.id)!;
-        return { toolId: h.tool.id, position: i + 1, statusAtReading: s.status, dueAtReading: s.dueAt, takenAt: at };
-      }),
-      { rulesVersion: JUDGING_RULES_VERSION, verdict, band: judged.view.band, text: judged.view.text, detail: judged.view, judgedAt: at },
-      audit,
-    );
+    try {
+      await readingsRepository.insertRecorded(
+        db,
+        stored,
+        hits.map((h, i) => {
+          const s = statuses.get(h.tool.id)!;
+          return { toolId: h.tool.id, position: i + 1, statusAtReading: s.status, dueAtReading: s.dueAt, takenAt: at };
+        }),
+        { rulesVersion: JUDGING_RULES_VERSION, verdict, band: judged.view.band, text: judged.view.text, detail: judged.view, judgedAt: at },
+        audit,
+        !!extra.supersedesId,
+      );
+    } catch (e) {
+      // Another write reached the sheet or the place first (between this write's reads and its write).
+      const lost = readingsRepository.placeRefusal(e);
+      if (lost?.code === "sheet_signed") throw signedRefusal();
+      if (lost?.code === "reading_exists") throw placeTaken(item.label, place.index, lost.holderId);
+      if (lost?.code === "reading_superseded") throw alreadyCorrected(lost.holderId);
+      throw e;
+    }
 
     // The places this reading completes (clearances, tapers), with the partner readings on the sheet (read with the
     // place's check, after the place's lock).
@@ -312,46 +322,38 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     return { id: readingId, ...result, verdict, verdictText: judged.view.text, flags: flagList, place: judged.view, completes, rulesVersion: JUDGING_RULES_VERSION };
   }
 
-  /** Locks the job against a sign-off (a reading and a sign-off cannot cross) and reads what the write needs; never the whole sheet. */
-  async function lockOpenJob(tx: Tx, jobId: string, allowSigned: boolean, alsoLock?: SQL, alsoRead?: SQL) {
-    const job = await jobsRepository.lockForReading(tx, jobId, alsoLock, alsoRead);
+  /** What the write needs of the sheet, with the tools named and their status, in one statement; refused when signed unless `allowSigned`. */
+  async function openJob(jobId: string, allowSigned: boolean, tags: string[]) {
+    const job = await jobsRepository.forReading(db, jobId, tags.length ? toolsByTagsSelect(tags) : undefined);
     if (!job) throw notFound("job", jobId);
-    if (job.signed && !allowSigned) {
-      throw refused("sheet_signed", "This check sheet is signed and locked; correct a reading with a reason instead.");
-    }
+    if (job.signed && !allowSigned) throw signedRefusal();
     return job;
   }
 
   return {
     /** POST /api/jobs/:id/readings */
     async create(jobId: string, input: CreateReading, user: SessionUser) {
-      // The shop's settings as this instance holds them (read again every few seconds), before the transaction.
+      // The shop's settings as this instance holds them (read again every few seconds).
       const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
       const index = input.index ?? 1;
-      return db.transaction(async (tx) => {
-        // The sheet (shared) and the place (exclusive) in one statement, with the tools named and their status: the
-        // tools are not what the locks guard (a tool's status may change while a reading waits either way).
-        const tags = tagsOf(input);
-        const job = await lockOpenJob(tx, jobId, false, readingsRepository.placeLock(jobId, input.itemKey, index), tags.length ? toolsByTagsSelect(tags) : undefined);
-        return record(tx, job, { jobId, itemKey: input.itemKey, index }, input, user, settings);
-      });
+      // The sheet and the tools named with their status in one statement: the write looks at the sheet and the place
+      // again under their locks; the tools are not what the locks guard (a tool's status may change while a reading
+      // waits either way).
+      const job = await openJob(jobId, false, tagsOf(input));
+      return record(job, { jobId, itemKey: input.itemKey, index }, input, user, settings);
     },
 
     /** POST /api/readings/:id/supersede — append-only correction; the old reading stays, marked superseded. */
     async supersede(readingId: string, input: Omit<CreateReading, "itemKey" | "index"> & { reason: string }, user: SessionUser) {
       const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
-      return db.transaction(async (tx) => {
-        const old = await readingsRepository.findById(tx, readingId);
-        if (!old) throw notFound("reading", readingId);
-        // A correction is allowed on a signed sheet: it reopens the sheet for signing again. The sheet, the place and
-        // the tools named with their status in one statement, as for a new reading.
-        const tags = tagsOf(input);
-        const job = await lockOpenJob(tx, old.jobId, true, readingsRepository.placeLock(old.jobId, old.itemKey, old.index), tags.length ? toolsByTagsSelect(tags) : undefined);
-        const newer = await readingsRepository.successorOf(tx, readingId);
-        if (newer) throw refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId: newer.id });
-        const { reason, ...rest } = input;
-        return record(tx, job, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, settings, { supersedesId: old.id, supersedeReason: reason });
-      });
+      const old = await readingsRepository.findById(db, readingId);
+      if (!old) throw notFound("reading", readingId);
+      // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
+      const job = await openJob(old.jobId, true, tagsOf(input));
+      const newer = await readingsRepository.successorOf(db, readingId);
+      if (newer) throw alreadyCorrected(newer.id);
+      const { reason, ...rest } = input;
+      return record(job, { jobId: old.jobId, itemKey: old.itemKey, index: old.index }, { ...rest, itemKey: old.itemKey, index: old.index }, user, settings, { supersedesId: old.id, supersedeReason: reason });
     },
 
     /** The leaves a mechanic should pick for a feeler item from a set, as the server would. */
@@ -401,3 +403,8 @@ function feelerCheckFrom(item: LimitItemView, setTag: string, choice: FeelerChoi
   if (!gap) badInput(["gapLeafIds"], `Use leaves of ${setTag} that are calibrated and not rejected.`);
   return { mode: "measured_gap", go: null, noGo: null, goEntered: null, noGoEntered: null, gap, why: choice.why };
 }
+
+const signedRefusal = () => refused("sheet_signed", "This check sheet is signed and locked; correct a reading with a reason instead.");
+const placeTaken = (label: string, index: number, readingId: string | null) =>
+  refused("reading_exists", `${label} no. ${index} already has a reading; correct it with a reason instead.`, { readingId });
+const alreadyCorrected = (currentId: string | null) => refused("reading_superseded", "This reading has already been corrected; correct the current one.", { currentId });
