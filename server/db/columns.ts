@@ -56,3 +56,28 @@ export function insertRows<T extends Table>(table: T, rows: InferInsertModel<T>[
   });
   return sql`insert into ${table} (${sql.join(keys.map((k) => sql.identifier(cols[k].name)), sql`, `)}) values ${sql.join(tuples, sql`, `)}`;
 }
+
+/**
+ * `insertRows` for a statement built once per shape and run with its values (executeShaped): `insert into <table> (…)
+ * values (…), (…)` with, for row i, the placeholder `${prefixes[i]}${key}` where each value goes; a key of `given` is
+ * put in as that SQL instead. `shapeValues` gives the placeholders' values for a row.
+ */
+export function insertShape<T extends Table>(table: T, keys: readonly string[], prefixes: readonly string[], given: Record<string, SQL> = {}): SQL {
+  const cols = getTableColumns(table) as Record<string, Column>;
+  for (const k of keys) if (!cols[k]) throw new Error(`insertShape: ${k} is not a column`);
+  const tuples = prefixes.map((prefix) => sql`(${sql.join(keys.map((k) => given[k] ?? sql.placeholder(prefix + k)), sql`, `)})`);
+  return sql`insert into ${table} (${sql.join(keys.map((k) => sql.identifier(cols[k].name)), sql`, `)}) values ${sql.join(tuples, sql`, `)}`;
+}
+
+/** The keys of a row that insertRows would write (those with a value, undefined left out). */
+export const keysOfRow = (row: object): string[] => Object.keys(row).filter((k) => (row as Record<string, unknown>)[k] !== undefined);
+
+/** A row's values for insertShape's placeholders, each through its column's mapping to the driver (null stays null). */
+export function shapeValues<T extends Table>(table: T, row: InferInsertModel<T>, prefix: string, out: Record<string, unknown>): Record<string, unknown> {
+  const cols = getTableColumns(table) as Record<string, Column>;
+  for (const [k, v] of Object.entries(row as Record<string, unknown>)) {
+    if (v === undefined) continue;
+    out[prefix + k] = v === null ? null : cols[k].mapToDriverValue(v);
+  }
+  return out;
+}

@@ -19,6 +19,29 @@ export async function executePrepared(db: DbOrTx, query: SQL): Promise<QueryResu
   return (await prepared.execute()) as QueryResult<Record<string, unknown>>;
 }
 
+const shapes = new Map<string, { sql: string; params: unknown[]; name: string }>();
+const MAX_SHAPES = 500;
+
+/**
+ * A statement of a fixed shape run with values that change from call to call, for the writes every mechanic makes:
+ * `build` gives the statement with drizzle's placeholders (sql.placeholder) where the values go and is called once
+ * per `shape` (the caller's name for everything that decides the text); each call fills in `values`, given as the
+ * driver takes them. Turning a large SQL tree into text at every call cost more of the process's only thread than
+ * PostgreSQL spent on the statement. Run as a named prepared statement, as executePrepared.
+ */
+export async function executeShaped(db: DbOrTx, shape: string, build: () => SQL, values: Record<string, unknown>): Promise<QueryResult<Record<string, unknown>>> {
+  const { dialect, session } = db as unknown as { dialect: PgDialect; session: PgSession };
+  let built = shapes.get(shape);
+  if (built === undefined) {
+    const q = dialect.sqlToQuery(build());
+    built = { sql: q.sql, params: q.params, name: nameOf(q.sql) };
+    // The shapes are a handful per write (the kinds of reading, one to a few tools); the memo stays small regardless.
+    if (shapes.size < MAX_SHAPES) shapes.set(shape, built);
+  }
+  const prepared = session.prepareQuery({ sql: built.sql, params: built.params }, undefined, built.name, false);
+  return (await prepared.execute(values)) as QueryResult<Record<string, unknown>>;
+}
+
 const names = new Map<string, string>();
 
 /** A stable name for a statement's text (a hash of it): the same text always gets the same name. */

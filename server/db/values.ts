@@ -1,4 +1,4 @@
-import { sql, type SQL, type SQLWrapper } from "drizzle-orm";
+import { sql, type Placeholder, type SQL, type SQLWrapper } from "drizzle-orm";
 
 /**
  * Raw SQL answers (db.execute) carry timestamptz as PostgreSQL's text, e.g. "2026-01-16 20:24:04.317721+00" on our
@@ -41,9 +41,10 @@ const FIXED_LIST_MAX = 8;
  * (about 0.8 ms of the database's time for a reading's lock statement, against 0.15 ms planned once). Longer lists
  * stay one array parameter (`= any($1::type[])`), whose text does not grow with the list.
  */
-export function inList(column: SQL, values: readonly string[], type: "text" | "uuid"): SQL {
+export function inList(column: SQL, values: readonly (string | Placeholder)[], type: "text" | "uuid"): SQL {
   if (values.length === 0) return sql`false`;
-  if (values.length > FIXED_LIST_MAX) return sql`${column} = any(${pgArray(values)}::${sql.raw(type)}[])`;
+  // Placeholders (a statement built once per shape, executeShaped) stay one each: the shape counts them.
+  if (values.length > FIXED_LIST_MAX && values.every((v) => typeof v === "string")) return sql`${column} = any(${pgArray(values as string[])}::${sql.raw(type)}[])`;
   return sql`${column} in (${sql.join(
     values.map((v) => sql`${v}::${sql.raw(type)}`),
     sql`, `,

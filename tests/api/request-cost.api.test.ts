@@ -92,7 +92,7 @@ describe("what a request costs the database, whatever the register holds", () =>
     expect(unknown.body.error.code).toBe("tool_not_found");
   });
 
-  it("recording a reading sends three statements, whatever the sheet holds: the sheet with the tools and their status, the place's check, and the reading with its tools, judgement and audit line written under the sheet's and the place's locks", async () => {
+  it("recording a reading sends two statements, whatever the sheet holds: the sheet with the tools and their status, and the reading with its tools, judgement and audit line written under the sheet's and the place's locks", async () => {
     const table = await makeLimitTable(t.db, { items: pinAndBoreItems });
     const job = await makeJob(t.db, table.id, t.people.mechanic.id);
     const mic = await makeToolInCalibration(t.db, { kind: "outside_micrometer" });
@@ -104,21 +104,21 @@ describe("what a request costs the database, whatever the register holds", () =>
       expect(res.status, JSON.stringify(res.body)).toBe(201);
       expect(res.body.verdict).toBe("within_limits");
     });
-    expect(sent, sent.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(3);
+    expect(sent, sent.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(2);
     // No transaction of several statements: the write is one statement, and its place's guard takes the locks.
     expect(sent.some((q) => /^(begin|commit)/i.test(q))).toBe(false);
     expect(sent[0]).toMatch(/tool_states/i);
-    expect(sent[2]).toMatch(/tenthwise_reading_place/i);
+    expect(sent[1]).toMatch(/tenthwise_reading_place/i);
     // Each goes by name: planned once per connection, not for every reading.
-    expect(names.map(Boolean)).toEqual([true, true, true]);
+    expect(names.map(Boolean)).toEqual([true, true]);
 
     // The tools the reading names are stored with their status at the reading, as read in that first statement.
     const sheet = await m.get(`/api/jobs/${job.id}`);
     const row = sheet.body.items.find((i: { key: string }) => i.key === "pin").rows.find((r: { index: number }) => r.index === 2);
     expect(row.reading.tools).toEqual([expect.objectContaining({ assetTag: mic.assetTag, statusAtReading: "in_calibration", dueAtReading: "2027-04-30" })]);
 
-    // The bore of the same index completes the pin's clearance: the pin's reading comes with the place's check, so
-    // still three statements, and the answer gives the clearance (1.1272 − 1.1244 = 0.0028 in, inside 0.0010–0.0045).
+    // The bore of the same index completes the pin's clearance: the pin's reading comes back from the write, so
+    // still two statements, and the answer gives the clearance (1.1272 − 1.1244 = 0.0028 in, inside 0.0010–0.0045).
     const gauge = await makeToolInCalibration(t.db, { kind: "telescoping_gauge" });
     const bore = await statementsOf(async () => {
       const res = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin_bore", index: 2, values: [1.1271, 1.1272], toolAssetTags: [gauge.assetTag, mic.assetTag] });
@@ -126,17 +126,17 @@ describe("what a request costs the database, whatever the register holds", () =>
       expect(res.body.clearance).toBeCloseTo(0.0028, 10);
       expect(res.body.completes).toEqual([expect.objectContaining({ label: "Pin to piston clearance no. 2" })]);
     });
-    expect(bore, bore.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(3);
+    expect(bore, bore.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(2);
 
     // Correcting the pin's reading, with a reason: the reading corrected, the sheet with the tools, whether it was
-    // corrected already, the place's check with the bore's reading, the correction: five statements.
+    // corrected already, the correction with the bore's reading: four statements.
     const pin2 = (await m.get(`/api/jobs/${job.id}`)).body.items.find((i: { key: string }) => i.key === "pin").rows.find((r: { index: number }) => r.index === 2).reading;
     const correction = await statementsOf(async () => {
       const res = await m.post(`/api/readings/${pin2.id}/supersede`).send({ values: [1.1243, 1.1244], toolAssetTags: [mic.assetTag], reason: "Read the wrong thimble line." });
       expect(res.status, JSON.stringify(res.body)).toBe(201);
       expect(res.body.clearance).toBeCloseTo(0.0029, 10);
     });
-    expect(correction, correction.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(5);
+    expect(correction, correction.map((q) => q.slice(0, 160)).join("\n")).toHaveLength(4);
 
     // A tool no one has registered is refused, and nothing is recorded.
     const unknown = await m.post(`/api/jobs/${job.id}/readings`).send({ itemKey: "pin_bore", index: 1, values: [1.127, 1.1271], toolAssetTags: ["NO-SUCH-TOOL"] });

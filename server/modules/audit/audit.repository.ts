@@ -15,7 +15,8 @@ export interface AuditEntry {
   at?: Date;
 }
 
-const toRow = (e: AuditEntry) => ({
+/** An entry as the row it appends. */
+export const auditRow = (e: AuditEntry) => ({
   actorId: e.actorId,
   action: e.action,
   entityType: e.entityType,
@@ -26,11 +27,11 @@ const toRow = (e: AuditEntry) => ({
 });
 
 /** The statement that appends one line to the trail, not yet run: for a write that sends its rows in one statement. */
-export const auditInsert = (e: AuditEntry): SQL => insertRows(auditEvents, [toRow(e)]);
+export const auditInsert = (e: AuditEntry): SQL => insertRows(auditEvents, [auditRow(e)]);
 
 /** Appends one line to the audit trail, inside the caller's transaction. */
 export async function recordAudit(tx: DbOrTx, e: AuditEntry): Promise<void> {
-  await tx.insert(auditEvents).values(toRow(e));
+  await tx.insert(auditEvents).values(auditRow(e));
 }
 
 /** Appends many lines at once (an import of thousands of tools), inside the caller's transaction. */
@@ -38,7 +39,7 @@ export async function recordAuditMany(tx: DbOrTx, entries: AuditEntry[]): Promis
   for (let i = 0; i < entries.length; i += 1000) {
     const chunk = entries.slice(i, i + 1000);
     // Every line needs the same columns in one multi-row insert.
-    await tx.insert(auditEvents).values(chunk.map((e) => ({ at: e.at ?? sql`now()`, ...toRow(e) })));
+    await tx.insert(auditEvents).values(chunk.map((e) => ({ at: e.at ?? sql`now()`, ...auditRow(e) })));
   }
 }
 

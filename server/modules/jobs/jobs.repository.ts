@@ -7,7 +7,7 @@ import { jobState, jobStatusCondition } from "./job-state";
 import type { JobListStatus } from "../../../shared/jobs/jobs.schemas";
 import { listPage, pageOffset } from "../../db/paging";
 import { columnsOf } from "../../db/columns";
-import { executePrepared } from "../../db/prepared";
+import { executePrepared, executeShaped } from "../../db/prepared";
 
 export type JobRow = typeof jobs.$inferSelect;
 
@@ -77,19 +77,27 @@ export const jobsRepository = {
   /**
    * What a reading's write needs of its sheet — the job, its table's unit and expansion coefficient, and whether it is
    * signed — in one indexed query, whatever the sheet's size. Nothing is locked here: the write itself takes the
-   * sheet's and the place's locks and looks again (readingsRepository.insertRecorded). `alsoRead`, a select asked in
-   * the same statement (the reading's tools with their status): its rows come back as `alsoRead`, one per row it gives
-   * (none when it gives none), each beside the job's columns.
+   * sheet's and the place's locks and looks again (readingsRepository.insertRecorded). `also.alsoRead`, a select asked
+   * in the same statement (the reading's tools with their status): its rows come back as `alsoRead`, one per row it
+   * gives (none when it gives none), each beside the job's columns. `also.flag`, a condition asked beside (the
+   * gauge-study flag; it may name the sheet's columns as `jobs.…`), comes back as `flagged`. Both are built once per
+   * `also.shape`, with placeholders whose values are `also.values`.
    */
-  async forReading(db: DbOrTx, id: string, alsoRead?: SQL): Promise<JobForReading | undefined> {
-    // Written as SQL: every reading runs it, and the query builder's cost was more than the statement's own. A named
-    // prepared statement: planned once per connection (its text is one of a few, its plan index lookups).
-    const res = await executePrepared(db, sql`
-      select ${JOB.list}, lt.unit as "tableUnit", lt.expansion_per_k as "tableExpansionPerK", ${state.signed} as signed
-        ${alsoRead ? sql`, x.*` : sql``}
-      from jobs join limit_tables lt on lt.id = jobs.limit_table_id
-      ${alsoRead ? sql`left join (${alsoRead}) x on true` : sql``}
-      where jobs.id = ${id}`);
+  async forReading(db: DbOrTx, id: string, also?: { shape: string; alsoRead: () => SQL; flag: () => SQL; values: Record<string, unknown> }): Promise<JobForReading | undefined> {
+    // Written as SQL: every reading runs it, and the query builder's cost was more than the statement's own. Built once
+    // per shape with placeholders (executeShaped) and run as a named prepared statement: planned once per connection.
+    const res = await executeShaped(
+      db,
+      `job-for-reading|${also?.shape ?? "-"}`,
+      () => sql`
+        select ${JOB.list}, lt.unit as "tableUnit", lt.expansion_per_k as "tableExpansionPerK", ${state.signed} as signed,
+          ${also ? also.flag() : sql`false`} as "flagged"
+          ${also ? sql`, x.*` : sql``}
+        from jobs join limit_tables lt on lt.id = jobs.limit_table_id
+        ${also ? sql`left join (${also.alsoRead()}) x on true` : sql``}
+        where jobs.id = ${sql.placeholder("jobId")}::uuid`,
+      { ...also?.values, jobId: id },
+    );
     const row = res.rows[0] as Record<string, unknown> | undefined;
     if (!row) return undefined;
     return {
@@ -97,7 +105,8 @@ export const jobsRepository = {
       tableUnit: row.tableUnit as JobForReading["tableUnit"],
       tableExpansionPerK: (row.tableExpansionPerK as string | null) ?? null,
       signed: row.signed === true,
-      alsoRead: alsoRead ? (res.rows as Record<string, unknown>[]) : undefined,
+      flagged: row.flagged === true,
+      alsoRead: also ? (res.rows as Record<string, unknown>[]) : undefined,
     };
   },
 
@@ -135,6 +144,8 @@ export interface JobForReading {
   tableUnit: (typeof limitTables.$inferSelect)["unit"];
   tableExpansionPerK: string | null;
   signed: boolean;
+  /** forReading's `flag`, when it was given (else false). */
+  flagged: boolean;
   /** The rows of forReading's `alsoRead`, when it was given. */
   alsoRead?: Record<string, unknown>[];
 }

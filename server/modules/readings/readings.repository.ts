@@ -1,9 +1,11 @@
-import { and, asc, eq, inArray, isNull, sql, type SQL, type SQLWrapper } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
-import { columnsOf, insertRows } from "../../db/columns";
+import { columnsOf, insertShape, keysOfRow, shapeValues } from "../../db/columns";
+import { executePrepared, executeShaped } from "../../db/prepared";
 import { inList } from "../../db/values";
-import { executePrepared } from "../../db/prepared";
+import { auditRow, type AuditEntry } from "../audit/audit.repository";
+import { auditEvents } from "../audit/audit.table";
 import { driverError } from "../../http/error-handler";
 import { readings, readingTools, readingJudgements } from "./readings.table";
 import { setElements } from "../tools/tools.table";
@@ -41,6 +43,7 @@ const PLACE_REFUSALS = new Set<PlaceRefusal["code"]>(["sheet_signed", "reading_e
 
 /** Every column of a reading, under its TypeScript name (`r.job_id as "jobId"`), for queries written as SQL. */
 const READING = columnsOf(readings, "r");
+const READING_P = columnsOf(readings, "p");
 export type ReadingJudgementInsert = typeof readingJudgements.$inferInsert;
 export type ReadingInsert = typeof readings.$inferInsert;
 
@@ -69,38 +72,6 @@ export const readingsRepository = {
     });
   },
 
-  /**
-   * What a new reading checks at its place once the place is locked, in one statement: the reading that holds the
-   * place now (not asked when `current` is false: a correction names the reading it replaces), `flag`, a condition
-   * asked beside it (the gauge-study flag), and the current readings at the same index of the places in
-   * `partnerKeys` (the other sides of the clearances and the other stations of the tapers the reading completes).
-   */
-  async placeCheck(db: DbOrTx, p: { jobId: string; itemKey: string; index: number; current: boolean; flag: SQL | null; partnerKeys?: string[] }) {
-    const partnerKeys = p.partnerKeys ?? [];
-    const res = await executePrepared(db, sql`
-      select ${
-        p.current
-          ? sql`(select r.id from readings r
-                 where r.job_id = ${p.jobId} and r.item_key = ${p.itemKey} and r.index = ${p.index}
-                   and not exists (select 1 from readings s where s.supersedes_id = r.id)
-                 order by r.taken_at desc limit 1)`
-          : sql`null::uuid`
-      } as "currentId", ${p.flag ?? sql`false`} as flagged
-      ${
-        partnerKeys.length
-          ? sql`, partner.* from (select 1) one left join lateral (
-              select distinct on (r.item_key) ${READING.list} from readings r
-              where r.job_id = ${p.jobId} and r.index = ${p.index} and ${inList(sql`r.item_key`, partnerKeys, "text")}
-                and not exists (select 1 from readings s where s.supersedes_id = r.id)
-              order by r.item_key, r.taken_at desc) partner on true`
-          : sql``
-      }`);
-    const rows = res.rows as Record<string, unknown>[];
-    const partners = new Map<string, ReadingRow>();
-    for (const r of rows) if (partnerKeys.length && r.id != null) partners.set(String(r.itemKey), READING.read(r));
-    return { currentId: (rows[0].currentId as string | null) ?? null, flagged: rows[0].flagged === true, partners };
-  },
-
   /** The refusal of a reading's place guard, when `e` is one (else null). */
   placeRefusal(e: unknown): PlaceRefusal | null {
     const pg = driverError(e);
@@ -125,22 +96,65 @@ export const readingsRepository = {
    * sign-off waits for it and it for a sign-off) and the place's lock, and looks at the place again as committed then.
    * It refuses, and the statement writes nothing, when the sheet was signed (a new reading, `onSigned` false), the
    * place was taken, or the reading corrected was corrected meanwhile (placeRefusal reads which).
+   *
+   * `partnerKeys`: the same statement answers the current readings at the reading's index of these places (the other
+   * sides of the clearances and the other stations of the tapers it completes), as they stood when it began; by item key.
    */
   async insertRecorded(
     db: DbOrTx,
     values: ReadingInsert & { id: string },
     toolRows: Omit<typeof readingTools.$inferInsert, "readingId">[],
     judgement: Omit<ReadingJudgementInsert, "readingId">,
-    audit: SQLWrapper,
-    onSigned: boolean,
-  ) {
-    const guard = sql`tenthwise_reading_place(${values.jobId}::uuid, ${values.itemKey}::text, ${values.index ?? 1}::integer, ${values.supersedesId ?? null}::uuid, ${onSigned}::boolean)`;
-    const parts = [
-      sql`r as (${insertRows(readings, [{ ...values, jobId: guard as unknown as string }])})`,
-      sql`j as (${insertRows(readingJudgements, [{ ...judgement, readingId: values.id }])})`,
-    ];
-    if (toolRows.length) parts.push(sql`t as (${insertRows(readingTools, toolRows.map((t) => ({ ...t, readingId: values.id })))})`);
-    await executePrepared(db, sql`with ${sql.join(parts, sql`, `)} ${audit}`);
+    audit: AuditEntry,
+    opts: { onSigned: boolean; partnerKeys: string[] },
+  ): Promise<Map<string, ReadingRow>> {
+    // Built once per shape (executeShaped): which columns the reading gives, how many tools, the audit line's columns,
+    // whether partners are asked. Every value is a placeholder.
+    const { jobId, ...row } = values;
+    const readingKeys = keysOfRow(row);
+    const judgementRow = { ...judgement, readingId: values.id };
+    const judgementKeys = keysOfRow(judgementRow);
+    const toolLinks = toolRows.map((t) => ({ ...t, readingId: values.id }));
+    const toolKeys = toolLinks.length ? keysOfRow(toolLinks[0]) : [];
+    const line = auditRow(audit);
+    const auditKeys = keysOfRow(line);
+    const withPartners = opts.partnerKeys.length > 0;
+    const shape = `reading-write|${readingKeys}|${judgementKeys}|${toolLinks.length}:${toolKeys}|${auditKeys}|${opts.partnerKeys.length}`;
+    const v: Record<string, unknown> = {
+      "g.job": jobId,
+      "g.item": values.itemKey,
+      "g.index": values.index ?? 1,
+      "g.supersedes": values.supersedesId ?? null,
+      "g.onSigned": opts.onSigned,
+    };
+    shapeValues(readings, row as ReadingInsert, "r.", v);
+    shapeValues(readingJudgements, judgementRow, "j.", v);
+    toolLinks.forEach((t, i) => shapeValues(readingTools, t, `t${i}.`, v));
+    shapeValues(auditEvents, line, "a.", v);
+    opts.partnerKeys.forEach((k, i) => (v[`p.key${i}`] = k));
+    const res = await executeShaped(db, shape, () => {
+      const p = (name: string) => sql.placeholder(name);
+      const guard = sql`tenthwise_reading_place(${p("g.job")}::uuid, ${p("g.item")}::text, ${p("g.index")}::integer, ${p("g.supersedes")}::uuid, ${p("g.onSigned")}::boolean)`;
+      const parts = [
+        sql`r as (${insertShape(readings, ["jobId", ...readingKeys], ["r."], { jobId: guard })})`,
+        sql`j as (${insertShape(readingJudgements, judgementKeys, ["j."])})`,
+      ];
+      if (toolLinks.length) parts.push(sql`t as (${insertShape(readingTools, toolKeys, toolLinks.map((_, i) => `t${i}.`))})`);
+      if (!withPartners) return sql`with ${sql.join(parts, sql`, `)} ${insertShape(auditEvents, auditKeys, ["a."])}`;
+      parts.push(sql`a as (${insertShape(auditEvents, auditKeys, ["a."])})`);
+      return sql`
+        with ${sql.join(parts, sql`, `)}
+        select distinct on (p.item_key) ${READING_P.list} from readings p
+        where p.job_id = ${p("g.job")}::uuid and p.index = ${p("g.index")}::integer and ${inList(sql`p.item_key`, opts.partnerKeys.map((_, i) => p(`p.key${i}`)), "text")}
+          and not exists (select 1 from readings s where s.supersedes_id = p.id)
+        order by p.item_key, p.taken_at desc`;
+    }, v);
+    const partners = new Map<string, ReadingRow>();
+    for (const r of res.rows as Record<string, unknown>[]) {
+      const read = READING_P.read(r);
+      partners.set(read.itemKey, read);
+    }
+    return partners;
   },
 
   /**

@@ -1,10 +1,11 @@
 import { randomUUID } from "node:crypto";
 import { z } from "zod";
+import { sql } from "drizzle-orm";
 import type { Db, DbOrTx } from "../../db/client";
+import { inList } from "../../db/values";
 import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
-import { auditInsert } from "../audit/audit.repository";
 import { statusContext, statusContextOf, toolsByTagsSelect, toolsWithStatusByTags, toolsWithStatusFromRows, type ToolStatusView } from "../tools/tool-status.service";
 import { jobsRepository, type JobForReading } from "../jobs/jobs.repository";
 import { limitTablesRepository } from "../limit-tables/limit-tables.repository";
@@ -182,26 +183,15 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       for (const f of ["tool_overdue", "tool_out_of_tolerance", "tool_quarantined", "tool_never_calibrated"] as const) flags.delete(f);
     }
 
-    // One reading per place (a second one is a correction with a reason), asked in one statement with the gauge-study
-    // flag of a measured size: is the characteristic's latest study with these tools' families not acceptable?
+    // The gauge-study flag of a measured size (is the characteristic's latest study with these tools' families not
+    // acceptable?) came with the sheet. One reading per place (a second one is a correction with a reason) is the
+    // write's own check, under the place's lock.
     const measured = item.kind === "journal" || item.kind === "bore";
     // The places this reading completes (clearances, tapers) at its index, and the other places each is judged from.
     const views = items as LimitItemView[];
     const dependents = dependentItems(views, item.key).filter((d) => place.index <= d.repeat);
     const partnerKeysOf = (d: (typeof dependents)[number]) => [d.boreKey, d.journalKey, ...(d.stationKeys ?? [])].filter((k): k is string => !!k && k !== item.key);
     const partnerKeys = [...new Set(dependents.flatMap(partnerKeysOf))];
-    const check =
-      !extra.supersedesId || measured || partnerKeys.length
-        ? await readingsRepository.placeCheck(db, {
-            jobId: place.jobId,
-            itemKey: item.key,
-            index: place.index,
-            current: !extra.supersedesId,
-            flag: measured ? studyFlagCondition({ limitTableId: job.job.limitTableId, itemKey: item.key, toolFamilyIds: hits.map((h) => h.tool.familyId) }) : null,
-            partnerKeys,
-          })
-        : null;
-    if (check?.currentId) throw placeTaken(item.label, place.index, check.currentId);
 
     const base = {
       jobId: place.jobId,
@@ -264,22 +254,23 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       evidence = { itemKey: item.key, index: place.index, unit: tableUnit, values: [], visualResult: input.visualResult, finding: input.finding };
     }
 
-    if (check?.flagged) flags.add(STUDY_READING_FLAG);
+    if (measured && job.flagged) flags.add(STUDY_READING_FLAG);
     const judged = judgeReading(item, evidence, jctx);
     const verdict = judged.view.verdict;
     const flagList = [...flags];
     const readingId = randomUUID();
     const stored = { ...values, id: readingId, verdict, flags: flagList };
-    const audit = auditInsert({
+    const audit = {
       actorId: user.id,
       action: extra.supersedesId ? "reading.supersede" : "reading.create",
       entityType: "reading",
       entityId: readingId,
       after: { jobId: place.jobId, itemKey: item.key, index: place.index, values: stored.values, tools: tags, flags: flagList, supersedesId: extra.supersedesId, reason: extra.supersedeReason, override: override?.reason },
       at,
-    });
+    };
+    let partnerRows: Awaited<ReturnType<typeof readingsRepository.insertRecorded>>;
     try {
-      await readingsRepository.insertRecorded(
+      partnerRows = await readingsRepository.insertRecorded(
         db,
         stored,
         hits.map((h, i) => {
@@ -288,7 +279,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
         }),
         { rulesVersion: JUDGING_RULES_VERSION, verdict, band: judged.view.band, text: judged.view.text, detail: judged.view, judgedAt: at },
         audit,
-        !!extra.supersedesId,
+        { onSigned: !!extra.supersedesId, partnerKeys },
       );
     } catch (e) {
       // Another write reached the sheet or the place first (between this write's reads and its write).
@@ -299,13 +290,12 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       throw e;
     }
 
-    // The places this reading completes (clearances, tapers), with the partner readings on the sheet (read with the
-    // place's check, after the place's lock).
+    // The places this reading completes (clearances, tapers), with the partner readings on the sheet (read by the write).
     const completes: ReadingResult["completes"] = [];
     for (const d of dependents) {
       const partners = new Map<string, ReadingEvidence>();
       for (const k of partnerKeysOf(d)) {
-        const pr = check?.partners.get(k);
+        const pr = partnerRows.get(k);
         if (pr) partners.set(k, evidenceOfRow(pr));
       }
       const j = judgeRow(views, d, place.index, (k, i) => (i !== place.index ? undefined : k === item.key ? evidence : partners.get(k)), jctx);
@@ -322,9 +312,27 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     return { id: readingId, ...result, verdict, verdictText: judged.view.text, flags: flagList, place: judged.view, completes, rulesVersion: JUDGING_RULES_VERSION };
   }
 
-  /** What the write needs of the sheet, with the tools named and their status, in one statement; refused when signed unless `allowSigned`. */
-  async function openJob(jobId: string, allowSigned: boolean, tags: string[]) {
-    const job = await jobsRepository.forReading(db, jobId, tags.length ? toolsByTagsSelect(tags) : undefined);
+  /**
+   * What the write needs of the sheet, with the tools named and their status and the gauge-study flag of the item with
+   * these tools' families, in one statement; refused when signed unless `allowSigned`.
+   */
+  async function openJob(jobId: string, allowSigned: boolean, itemKey: string, tags: string[]) {
+    // One placeholder per tag (inList): the statement's shape is the number of tools named.
+    const tagSlots = tags.map((_, i) => sql.placeholder(`tag${i}`));
+    const also = tags.length
+      ? {
+          shape: `tools-and-study-flag|${tags.length}`,
+          alsoRead: () => toolsByTagsSelect(tagSlots),
+          flag: () =>
+            studyFlagCondition({
+              limitTableId: sql`jobs.limit_table_id`,
+              itemKey: sql.placeholder("itemKey"),
+              toolFamilyIds: sql`select t.family_id from tools t where ${inList(sql`t.asset_tag`, tagSlots, "text")}`,
+            }),
+          values: { ...Object.fromEntries(tags.map((tag, i) => [`tag${i}`, tag])), itemKey },
+        }
+      : undefined;
+    const job = await jobsRepository.forReading(db, jobId, also);
     if (!job) throw notFound("job", jobId);
     if (job.signed && !allowSigned) throw signedRefusal();
     return job;
@@ -339,7 +347,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       // The sheet and the tools named with their status in one statement: the write looks at the sheet and the place
       // again under their locks; the tools are not what the locks guard (a tool's status may change while a reading
       // waits either way).
-      const job = await openJob(jobId, false, tagsOf(input));
+      const job = await openJob(jobId, false, input.itemKey, tagsOf(input));
       return record(job, { jobId, itemKey: input.itemKey, index }, input, user, settings);
     },
 
@@ -349,7 +357,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
       const old = await readingsRepository.findById(db, readingId);
       if (!old) throw notFound("reading", readingId);
       // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
-      const job = await openJob(old.jobId, true, tagsOf(input));
+      const job = await openJob(old.jobId, true, old.itemKey, tagsOf(input));
       const newer = await readingsRepository.successorOf(db, readingId);
       if (newer) throw alreadyCorrected(newer.id);
       const { reason, ...rest } = input;

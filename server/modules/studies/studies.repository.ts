@@ -1,4 +1,4 @@
-import { asc, eq, inArray, sql, type SQL } from "drizzle-orm";
+import { asc, eq, inArray, sql, type Placeholder, type SQL } from "drizzle-orm";
 import { inList, pgArray } from "../../db/values";
 import type { DbOrTx } from "../../db/client";
 import { users } from "../users/users.table";
@@ -289,12 +289,19 @@ export const studiesRepository = {
 
   /**
    * "The latest finished study of this characteristic with any of these families is not acceptable", as an SQL
-   * condition: for a statement that asks it beside other things (recording a reading asks it with its place's check).
+   * condition: for a statement that asks it beside other things (recording a reading asks it with its sheet). The
+   * table and the families may be given as SQL of that statement (the sheet's table column, a select of family ids).
    */
-  notAcceptableLatest: (filter: { limitTableId: string; itemKey: string; familyIds: string[] }): SQL =>
-    filter.familyIds.length
-      ? sql`exists (select 1 from (${latestSelect(sql`${inList(sql`s.family_id`, filter.familyIds, "uuid")} and s.table_root_id = (${rootOf(filter.limitTableId)}) and s.item_key = ${filter.itemKey}`)}) l where l.verdict = 'not_acceptable')`
-      : sql`false`,
+  notAcceptableLatest: (filter: { limitTableId: string | SQL; itemKey: string | Placeholder; familyIds: string[] | SQL }): SQL => {
+    const families = Array.isArray(filter.familyIds)
+      ? filter.familyIds.length
+        ? inList(sql`s.family_id`, filter.familyIds, "uuid")
+        : null
+      : sql`s.family_id in (${filter.familyIds})`;
+    return families
+      ? sql`exists (select 1 from (${latestSelect(sql`${families} and s.table_root_id = (${rootOf(filter.limitTableId)}) and s.item_key = ${filter.itemKey}`)}) l where l.verdict = 'not_acceptable')`
+      : sql`false`;
+  },
 
   /** Latest finished studies for one family, or for every characteristic of one table's lineage. */
   async latest(db: DbOrTx, filter: { familyId?: string; limitTableId?: string; familyIds?: string[]; itemKey?: string }): Promise<LatestRow[]> {
@@ -378,7 +385,7 @@ export const studiesRepository = {
 };
 
 /** The root of a table's lineage, as a scalar subquery. */
-function rootOf(limitTableId: string) {
+function rootOf(limitTableId: string | SQL) {
   return sql`with recursive up(id, supersedes_id) as (
       select id, supersedes_id from limit_tables where id = ${limitTableId}
       union all select t.id, t.supersedes_id from limit_tables t join up on t.id = up.supersedes_id

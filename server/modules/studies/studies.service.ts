@@ -1,4 +1,4 @@
-import type { SQL } from "drizzle-orm";
+import type { Placeholder, SQL } from "drizzle-orm";
 import { randomUUID } from "node:crypto";
 import { z } from "zod";
 import type { Db, DbOrTx, Tx } from "../../db/client";
@@ -460,6 +460,6 @@ export function studiesService(deps: { db: Db; clock: Clock; config: { SHOP_TIME
  * that characteristic is not acceptable, as an SQL condition: the readings service asks it inside its transaction,
  * in the statement that checks the reading's place (one round trip fewer on every reading).
  */
-export function studyFlagCondition(r: { limitTableId: string; itemKey: string; toolFamilyIds: string[] }): SQL {
-  return studiesRepository.notAcceptableLatest({ limitTableId: r.limitTableId, itemKey: r.itemKey, familyIds: [...new Set(r.toolFamilyIds)] });
+export function studyFlagCondition(r: { limitTableId: string | SQL; itemKey: string | Placeholder; toolFamilyIds: string[] | SQL }): SQL {
+  return studiesRepository.notAcceptableLatest({ limitTableId: r.limitTableId, itemKey: r.itemKey, familyIds: Array.isArray(r.toolFamilyIds) ? [...new Set(r.toolFamilyIds)] : r.toolFamilyIds });
 }

@@ -1,4 +1,4 @@
-import { sql, type SQL } from "drizzle-orm";
+import { sql, type Placeholder, type SQL } from "drizzle-orm";
 import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { inList, isoInstant, pgArray } from "../../db/values";
@@ -96,10 +96,11 @@ export type ToolWithStatus = { tool: ToolRow; kind: string; status: ToolStatusVi
 
 /**
  * The select behind toolsWithStatusByTags, for a caller that runs it inside another statement (recording a reading
- * asks it in the statement that locks the sheet and the place: one round trip fewer); its rows go to
- * toolsWithStatusFromRows. Every column it names is the tool's or its status's (none is `job.…`).
+ * asks it in the statement that reads the sheet: one round trip fewer); its rows go to toolsWithStatusFromRows. Every
+ * column it names is the tool's or its status's (none is `job.…`). The tags may be placeholders (a statement built
+ * once per shape), one for each tag.
  */
-export function toolsByTagsSelect(tags: string[]): SQL {
+export function toolsByTagsSelect(tags: readonly (string | Placeholder)[]): SQL {
   return statusSelect(inList(sql`t.asset_tag`, tags, "text"), {
     columns: sql`, ${TOOL.list}, f.kind as family_kind`,
     joins: sql`join families f on f.id = t.family_id`,
