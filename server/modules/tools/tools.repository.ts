@@ -9,7 +9,7 @@ import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
 import { executePrepared } from "../../db/prepared";
 import { columnsOf } from "../../db/columns";
-import { statusColumns, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
+import { eventsAfterSql, statusColumns, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 
 export type ToolRow = typeof tools.$inferSelect;
@@ -200,7 +200,7 @@ export const toolsRepository = {
     // From the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL drops
     // the left joins, and a count by status is a count on tool_states' indexes alone.
     // Was the clock set back (a tool with an event after `at`)? Asked with the count: one statement fewer.
-    const setBack = sql`exists (select 1 from tool_states where settled_at > ${at.toISOString()}::timestamptz)`;
+    const setBack = eventsAfterSql(at);
     const countQ = paging
       ? sql`select count(*)::int as total, ${setBack} as clock_set_back
           from tool_states s
