@@ -1,7 +1,10 @@
 import { sql, type SQL } from "drizzle-orm";
 import type { AnyPgColumn } from "drizzle-orm/pg-core";
 
-/** The sheet's row of job_activity (kept by triggers on readings and sign-offs) meets a condition. */
+/**
+ * The sheet's row of job_activity (kept by triggers on readings and sign-offs) meets a condition. SIGNED is also the
+ * condition of the reading's place guard, tenthwise_reading_place (migration 0024): change both together.
+ */
 const AWAITING = sql.raw("a.last_reading_at is not null and (a.last_signed_at is null or a.last_reading_at > a.last_signed_at)");
 const SIGNED = sql.raw("a.last_signed_at is not null and (a.last_reading_at is null or a.last_reading_at <= a.last_signed_at)");
 
