@@ -112,7 +112,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     }
     const tags = tagsOf(input);
     if (tags.length !== input.toolAssetTags.length) badInput(["toolAssetTags"], "A tool is named twice.");
-    // Each tool with its status at this instant (the one status derivation decides): read in the statement that locked
+    // Each tool with its status at this instant (the one status derivation decides): read in the statement that read
     // the sheet when the caller asked it there, else in one statement now.
     const named = job.alsoRead ? await toolsWithStatusFromRows(db, job.alsoRead, at, statusContextOf(settings)) : await toolsWithStatusByTags(db, tags, at, statusContextOf(settings));
     const hits = tags.map((tag) => {
