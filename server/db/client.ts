@@ -53,6 +53,10 @@ export function createDb(url: string, maxOrOptions: number | DbOptions = {}) {
     connectionTimeoutMillis: opts.connectTimeoutMs ?? DB_DEFAULTS.connectTimeoutMs,
     application_name: opts.applicationName ?? "tenthwise",
     keepAlive: true,
+    // A connection is replaced after an hour (when next idle). Statements whose text names the shop's date (statusNow)
+    // are a new prepared statement each day on every connection that runs them; a connection kept busy for months
+    // would keep every day's.
+    maxLifetimeSeconds: 60 * 60,
   });
   const report = opts.onConnectionError ?? (() => undefined);
   pool.on("error", report);
