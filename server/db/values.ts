@@ -18,10 +18,11 @@ export function isoInstant(v: unknown): string | null {
 
 /**
  * A PostgreSQL array literal for one parameter (`${pgArray(ids)}::uuid[]`): Drizzle's `sql` would spread a JS array
- * into one parameter per element, and thousands of parameters cost more to bind than the query to run.
+ * into one parameter per element, and thousands of parameters cost more to bind than the query to run. `null` is an
+ * element that is NULL.
  */
-export function pgArray(values: readonly string[]): string {
-  return `{${values.map((v) => `"${v.replace(/[\\"]/g, "\\$&")}"`).join(",")}}`;
+export function pgArray(values: readonly (string | null)[]): string {
+  return `{${values.map((v) => (v == null ? "NULL" : `"${v.replace(/[\\"]/g, "\\$&")}"`)).join(",")}}`;
 }
 
 /**

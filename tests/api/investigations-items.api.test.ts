@@ -341,3 +341,28 @@ describe("changing a disposition and picking the remeasurement", () => {
     expect(third.body.dispositions[0].supersedesId).toBe(changed.body.dispositions[0].id);
   });
 });
+
+describe("an affected item keeps the sheet's words and facts as they were recorded", () => {
+  it("a place named with quotes, a backslash and a degree sign reads the same on the item; its sheet, place, time and recorded verdict are the reading's", async () => {
+    const { tool, bad } = await failingMicrometer("MIC-WORDS-1");
+    const label = 'Cam bore "B" \\ 90° side';
+    const serial = 'HF-"Q"\\7';
+    const { table } = await makeLimitTable(t.db, [{ key: "bore_b", label, kind: "bore", min: "0.4355", max: "0.4370", repeat: 2 }]);
+    const job = await makeJob(t.db, table.id, { engineSerial: serial });
+    const r = await makeReading(t.db, { jobId: job.id, itemKey: "bore_b", kind: "bore", index: 2, values: ["0.4369", "0.4368"], verdict: "within_limits", takenAt: "2026-03-02T16:30:00Z", toolIds: [tool.id] });
+    const id = await find({ kind: "as_found_failure", toolId: tool.id, calibrationId: bad.id, at: new Date(FINDING_AT), actorId: null });
+
+    const items = await allItems(id);
+    expect(items).toHaveLength(1);
+    const [item] = items;
+    expect(item).toMatchObject({ readingId: r.id, index: 2, takenAt: "2026-03-02T16:30:00.000Z", originalVerdict: "within_limits", job: { id: job.id, engineSerial: serial } });
+    expect(item.places[0].label).toBe(`${label} no. 2`);
+    expect(item.places[0].text.startsWith(`${label} no. 2: `)).toBe(true);
+    expect(item.basis).toContain(`${label} no. 2: `);
+    // The sheet's serial, quotes and all, finds the item; the recorded verdict filters it.
+    const a = await t.agent("auditor");
+    const bySerial = await a.get(`/api/investigations/${id}/items?q=${encodeURIComponent(serial)}`);
+    expect(bySerial.body.items.map((i: { id: string }) => i.id)).toEqual([item.id]);
+    expect((await a.get(`/api/investigations/${id}/items?verdict=outside_limits`)).body.total).toBe(0);
+  });
+});

@@ -127,6 +127,7 @@ async function rejudgeReadings(tx: DbOrTx, rs: repo.ReadingRow[], errors: ToolEr
           marginAfter: s(j.marginAfter),
           correctedValue: s(j.correctedValue),
           rejudged: { quantity: j.quantity, measuredValue: j.measuredValue, bandLow: j.bandLow, bandHigh: j.bandHigh, verdictNow: j.verdictNow, places: j.places },
+          copied: { jobId: r.jobId, sheetSerial: job.engineSerial, takenBy: r.takenBy, takenAt: r.takenAt, placeIndex: r.index, recordedVerdict: r.verdict },
         });
       }
     }
@@ -278,6 +279,7 @@ export async function openStandardInvestigation(
         marginBefore: s(rj.marginBefore),
         marginAfter: s(rj.marginAfter),
         correctedValue: s(rj.correctedValue),
+        copied: { jobId: null, sheetSerial: null, takenBy: null, takenAt: cal.performedAt, placeIndex: null, recordedVerdict: null },
       });
       if (!rj.verdictCouldChange) continue;
       // The calibration vouched for the tool until its next one; the readings of that stretch are re-judged with the tool's true as-left error.

@@ -1,4 +1,5 @@
-import { pgTable, uuid, text, numeric, boolean, jsonb, timestamp, integer, index, uniqueIndex, type AnyPgColumn } from "drizzle-orm/pg-core";
+import { sql } from "drizzle-orm";
+import { pgTable, uuid, text, numeric, boolean, json, jsonb, timestamp, integer, index, uniqueIndex, type AnyPgColumn } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { tools } from "../tools/tools.table";
 import { standards } from "../standards/standards.table";
@@ -51,8 +52,12 @@ export const investigationItems = pgTable(
     marginBefore: numeric("margin_before"),
     marginAfter: numeric("margin_after"),
     correctedValue: numeric("corrected_value"),
-    /** The measured quantity, its span over the error band and every place re-judged (see shared/investigations/affected-reading). */
-    rejudged: jsonb("rejudged"),
+    /**
+     * The measured quantity, its span over the error band and every place re-judged (see
+     * shared/investigations/affected-reading). Kept as written (json, not jsonb): nothing queries inside it, and an
+     * investigation writes thousands at once, where jsonb's conversion took twice as long as the rest of the values.
+     */
+    rejudged: json("rejudged"),
     // Copied from the reading (or the cascade's calibration) when the item is written; evidence never changes, so the
     // copies never go stale. They let a page of thousands of items come off one index in the order it is shown.
     /** The reading's check sheet and its engine serial (null for a cascade's calibration: those come before any sheet). */
@@ -72,7 +77,8 @@ export const investigationItems = pgTable(
     // The default order of the affected readings: could change first, then by sheet, time and place.
     index("investigation_items_page_idx").on(t.investigationId, t.verdictCouldChange.desc().nullsFirst(), t.sheetSerial.asc().nullsFirst(), t.takenAt, t.placeIndex.asc().nullsFirst(), t.id),
     index("investigation_items_reading_idx").on(t.readingId),
-    index("investigation_items_calibration_idx").on(t.calibrationId),
+    // Only a reference standard's cascade names calibrations; a tool's items would each add an entry never looked up.
+    index("investigation_items_calibration_idx").on(t.calibrationId).where(sql`${t.calibrationId} is not null`),
     index("investigation_items_tool_idx").on(t.toolId),
   ],
 );

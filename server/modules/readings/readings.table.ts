@@ -1,3 +1,4 @@
+import { sql } from "drizzle-orm";
 import { pgTable, uuid, text, integer, numeric, boolean, jsonb, timestamp, index, primaryKey, date, uniqueIndex } from "drizzle-orm/pg-core";
 import { users } from "../users/users.table";
 import { jobs } from "../jobs/jobs.table";
@@ -53,10 +54,12 @@ export const readings = pgTable(
     // A sheet's last reading (is it signed? when was it last worked on?) is one index probe, whatever the sheet's size.
     index("readings_job_taken_idx").on(t.jobId, t.takenAt),
     index("readings_taken_by_idx").on(t.takenBy),
-    index("readings_supersedes_idx").on(t.supersedesId),
-    index("readings_go_leaf_idx").on(t.goLeafId),
-    index("readings_no_go_leaf_idx").on(t.noGoLeafId),
-    index("readings_override_by_idx").on(t.overrideBy),
+    // Columns empty on nearly every reading (a correction, a feeler leaf, an override) index only the rows that name
+    // something: every lookup asks for one value, and no reading adds an entry it can never be found by.
+    index("readings_supersedes_idx").on(t.supersedesId).where(sql`${t.supersedesId} is not null`),
+    index("readings_go_leaf_idx").on(t.goLeafId).where(sql`${t.goLeafId} is not null`),
+    index("readings_no_go_leaf_idx").on(t.noGoLeafId).where(sql`${t.noGoLeafId} is not null`),
+    index("readings_override_by_idx").on(t.overrideBy).where(sql`${t.overrideBy} is not null`),
   ],
 );
 
