@@ -11,6 +11,8 @@ else
   say "building the app…"
   npm run --silent build >/dev/null
 fi
+# The cluster gets the cache npm start gives the shop's (scripts/lib.sh pg_memory_opts).
+export PG_SIZED=1
 if [ -n "${BENCH_DIR:-}" ]; then
   # A kept cluster (with --reuse, a filled database of the same scale is measured again without refilling).
   TMP="$BENCH_DIR"; mkdir -p "$TMP"; chmod 755 "$TMP"

@@ -347,6 +347,7 @@ async function measureScale(tools: number) {
   type Result = { app: number[]; floor: number[]; appRps: number[]; floorRps: number[]; codes: Map<number, number> };
   const results = new Map<string, Result>();
   const extra: { investigation_open: number[]; reminder_run: number[]; reminder_run_nothing_new: number[] } = { investigation_open: [], reminder_run: [], reminder_run_nothing_new: [] };
+  const batchPools: pg.Pool[] = [];
   try {
     const db = new pg.Client({ connectionString: adminUrl });
     await db.connect();
@@ -363,6 +364,10 @@ async function measureScale(tools: number) {
 
     const sessions = Object.fromEntries(await Promise.all((["mechanic", "quality", "inspector", "admin"] as const).map(async (r) => [r, await signIn(app.url, r)] as const)));
     const pick = <T>(xs: T[]) => xs[Math.floor(Math.random() * xs.length)];
+    // The in-process batches (opening an investigation, the reminder run) run on one pool kept across the rounds, as
+    // they do on the app's, which keeps its connections between requests (DB_IDLE_TIMEOUT_MS).
+    const inProcess = createDb(urls.runtimeUrl, { max: 3, idleTimeoutMs: loadConfig({ DATABASE_URL: urls.runtimeUrl }).DB_IDLE_TIMEOUT_MS });
+    batchPools.push(inProcess.pool);
     for (let round = 1; round <= ROUNDS; round++) {
       let place = 0;
       let current: Place | null = null;
@@ -389,7 +394,7 @@ async function measureScale(tools: number) {
       // Opening an investigation (in-process, as a lost-tool report or an out-of-tolerance calibration does inside its
       // own transaction): the re-judging of every affected reading and the insert of the items.
       if (busy && wanted("investigation_open")) {
-        const { db: idb, pool: ipool } = createDb(urls.runtimeUrl, 2);
+        const { db: idb, pool: ipool } = inProcess;
         const t = performance.now();
         const opened = await idb.transaction((tx) => onOutOfToleranceFinding(tx, { clock: systemClock, timeZone: "America/Chicago" }, { kind: "lost", toolId: busy, at: new Date(), actorId: null }));
         extra.investigation_open.push(performance.now() - t);
@@ -398,7 +403,6 @@ async function measureScale(tools: number) {
           const [{ n }] = (await ipool.query("select count(*)::int as n from investigation_items where investigation_id = $1", [opened.investigationId])).rows;
           if (round === 1) console.log(`  investigation opened over the ${n} readings ${BUSY_TOOL} took since it was last known good`);
         }
-        await ipool.end();
       }
       for (const m of MEASURES) {
         if (m.path(ctx) === null || !wanted(m.name)) continue;
@@ -423,12 +427,11 @@ async function measureScale(tools: number) {
       await admin.connect();
       await admin.query("delete from reminder_log");
       await admin.end();
-      const { db: rdb, pool } = createDb(urls.runtimeUrl, 3);
+      const { db: rdb, pool } = inProcess;
       let sent = 0;
       const t = performance.now();
       await sendDueReminders({ db: rdb, pool, clock: systemClock, mailer: { send: async () => void sent++ }, config, logger: pino({ level: "silent" }) }, "cli");
       extra.reminder_run.push(performance.now() - t);
-      await pool.end();
       if (round === 1) console.log(`  reminder run sent ${sent} digest(s)`);
       // A run straight after has every reminder due already sent, the steady state of a scheduled run: the admin's
       // "Run reminders now" on the built app, so it sends nothing and still judges every tool that is due.
@@ -441,6 +444,7 @@ async function measureScale(tools: number) {
   } finally {
     app.child.kill("SIGTERM");
     floor.child.kill("SIGTERM");
+    await Promise.all(batchPools.map((p) => p.end()));
   }
   return { tools, results, extra };
 }

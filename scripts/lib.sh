@@ -63,7 +63,24 @@ reachable_data_dir() {
   echo "$wanted"
 }
 
+# pg_memory_opts: PostgreSQL's own cache sized for the machine, where its default (128 MB) would hold a few percent of
+# a large shop's database and every other page would be copied in from the system's cache as it is read. A quarter of
+# the memory (of the container's limit, when lower), as PostgreSQL's manual suggests for a starting value, at least
+# the default and at most 4 GB: the app and the browser tests share the machine.
+pg_memory_opts() {
+  local kb limit mb
+  kb="$(awk '/^MemTotal:/ {print $2}' /proc/meminfo 2>/dev/null)"; kb="${kb:-0}"
+  limit="$(cat /sys/fs/cgroup/memory.max 2>/dev/null || echo max)"
+  if [ "$limit" != max ] && [ -n "$limit" ] && [ $((limit / 1024)) -lt "$kb" ]; then kb=$((limit / 1024)); fi
+  mb=$((kb / 4 / 1024))
+  [ "$mb" -gt 4096 ] && mb=4096
+  [ "$mb" -lt 128 ] && mb=128
+  echo "-c shared_buffers=${mb}MB"
+}
+
 # start_cluster DIR PORT AUTH(trust|password) [PWFILE] [FAST]
+# FAST (throwaway clusters) turns durability off and keeps PostgreSQL's default cache, unless PG_SIZED=1 (the
+# benchmark, which should measure the cache the app runs with).
 start_cluster() {
   local dir="$1" port="$2" auth="$3" pwfile="${4:-}" fast="${5:-}"
   local pgdata="$dir/pg"
@@ -84,6 +101,7 @@ start_cluster() {
   fi
   local opts="-c listen_addresses=127.0.0.1 -p $port -k $pgdata"
   [ -n "$fast" ] && opts="$opts -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=300"
+  if [ -z "$fast" ] || [ "${PG_SIZED:-}" = 1 ]; then opts="$opts $(pg_memory_opts)"; fi
   as_pg "$PGBIN/pg_ctl" -D "$pgdata" -l "$pgdata/server.log" -w -o "$opts" start >/dev/null \
     || { cat "$pgdata/server.log" >&2; die "PostgreSQL did not start (log above)"; }
 }

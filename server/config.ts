@@ -14,6 +14,8 @@ const ConfigSchema = z.object({
   DB_STATEMENT_TIMEOUT_MS: z.coerce.number().int().min(0).default(30_000),
   DB_IDLE_IN_TRANSACTION_TIMEOUT_MS: z.coerce.number().int().min(0).default(15_000),
   DB_LOCK_TIMEOUT_MS: z.coerce.number().int().min(0).default(10_000),
+  /** How long a pooled connection may stay idle before it is closed (see server/db/client.ts). */
+  DB_IDLE_TIMEOUT_MS: z.coerce.number().int().min(1_000).default(10 * 60_000),
   SESSION_SECRET: z.string().min(16, "SESSION_SECRET must be at least 16 characters").default("tenthwise-dev-session-secret-change-me"),
   PUBLIC_URL: z.string().url().optional(),
   SHOP_TIME_ZONE: z.string().default("America/Chicago"),

@@ -21,6 +21,7 @@ export async function startServer(env: NodeJS.ProcessEnv = process.env) {
     statementTimeoutMs: config.DB_STATEMENT_TIMEOUT_MS,
     idleInTransactionMs: config.DB_IDLE_IN_TRANSACTION_TIMEOUT_MS,
     lockTimeoutMs: config.DB_LOCK_TIMEOUT_MS,
+    idleTimeoutMs: config.DB_IDLE_TIMEOUT_MS,
     // A restart of PostgreSQL ends every idle connection at once: one line, not one per connection.
     onConnectionError: (err) => {
       if (Date.now() - lastReported < 5_000) return;
