@@ -70,8 +70,9 @@ reachable_data_dir() {
 pg_memory_opts() {
   local kb limit mb
   kb="$(awk '/^MemTotal:/ {print $2}' /proc/meminfo 2>/dev/null)"; kb="${kb:-0}"
-  limit="$(cat /sys/fs/cgroup/memory.max 2>/dev/null || echo max)"
-  if [ "$limit" != max ] && [ -n "$limit" ] && [ $((limit / 1024)) -lt "$kb" ]; then kb=$((limit / 1024)); fi
+  # The container's limit: cgroup v2 (memory.max, "max" when none), else v1 (a huge number when none).
+  limit="$(cat /sys/fs/cgroup/memory.max 2>/dev/null || cat /sys/fs/cgroup/memory/memory.limit_in_bytes 2>/dev/null || echo max)"
+  case "$limit" in '' | max | *[!0-9]*) ;; *) [ $((limit / 1024)) -lt "$kb" ] && kb=$((limit / 1024)) ;; esac
   mb=$((kb / 4 / 1024))
   [ "$mb" -gt 4096 ] && mb=4096
   [ "$mb" -lt 128 ] && mb=128
