@@ -8,13 +8,15 @@ import compression from "compression";
 import { pinoHttp } from "pino-http";
 import { pino } from "pino";
 import { OpenApiRegistry } from "./openapi/registry";
-import { requestLog } from "./http/request-log";
+import { nextRequestId, requestLog } from "./http/request-log";
+import { fixedHeadersOf, quickGets } from "./http/quick-get";
 import { compressWholeAnswers } from "./http/compress-answer";
 import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
-import { authRoutes, configurePassport } from "./auth/auth.routes";
+import { authRoutes, configurePassport, toSessionUser } from "./auth/auth.routes";
+import { signedInUserIfKnown } from "./modules/users/signed-in-cache";
 import { csrfProtection } from "./auth/csrf";
 import { SessionStore } from "./auth/session-store";
-import { moduleRouters } from "./modules";
+import { moduleRouters, quickGetRoutes } from "./modules";
 import type { AppDeps, AppServices } from "./app-deps";
 
 /** Builds the Express app; only server/index.ts listens. */
@@ -25,32 +27,17 @@ export function createApp(services: AppServices) {
   app.set("trust proxy", "loopback");
   app.disable("x-powered-by");
 
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        directives: {
-          "img-src": ["'self'", "data:", "blob:"],
-          "media-src": ["'self'", "blob:"],
-          "upgrade-insecure-requests": services.config.COOKIE_SECURE ? [] : null,
-        },
+  const securityHeaders = helmet({
+    contentSecurityPolicy: {
+      directives: {
+        "img-src": ["'self'", "data:", "blob:"],
+        "media-src": ["'self'", "blob:"],
+        "upgrade-insecure-requests": services.config.COOKIE_SECURE ? [] : null,
       },
-      strictTransportSecurity: services.config.COOKIE_SECURE,
-    }),
-  );
-  // req.log: a child logger with the request's id. The request line itself is requestLog's: one line
-  // at info (method, path, status, ms, user), the headers only at debug.
-  app.use(pinoHttp({ logger, quietReqLogger: true, quietResLogger: true, autoLogging: false }));
-  app.use(requestLog());
-  // Answers and the client's files travel compressed when the browser accepts it; progress streams
-  // (application/x-ndjson) are left alone so each line arrives when it is written. Answers are compressed anew for
-  // every request, so at the fastest settings: a 1,000-reading check sheet (1.8 MB of JSON) takes about 2 ms in
-  // brotli instead of 14 ms, for 46 kB instead of 39 kB. The client's files keep the defaults (smaller, and cached).
-  const compressible = (req: Request, res: Response) => !String(res.getHeader("Content-Type") ?? "").startsWith("application/x-ndjson") && compression.filter(req, res);
-  const compressAnswer = compression({ filter: compressible, level: 1, brotli: { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } } });
-  const compressFile = compression({ filter: compressible });
-  app.use((req, res, next) => (req.path.startsWith("/api/") ? compressAnswer : compressFile)(req, res, next));
-  app.use("/api", compressWholeAnswers());
-  app.use(express.json({ limit: "5mb" }));
+    },
+    strictTransportSecurity: services.config.COOKIE_SECURE,
+  });
+  const logRequest = requestLog();
 
   // The session table comes with the migrations (the runtime role creates no tables). Pruning is a
   // DELETE of expired rows; two instances pruning at once is harmless. The expiry is moved forward at
@@ -62,15 +49,52 @@ export function createApp(services: AppServices) {
     pruneSessionInterval: services.config.NODE_ENV === "test" ? false : 15 * 60,
     errorLog: (...args: unknown[]) => logger.warn({ args }, "session store"),
   });
+  const sessionCookie = { name: "tenthwise.sid", secret: services.config.SESSION_SECRET, secure: services.config.COOKIE_SECURE, maxAgeMs: 12 * 60 * 60 * 1000 };
+
+  // A tool's status asked with a session and person this instance read moments ago is answered here, before the
+  // middleware below, with what it would have added (server/http/quick-get.ts); anything else goes on.
+  app.use(
+    quickGets({
+      routes: quickGetRoutes(deps),
+      cookie: sessionCookie,
+      signedIn: (sid) => {
+        const id = store.signedInFromCache(sid);
+        const person = id === null ? undefined : signedInUserIfKnown(id);
+        return person && person.active ? toSessionUser(person) : null;
+      },
+      headers: fixedHeadersOf(securityHeaders),
+      begin: (req, res) => {
+        req.id = nextRequestId();
+        req.log = logger.child({ reqId: req.id });
+        logRequest(req, res, () => undefined);
+      },
+    }),
+  );
+  app.use(securityHeaders);
+  // req.log: a child logger with the request's id. The request line itself is requestLog's: one line
+  // at info (method, path, status, ms, user), the headers only at debug.
+  app.use(pinoHttp({ logger, genReqId: nextRequestId, quietReqLogger: true, quietResLogger: true, autoLogging: false }));
+  app.use(logRequest);
+  // Answers and the client's files travel compressed when the browser accepts it; progress streams
+  // (application/x-ndjson) are left alone so each line arrives when it is written. Answers are compressed anew for
+  // every request, so at the fastest settings: a 1,000-reading check sheet (1.8 MB of JSON) takes about 2 ms in
+  // brotli instead of 14 ms, for 46 kB instead of 39 kB. The client's files keep the defaults (smaller, and cached).
+  const compressible = (req: Request, res: Response) => !String(res.getHeader("Content-Type") ?? "").startsWith("application/x-ndjson") && compression.filter(req, res);
+  const compressAnswer = compression({ filter: compressible, level: 1, brotli: { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } } });
+  const compressFile = compression({ filter: compressible });
+  app.use((req, res, next) => (req.path.startsWith("/api/") ? compressAnswer : compressFile)(req, res, next));
+  app.use("/api", compressWholeAnswers());
+  app.use(express.json({ limit: "5mb" }));
+
   app.use(
     session({
-      name: "tenthwise.sid",
+      name: sessionCookie.name,
       store,
-      secret: services.config.SESSION_SECRET,
+      secret: sessionCookie.secret,
       resave: false,
       saveUninitialized: false,
       rolling: true,
-      cookie: { httpOnly: true, sameSite: "lax", secure: services.config.COOKIE_SECURE, maxAge: 12 * 60 * 60 * 1000 },
+      cookie: { httpOnly: true, sameSite: "lax", secure: sessionCookie.secure, maxAge: sessionCookie.maxAgeMs },
     }),
   );
   const passport = configurePassport(deps);

@@ -40,7 +40,7 @@ export function configurePassport(deps: AppDeps) {
   return passport;
 }
 
-function toSessionUser(u: { id: string; email: string; name: string; role: SessionUser["role"] }): SessionUser {
+export function toSessionUser(u: { id: string; email: string; name: string; role: SessionUser["role"] }): SessionUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role };
 }
 

@@ -2,6 +2,7 @@ import { createHmac, randomBytes, timingSafeEqual } from "node:crypto";
 import type { NextFunction, Request, Response } from "express";
 import { csrfSync } from "csrf-sync";
 import { Errors } from "../http/errors";
+import { cookieValue } from "../http/cookies";
 
 const COOKIE = "tenthwise.csrf";
 const SAFE = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -26,7 +27,7 @@ export function csrfProtection(secret: string, secureCookie: boolean) {
     const header = String(req.headers["x-csrf-token"] ?? "");
     const [kind, nonce, mac] = header.split(".");
     if (kind !== "a" || !nonce || !mac) return false;
-    const cookie = cookieValue(req, COOKIE);
+    const cookie = cookieValue(req.headers.cookie, COOKIE);
     if (!cookie || cookie !== nonce) return false;
     const want = Buffer.from(sign(nonce));
     const got = Buffer.from(mac);
@@ -44,25 +45,11 @@ export function csrfProtection(secret: string, secureCookie: boolean) {
     token(req: Request, res: Response, overwrite = false): string {
       if (signedIn(req) || overwrite) return sessionToken(req, overwrite);
       // The same token for as long as the browser keeps the cookie (several tabs, a second fetch).
-      const kept = cookieValue(req, COOKIE);
+      const kept = cookieValue(req.headers.cookie, COOKIE);
       if (kept && /^[A-Za-z0-9_-]{24}$/.test(kept)) return `a.${kept}.${sign(kept)}`;
       const nonce = randomBytes(18).toString("base64url");
       res.cookie(COOKIE, nonce, { httpOnly: true, sameSite: "strict", secure: secureCookie, path: "/api" });
       return `a.${nonce}.${sign(nonce)}`;
     },
   };
-}
-
-function cookieValue(req: Request, name: string): string | null {
-  for (const part of String(req.headers.cookie ?? "").split(";")) {
-    const i = part.indexOf("=");
-    if (i > 0 && part.slice(0, i).trim() === name) {
-      try {
-        return decodeURIComponent(part.slice(i + 1).trim());
-      } catch {
-        return null;
-      }
-    }
-  }
-  return null;
 }

@@ -72,6 +72,20 @@ export class SessionStore extends PgStore {
     });
   }
 
+  /**
+   * The person signed in to session `sid`, when this instance read the session within SESSION_REUSE_MS, it has not
+   * expired and its expiry does not need moving now; else null, and the request goes the whole way (express-session
+   * reads, touches and caches it). What a request answered from the caches alone may rely on (server/http/quick-get.ts).
+   */
+  signedInFromCache(sid: string): string | null {
+    const hit = this.#cached.get(sid);
+    const now = Date.now();
+    if (!hit || !hit.userId || now - hit.at >= SESSION_REUSE_MS || hit.expires <= now) return null;
+    const written = this.#written.get(sid);
+    if (written === undefined || now - written >= this.touchIntervalMs) return null;
+    return hit.userId;
+  }
+
   /** Forget the cached sessions of one person. */
   forgetUser(userId: string) {
     this.#epoch++;

@@ -10,6 +10,14 @@ function withoutSecrets(headers: IncomingHttpHeaders | OutgoingHttpHeaders): Rec
   return out;
 }
 
+let lastRequestId = 0;
+
+/** The next request id of this process (pino-http's numbering: 1, 2, 3 …), for every request whichever way it goes. */
+export function nextRequestId(): number {
+  lastRequestId = (lastRequestId + 1) & 0x7fffffff;
+  return lastRequestId;
+}
+
 /**
  * One line per request at info — method, path, status, time taken and who asked — and the details
  * (query, request and response headers, credentials redacted) at debug. API requests are logged at
@@ -18,6 +26,8 @@ function withoutSecrets(headers: IncomingHttpHeaders | OutgoingHttpHeaders): Rec
  */
 export function requestLog() {
   return (req: Request, res: Response, next: NextFunction) => {
+    // Nothing to write at this level (the level is fixed at start): no timing, no listeners.
+    if (!req.log?.isLevelEnabled(req.originalUrl.startsWith("/api") ? "info" : "debug")) return next();
     const started = process.hrtime.bigint();
     let done = false;
     const finish = () => {

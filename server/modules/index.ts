@@ -1,9 +1,10 @@
 import type { Router } from "express";
 import type { AppDeps } from "../app-deps";
+import type { QuickGet } from "../http/quick-get";
 import { usersRoutes } from "./users/users.routes";
 import { settingsRoutes } from "./settings/settings.routes";
 import { familiesRoutes } from "./families/families.routes";
-import { toolsRoutes } from "./tools/tools.routes";
+import { toolsQuickGets, toolsRoutes } from "./tools/tools.routes";
 import { standardsRoutes } from "./standards/standards.routes";
 import { labsRoutes } from "./labs/labs.routes";
 import { calibrationsRoutes } from "./calibrations/calibrations.routes";
@@ -46,3 +47,6 @@ export const moduleRouters: ((deps: AppDeps) => Router)[] = [
   auditRoutes,
   studiesRoutes,
 ];
+
+/** The GETs answered before the middleware when the caches know the session (server/http/quick-get.ts). */
+export const quickGetRoutes = (deps: AppDeps): QuickGet[] => [...toolsQuickGets(deps)];

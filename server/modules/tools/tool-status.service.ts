@@ -3,7 +3,7 @@ import { PgTransaction } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
 import { inList, isoInstant, pgArray } from "../../db/values";
 import { columnsOf } from "../../db/columns";
-import { executePrepared } from "../../db/prepared";
+import { executePrepared, executeShaped } from "../../db/prepared";
 import { statusColumns } from "./tool-states.sql";
 import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
@@ -69,8 +69,11 @@ export async function statusesIn(db: DbOrTx, toolIdsQuery: SQL, at: Date, ctx: S
  * a status answer shows of the tool: one query at the present.
  */
 export async function statusByTag(db: DbOrTx, assetTag: string, at: Date, ctx: StatusContext) {
-  let found = await statusesWhere(db, sql`t.asset_tag = ${assetTag}`, at, ctx);
-  if (found.views.size === 0) found = await statusesWhere(db, sql`lower(t.asset_tag) = lower(${assetTag})`, at, ctx);
+  // Built once (executeShaped): turning the select into text cost more than PostgreSQL's lookup.
+  const byTag = async (shape: string, where: (tag: Placeholder) => SQL) =>
+    statusesFromRows(db, (await executeShaped(db, shape, () => statusSelect(where(sql.placeholder("tag"))), { tag: assetTag })).rows as Row[], at, ctx);
+  let found = await byTag("status-by-tag", (tag) => sql`t.asset_tag = ${tag}`);
+  if (found.views.size === 0) found = await byTag("status-by-tag-any-case", (tag) => sql`lower(t.asset_tag) = lower(${tag})`);
   const [view] = found.views.values();
   const tool = found.tools.get(view?.toolId ?? "");
   return view && tool ? { view, description: tool.description, unit: tool.unit } : null;

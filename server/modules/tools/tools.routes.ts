@@ -2,6 +2,7 @@ import { Router } from "express";
 import { z } from "zod";
 import type { AppDeps } from "../../app-deps";
 import { defineRoutes } from "../../http/route";
+import type { QuickGet } from "../../http/quick-get";
 import {
   CreateToolSchema,
   LifecycleChangeSchema,
@@ -21,6 +22,15 @@ import {
 import { toolsService } from "./tools.service";
 import { uuidParam } from "./register.common";
 import { acceptFileUpload, sendStoredFile, uploadedFile } from "./uploads";
+
+/**
+ * A tool's status now, as a quick GET (server/http/quick-get.ts): the same service call as GET
+ * /api/tools/:assetTag/status below, taken when there is no query string and the caches know the session.
+ */
+export function toolsQuickGets(deps: AppDeps): QuickGet[] {
+  const service = toolsService({ ...deps, defaultTimeZone: deps.config.SHOP_TIME_ZONE });
+  return [{ pattern: /^\/api\/tools\/([^/?#]+)\/status$/, answer: ([assetTag]) => service.status(assetTag) }];
+}
 
 export function toolsRoutes(deps: AppDeps) {
   const router = Router();

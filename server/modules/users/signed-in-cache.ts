@@ -12,7 +12,7 @@ export const SIGNED_IN_CACHE_MS = 5_000;
 const MAX_ENTRIES = 5_000;
 
 type Cached = Pick<UserRow, "id" | "email" | "name" | "role" | "active">;
-const entries = new Map<string, { at: number; user: Promise<Cached | undefined> }>();
+const entries = new Map<string, { at: number; user: Promise<Cached | undefined>; known?: Cached | null }>();
 
 export async function cachedSignedInUser(id: string, read: (id: string) => Promise<Cached | undefined>): Promise<Cached | undefined> {
   const now = Date.now();
@@ -20,10 +20,19 @@ export async function cachedSignedInUser(id: string, read: (id: string) => Promi
   if (hit && now - hit.at < SIGNED_IN_CACHE_MS) return hit.user;
   if (entries.size >= MAX_ENTRIES) entries.clear();
   const user = read(id).then((u) => (u ? { id: u.id, email: u.email, name: u.name, role: u.role, active: u.active } : undefined));
-  const entry = { at: now, user };
+  const entry: { at: number; user: Promise<Cached | undefined>; known?: Cached | null } = { at: now, user };
   entries.set(id, entry);
-  user.catch(() => entries.get(id) === entry && entries.delete(id));
+  user.then(
+    (u) => void (entry.known = u ?? null),
+    () => entries.get(id) === entry && entries.delete(id),
+  );
   return user;
+}
+
+/** The person as read within SIGNED_IN_CACHE_MS, if that read has finished; else undefined (read them the usual way). */
+export function signedInUserIfKnown(id: string): Cached | null | undefined {
+  const hit = entries.get(id);
+  return hit && Date.now() - hit.at < SIGNED_IN_CACHE_MS ? hit.known : undefined;
 }
 
 /** Forget one person (their role, name or active flag changed). */
