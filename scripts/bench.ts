@@ -346,7 +346,12 @@ async function measureScale(tools: number) {
   const floor = await startChild("floor", { DATABASE_URL: urls.runtimeUrl, PORT: "0" });
   type Result = { app: number[]; floor: number[]; appRps: number[]; floorRps: number[]; codes: Map<number, number> };
   const results = new Map<string, Result>();
-  const extra: { investigation_open: number[]; reminder_run: number[]; reminder_run_nothing_new: number[] } = { investigation_open: [], reminder_run: [], reminder_run_nothing_new: [] };
+  const extra: { investigation_open: number[]; investigation_gathered: number[]; reminder_run: number[]; reminder_run_nothing_new: number[] } = {
+    investigation_open: [],
+    investigation_gathered: [],
+    reminder_run: [],
+    reminder_run_nothing_new: [],
+  };
   const batchPools: pg.Pool[] = [];
   try {
     const db = new pg.Client({ connectionString: adminUrl });
@@ -392,13 +397,21 @@ async function measureScale(tools: number) {
         place: () => current!,
       };
       // Opening an investigation (in-process, as a lost-tool report or an out-of-tolerance calibration does inside its
-      // own transaction): the re-judging of every affected reading and the insert of the items.
+      // own transaction): the finding, its window and, for a window of up to INLINE_READINGS readings, the re-judging of
+      // every affected reading and the insert of the items; a larger window's are gathered after the finding commits.
       if (busy && wanted("investigation_open")) {
         const { db: idb, pool: ipool } = inProcess;
         const t = performance.now();
         const opened = await idb.transaction((tx) => onOutOfToleranceFinding(tx, { clock: systemClock, timeZone: "America/Chicago" }, { kind: "lost", toolId: busy, at: new Date(), actorId: null }));
         extra.investigation_open.push(performance.now() - t);
         if (opened) {
+          // A window this large is gathered after the opening commits: timed until its last affected reading is written.
+          for (;;) {
+            const [{ gathering }] = (await ipool.query("select gathering from investigations where id = $1", [opened.investigationId])).rows;
+            if (!gathering) break;
+            await new Promise((r) => setTimeout(r, 5));
+          }
+          extra.investigation_gathered.push(performance.now() - t);
           ctx.investigationId = opened.investigationId;
           const [{ n }] = (await ipool.query("select count(*)::int as n from investigation_items where investigation_id = $1", [opened.investigationId])).rows;
           if (round === 1) console.log(`  investigation opened over the ${n} readings ${BUSY_TOOL} took since it was last known good`);
@@ -475,6 +488,9 @@ console.log(
     ? `RATIO investigation_open app_p95=${f(openMs)} floor_p95=${f(floorOne)} ratio=${f(openMs / floorOne)} goal=${INVESTIGATION_OPEN_GOAL}`
     : `SKIP investigation_open (goal ×${INVESTIGATION_OPEN_GOAL}): no tool with readings`,
 );
+// Its affected readings, gathered after the opening commits when the window is large (no goal of its own: the time until
+// the investigation page lists them all).
+if (large.extra.investigation_gathered.length) console.log(`INFO investigation_gathered app_ms=${f(median(large.extra.investigation_gathered))}`);
 if (large.extra.reminder_run.length) {
   console.log(`RATIO reminder_run app_ms=${f(median(large.extra.reminder_run))} goal_ms=${REMINDER_RUN_GOAL_MS}`);
   // Nothing new to send: every reminder due was sent by the run before (the issue's "nothing due" goal, on a register

@@ -19,6 +19,7 @@ export const AUDIT_ACTION_LABELS = {
   "family.import": "Families imported",
   "family.interval_change": "Family interval changed",
   "investigation.open": "Investigation opened",
+  "investigation.gathered": "Affected readings gathered",
   "investigation.notified": "Investigation notice sent",
   "investigation.disposition": "Disposition recorded",
   "investigation.close": "Investigation closed",

@@ -53,6 +53,8 @@ export const InvestigationSummarySchema = z.object({
   couldChangeCount: z.number().int(),
   /** Items (readings and, in a cascade, calibrations) still waiting for a disposition. */
   undisposedCount: z.number().int(),
+  /** The affected readings are still being gathered (a large window, just opened): the counts are not final yet. */
+  gathering: z.boolean(),
 });
 export type InvestigationSummary = z.infer<typeof InvestigationSummarySchema>;
 export const InvestigationListSchema = z.array(InvestigationSummarySchema);

@@ -40,6 +40,16 @@ export async function recordNotices(tx: Tx, investigationId: string, finding: St
  */
 export function sendAfterCommit(tx: DbOrTx, mailer: Mailer | undefined, clock: Clock, investigationId: string) {
   if (!mailer) return;
+  afterCommit(tx, async (db) => void (await deliverNotices(db, mailer, clock, investigationId)));
+}
+
+/**
+ * Runs `work` once the caller's transaction has committed, on its connection before that goes back to the pool (the
+ * pooled connection's release, which drizzle calls after COMMIT or ROLLBACK). After a ROLLBACK the work finds nothing
+ * of what the transaction wrote, so it must look before it acts (a claim, a row still pending). Its failures are left
+ * to the minute's sweeps, which look for the same pending rows.
+ */
+export function afterCommit(tx: DbOrTx, work: (db: Db) => Promise<void>) {
   const client = (tx as unknown as { session?: { client?: unknown } }).session?.client as (pg.PoolClient & { release: (err?: Error | boolean) => void }) | undefined;
   if (client && typeof client.release === "function") {
     const release = client.release;
@@ -47,14 +57,17 @@ export function sendAfterCommit(tx: DbOrTx, mailer: Mailer | undefined, clock: C
       client.release = release;
       if (err) return release.call(client, err);
       const db = drizzle(client, { schema }) as unknown as Db;
-      deliverNotices(db, mailer, clock, investigationId)
-        .catch(() => undefined)
-        .finally(() => release.call(client));
+      work(db)
+        .then(
+          () => release.call(client),
+          // A connection that failed mid-work is not handed to the next request.
+          (e: unknown) => release.call(client, e instanceof Error ? e : true),
+        );
     };
     return;
   }
   // Not inside a pooled transaction: every statement has already committed.
-  queueMicrotask(() => void deliverNotices(tx as Db, mailer, clock, investigationId).catch(() => undefined));
+  queueMicrotask(() => void work(tx as Db).catch(() => undefined));
 }
 
 /** Sends every notice still pending (a sweep for notices a crash left behind; the seed uses it too). */

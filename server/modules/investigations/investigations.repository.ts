@@ -89,6 +89,30 @@ export async function readingsWithTool(tx: DbOrTx, toolId: string, start: Date |
     .then((rows) => rows.map((r) => r.reading));
 }
 
+/** How many readings readingsWithTool would give, counting no further than `cap` (the answer is then `cap`). */
+export async function countReadingsWithTool(tx: DbOrTx, toolId: string, start: Date | null, end: Date, cap: number): Promise<number> {
+  const res = await tx.execute(sql`
+    select count(*)::int as n from (
+      select 1 from reading_tools
+      join readings on readings.id = reading_tools.reading_id
+      where reading_tools.tool_id = ${toolId} and reading_tools.taken_at <= ${end.toISOString()}
+        ${start ? sql`and reading_tools.taken_at >= ${start.toISOString()}` : sql``} and ${readingNotSuperseded}
+      limit ${cap}) x`);
+  return Number((res.rows[0] as { n: number }).n);
+}
+
+/** An investigation still gathering its readings, held for this transaction; null when done or another holds it. */
+export async function claimGathering(tx: DbOrTx, id: string): Promise<InvestigationRow | null> {
+  const [row] = await tx.select().from(investigations).where(and(eq(investigations.id, id), eq(investigations.gathering, true))).for("update", { skipLocked: true });
+  return row ?? null;
+}
+
+/** The investigations still gathering their readings, oldest first. */
+export async function gatheringIds(db: DbOrTx): Promise<string[]> {
+  const rows = await db.select({ id: investigations.id }).from(investigations).where(eq(investigations.gathering, true)).orderBy(asc(investigations.openedAt));
+  return rows.map((r) => r.id);
+}
+
 /** The jobs of some readings with their limits tables and every item of those tables (in sheet order). */
 export async function jobsWithTables(tx: DbOrTx, jobIds: string[]) {
   const jobRows = jobIds.length ? await tx.select().from(jobs).where(anyId(jobs.id, jobIds)) : [];
@@ -599,7 +623,8 @@ export async function itemTotals(tx: DbOrTx, investigationId: string, f: ItemFil
   let fixed = inTx ? undefined : keptTotals.get(key);
   if (!fixed) {
     fixed = await fixedTotalsRead(tx, itemConditions(investigationId, f));
-    if (!inTx) {
+    // An investigation still gathering has no items yet (they are written in one transaction): not kept.
+    if (!inTx && fixed.items > 0) {
       if (keptTotals.size >= KEPT_TOTALS) keptTotals.delete(keptTotals.keys().next().value!);
       keptTotals.set(key, fixed);
     }

@@ -16,7 +16,7 @@ import {
   StandardFindingResultSchema,
   StandardFindingSchema,
 } from "../../../shared/investigations/investigations.schemas";
-import { addDispositions, allItems, closeInvestigation, getInvestigation, listInvestigations, listItems, openStandardInvestigation, remeasureCandidates } from "./investigations.service";
+import { addDispositions, allItems, assertGathered, closeInvestigation, getInvestigation, listInvestigations, listItems, openStandardInvestigation, remeasureCandidates } from "./investigations.service";
 import { writeInvestigationPdf } from "./investigations.pdf";
 
 const Id = z.string().uuid("Not a valid id.");
@@ -84,6 +84,7 @@ export function investigationsRoutes(deps: AppDeps) {
     { method: "get", path: "/api/investigations/:id/report.pdf", summary: "The investigation report as PDF", access: "signedIn", produces: "application/pdf" },
     async ({ params, res }) => {
       const inv = await getInvestigation(deps.db, Id.parse(params.id));
+      assertGathered(inv);
       const settings = await getSettings(deps.db, deps.config.SHOP_TIME_ZONE);
       const pdf = await writeInvestigationPdf(inv, allItems(deps.db, inv.id), deps.clock.now(), settings.shopTimeZone);
       res.setHeader("Content-Type", "application/pdf");

@@ -24,7 +24,7 @@ import type {
 import { AffectedItemsQuerySchema, InvestigationListQuerySchema } from "../../../shared/investigations/investigations.schemas";
 import type { dispositions } from "./investigations.table";
 import * as repo from "./investigations.repository";
-import { recordNotices, sendAfterCommit } from "./investigations.notify";
+import { afterCommit, deliverNotices, recordNotices, sendAfterCommit } from "./investigations.notify";
 import type { Finding, FindingDeps, StoredFinding } from "./investigations.types";
 
 export type { StoredFinding } from "./investigations.types";
@@ -189,8 +189,11 @@ export async function openToolInvestigation(tx: Tx, deps: FindingDeps, finding: 
         : `${tool.assetTag} (${tool.description}) was returned damaged; ${later ? "the as-found of its next calibration gives its error" : "its error is unknown until a calibration finds its as-found"}.`;
   }
 
-  const rs = await repo.readingsWithTool(tx, tool.id, windowStart, finding.at);
-  const items = await rejudgeReadings(tx, rs, { unit: tool.unit, points, range: { min: Number(tool.rangeMin), max: Number(tool.rangeMax) } }, tool.id);
+  const errors: ToolErrors = { unit: tool.unit, points, range: { min: Number(tool.rangeMin), max: Number(tool.rangeMax) } };
+  // A window of a few hundred readings is re-judged here; a larger one after the finding commits (gatherReadings), so
+  // that recording the finding never waits on thousands of readings.
+  const inline = (await repo.countReadingsWithTool(tx, tool.id, windowStart, finding.at, (deps.inlineReadings ?? INLINE_READINGS) + 1)) <= (deps.inlineReadings ?? INLINE_READINGS);
+  const items = inline ? await rejudgeReadings(tx, await repo.readingsWithTool(tx, tool.id, windowStart, finding.at), errors, tool.id) : null;
   const stored: StoredFinding = {
     subject: `${tool.assetTag} (${label})`,
     summary,
@@ -212,28 +215,78 @@ export async function openToolInvestigation(tx: Tx, deps: FindingDeps, finding: 
     windowStart,
     windowEnd: finding.at,
     finding: stored,
+    gathering: items === null,
+    rejudgedWith: errors,
   });
-  return finishOpening(tx, deps, inv, items, finding.actorId);
+  if (items) return finishOpening(tx, deps, inv, items, finding.actorId);
+  await recordAudit(tx, { actorId: finding.actorId, action: "investigation.open", entityType: "investigation", entityId: inv.id, after: openedAudit(inv, null), at: deps.clock.now() });
+  gatherAfterCommit(tx, deps, inv.id);
+  return { investigationId: inv.id };
+}
+
+/** How many readings an opening re-judges in the finding's own transaction; more are gathered after it commits. */
+export const INLINE_READINGS = 500;
+
+const openedAudit = (inv: repo.InvestigationRow, items: ItemInsert[] | null) => ({
+  trigger: inv.trigger,
+  toolId: inv.toolId,
+  standardId: inv.standardId,
+  windowStart: iso(inv.windowStart),
+  windowEnd: iso(inv.windowEnd),
+  ...(items ? { items: items.length, couldChange: items.filter((i) => i.verdictCouldChange).length } : { gathering: true }),
+});
+
+/**
+ * Once the opening transaction has committed, gathers the investigation's affected readings on the same connection
+ * (as sendAfterCommit delivers notices), then sends its notices. A rolled-back opening has nothing to gather; one the
+ * process did not finish (a crash, a lost connection) is gathered by the minute's sweep (gatherPendingInvestigations).
+ */
+function gatherAfterCommit(tx: Tx, deps: FindingDeps, investigationId: string) {
+  afterCommit(tx, async (db) => {
+    if ((await gatherReadings(db, deps, investigationId)) && deps.mailer) await deliverNotices(db, deps.mailer, deps.clock, investigationId);
+  });
+}
+
+/**
+ * Re-judges and writes the affected readings of an investigation that is still gathering, in one transaction that
+ * holds its row: a second gatherer (another instance, the sweep) skips it, and a failure leaves it gathering, to be
+ * gathered again. True when this call wrote them.
+ */
+export async function gatherReadings(db: Db, deps: Pick<FindingDeps, "clock">, investigationId: string): Promise<boolean> {
+  return db.transaction(async (tx) => {
+    const inv = await repo.claimGathering(tx, investigationId);
+    if (!inv || !inv.toolId) return false;
+    const rs = await repo.readingsWithTool(tx, inv.toolId, inv.windowStart, inv.windowEnd);
+    const items = await rejudgeReadings(tx, rs, inv.rejudgedWith as ToolErrors, inv.toolId);
+    await repo.insertItems(tx, inv.id, items);
+    const done = await repo.updateInvestigation(tx, inv.id, { gathering: false });
+    await recordAudit(tx, {
+      actorId: null,
+      action: "investigation.gathered",
+      entityType: "investigation",
+      entityId: inv.id,
+      after: { items: items.length, couldChange: items.filter((i) => i.verdictCouldChange).length },
+      at: deps.clock.now(),
+    });
+    await recordNotices(tx, done.id, done.finding as StoredFinding);
+    return true;
+  });
+}
+
+/** Gathers every investigation still gathering (a sweep for the ones a crash left behind), oldest first; how many. */
+export async function gatherPendingInvestigations(db: Db, deps: Pick<FindingDeps, "clock" | "mailer">): Promise<number> {
+  let gathered = 0;
+  for (const id of await repo.gatheringIds(db)) {
+    if (!(await gatherReadings(db, deps, id))) continue;
+    gathered++;
+    if (deps.mailer) await deliverNotices(db, deps.mailer, deps.clock, id);
+  }
+  return gathered;
 }
 
 async function finishOpening(tx: Tx, deps: FindingDeps, inv: repo.InvestigationRow, items: ItemInsert[], actorId: string | null) {
   await repo.insertItems(tx, inv.id, items);
-  await recordAudit(tx, {
-    actorId,
-    action: "investigation.open",
-    entityType: "investigation",
-    entityId: inv.id,
-    after: {
-      trigger: inv.trigger,
-      toolId: inv.toolId,
-      standardId: inv.standardId,
-      windowStart: iso(inv.windowStart),
-      windowEnd: iso(inv.windowEnd),
-      items: items.length,
-      couldChange: items.filter((i) => i.verdictCouldChange).length,
-    },
-    at: deps.clock.now(),
-  });
+  await recordAudit(tx, { actorId, action: "investigation.open", entityType: "investigation", entityId: inv.id, after: openedAudit(inv, items), at: deps.clock.now() });
   await recordNotices(tx, inv.id, inv.finding as StoredFinding);
   sendAfterCommit(tx, deps.mailer, deps.clock, inv.id);
   return { investigationId: inv.id };
@@ -345,6 +398,7 @@ function summaryOf(
     affectedCount: c?.items ?? 0,
     couldChangeCount: c?.couldChange ?? 0,
     undisposedCount: c?.undisposed ?? 0,
+    gathering: r.inv.gathering,
   };
 }
 
@@ -473,6 +527,21 @@ function dispositionView(x: typeof dispositions.$inferSelect, byName: string): D
 
 function assertOpen(inv: repo.InvestigationRow) {
   if (inv.status === "closed") throw refused("investigation_closed", "This investigation is closed; a closed investigation is kept as it was and takes no more dispositions.");
+  assertGathered(inv);
+}
+
+/**
+ * Refuses at once while the readings are being gathered, before taking the investigation's lock (the gathering holds
+ * it until it commits). An investigation never goes back to gathering, so one found gathered stays so.
+ */
+async function refuseWhileGathering(db: DbOrTx, id: string) {
+  const inv = await repo.findInvestigation(db, id);
+  if (inv) assertGathered(inv);
+}
+
+/** Nothing is decided on an investigation whose affected readings are still being gathered. */
+export function assertGathered(inv: Pick<repo.InvestigationRow, "gathering">) {
+  if (inv.gathering) throw refused("investigation_gathering", "The affected readings of this investigation are still being gathered; try again in a moment.");
 }
 
 /** True when `newer` corrects `older`, directly or through a chain of corrections. */
@@ -520,6 +589,7 @@ export async function remeasureCandidates(db: DbOrTx, id: string, itemId: string
  */
 export async function addDispositions(db: Db, clock: Clock, id: string, input: CreateDisposition, actor: { id: string; name: string }) {
   return db.transaction(async (tx) => {
+    await refuseWhileGathering(tx, id);
     const inv = await repo.lockInvestigation(tx, id);
     if (!inv) throw notFound("investigation", id);
     assertOpen(inv);
@@ -591,6 +661,7 @@ export async function addDispositions(db: Db, clock: Clock, id: string, input: C
 /** Closes an investigation with a summary, once every affected item has a disposition; after that it only reads. */
 export async function closeInvestigation(db: Db, clock: Clock, id: string, summary: string, actorId: string) {
   return db.transaction(async (tx) => {
+    await refuseWhileGathering(tx, id);
     const inv = await repo.lockInvestigation(tx, id);
     if (!inv) throw notFound("investigation", id);
     assertOpen(inv);

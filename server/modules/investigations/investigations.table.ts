@@ -26,6 +26,13 @@ export const investigations = pgTable(
     closedAt: timestamp("closed_at", { withTimezone: true }),
     closedBy: uuid("closed_by").references(() => users.id),
     closingSummary: text("closing_summary"),
+    /**
+     * True from the opening of a tool's investigation over more readings than are re-judged in the finding's own
+     * transaction until its affected readings are written (after that transaction commits, or by the minute's sweep).
+     */
+    gathering: boolean("gathering").notNull().default(false),
+    /** A tool's error as its readings are re-judged with (unit, points, range): what the gathering reads. */
+    rejudgedWith: jsonb("rejudged_with"),
   },
   (t) => [
     index("investigations_tool_idx").on(t.toolId),
@@ -35,6 +42,7 @@ export const investigations = pgTable(
     index("investigations_status_idx").on(t.status, t.openedAt),
     index("investigations_opened_by_idx").on(t.openedBy),
     index("investigations_closed_by_idx").on(t.closedBy),
+    index("investigations_gathering_idx").on(t.openedAt).where(sql`${t.gathering}`),
   ],
 );
 

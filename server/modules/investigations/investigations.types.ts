@@ -15,6 +15,8 @@ export interface FindingDeps {
   clock: Clock;
   mailer?: Mailer;
   timeZone: string;
+  /** How many readings an opening re-judges in its own transaction (INLINE_READINGS unless given). */
+  inlineReadings?: number;
 }
 
 export interface Recipient {

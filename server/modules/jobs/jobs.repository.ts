@@ -114,13 +114,13 @@ export const jobsRepository = {
    * What a kept check sheet is good for, in one statement: the sheet's version and the shared records' version (both
    * kept by triggers, with their row versions, so a database restored under a running app never matches an old
    * answer), and which investigations are open (a reading is marked suspect while one that names it is open; an
-   * investigation's items are all written with it). Null for an unknown job.
+   * investigation's items are all written at once, with it or when it has gathered them). Null for an unknown job.
    */
   async sheetStamp(db: DbOrTx, jobId: string): Promise<string | null> {
     const res = await executePrepared(
       db,
       sql`select concat_ws(':', coalesce(a.sheet_version::text, '-'), coalesce(a.xmin::text, '-'), s.version, s.xmin,
-            (select md5(coalesce(string_agg(i.id::text, ',' order by i.id), '')) from investigations i where i.status = 'open')) as stamp
+            (select md5(coalesce(string_agg(i.id::text || case when i.gathering then '~' else '' end, ',' order by i.id), '')) from investigations i where i.status = 'open')) as stamp
           from jobs j left join job_activity a on a.job_id = j.id left join sheet_references s on s.id = 1
           where j.id = ${jobId}`,
     );

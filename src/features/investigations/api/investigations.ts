@@ -53,7 +53,12 @@ export const investigationsQueryOptions = (p: InvestigationListParams) =>
 export const useInvestigations = (p: InvestigationListParams) => useQuery(investigationsQueryOptions(p));
 
 export const investigationQueryOptions = (id: string) =>
-  queryOptions({ queryKey: investigationKeys.detail(id), queryFn: () => api.get<InvestigationDetail>(`/api/investigations/${id}`) });
+  queryOptions({
+    queryKey: investigationKeys.detail(id),
+    queryFn: () => api.get<InvestigationDetail>(`/api/investigations/${id}`),
+    // Just opened over a large window: asked again every second until its affected readings are all gathered.
+    refetchInterval: (query) => (query.state.data?.gathering ? 1000 : false),
+  });
 export const useInvestigation = (id: string) => useQuery(investigationQueryOptions(id));
 
 export const useInvestigationItems = (id: string, p: AffectedItemsParams) =>

@@ -47,9 +47,11 @@ function InvestigationView({ inv }: { inv: InvestigationDetail }) {
             <Link to="/investigations" className="inline-flex min-h-10 items-center rounded-md px-3 text-sm font-semibold text-ink hover:bg-paper-sunk">
               All investigations
             </Link>
-            <a href={reportUrl(inv.id)} target="_blank" rel="noreferrer" className="inline-flex min-h-10 items-center rounded-md border border-paper-line bg-paper-raised px-4 text-sm font-semibold hover:bg-paper-sunk">
-              Report (PDF)
-            </a>
+            {!inv.gathering && (
+              <a href={reportUrl(inv.id)} target="_blank" rel="noreferrer" className="inline-flex min-h-10 items-center rounded-md border border-paper-line bg-paper-raised px-4 text-sm font-semibold hover:bg-paper-sunk">
+                Report (PDF)
+              </a>
+            )}
           </>
         }
       />
@@ -60,9 +62,12 @@ function InvestigationView({ inv }: { inv: InvestigationDetail }) {
 
       <section aria-labelledby="affected-heading" className="flex flex-col gap-3">
         <h2 id="affected-heading" className="text-xl font-bold">
-          Affected readings{inv.standard ? " and calibrations" : ""} ({inv.totals.items})
+          Affected readings{inv.standard ? " and calibrations" : ""}
+          {inv.gathering ? "" : ` (${inv.totals.items})`}
         </h2>
-        {inv.totals.items === 0 ? (
+        {inv.gathering ? (
+          <Gathering inv={inv} />
+        ) : inv.totals.items === 0 ? (
           <p className="text-ink-soft">No reading was taken with the tool in the window.</p>
         ) : (
           <AffectedItemsTable inv={inv} canDispose={canDispose} />
@@ -128,8 +133,24 @@ function FindingCard({ inv }: { inv: InvestigationDetail }) {
   );
 }
 
+/** A large window just opened: its readings are being re-judged; the page asks again every second. */
+function Gathering({ inv }: { inv: InvestigationDetail }) {
+  return (
+    <p role="status" className="rounded-md border border-paper-line bg-paper-sunk px-4 py-3">
+      <span className="font-semibold">Gathering the affected readings.</span> Every reading {inv.toolAssetTag} took in the window is being re-judged with
+      its error; this page fills in by itself in a moment. Dispositions, closing and the report wait until then.
+    </p>
+  );
+}
+
 function ProgressCard({ inv }: { inv: InvestigationDetail }) {
   const canClose = useCan("investigations.close");
+  if (inv.gathering)
+    return (
+      <Card title="Progress">
+        <p className="text-ink-soft">Counted once the affected readings are gathered.</p>
+      </Card>
+    );
   return (
     <Card title="Progress">
       <Facts

@@ -36,7 +36,7 @@ const columns = [
   col.accessor("trigger", { header: "Finding", cell: (c) => TRIGGER_LABELS[c.getValue()] }),
   col.accessor("status", { header: "Status", cell: (c) => <InvestigationStatus status={c.getValue()} /> }),
   col.display({ id: "window", header: "Window", cell: (c) => `${c.row.original.windowStart ? when(c.row.original.windowStart) : "since ever"} → ${when(c.row.original.windowEnd)}` }),
-  col.accessor("affectedCount", { header: "Affected" }),
+  col.accessor("affectedCount", { header: "Affected", cell: (c) => (c.row.original.gathering ? <span className="text-ink-soft">gathering…</span> : c.getValue()) }),
   col.accessor("couldChangeCount", {
     header: "Could change",
     cell: (c) => <span className={c.getValue() > 0 ? "font-semibold text-stop" : ""}>{c.getValue()}</span>,
