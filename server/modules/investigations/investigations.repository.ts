@@ -89,15 +89,19 @@ export async function readingsWithTool(tx: DbOrTx, toolId: string, start: Date |
     .then((rows) => rows.map((r) => r.reading));
 }
 
-/** How many readings readingsWithTool would give, counting no further than `cap` (the answer is then `cap`). */
+/**
+ * At most how many readings readingsWithTool would give — the tool's readings in the window, corrected ones included —
+ * counting no further than `cap` (the answer is then `cap`). Read off the tool's index of its readings by time alone.
+ */
 export async function countReadingsWithTool(tx: DbOrTx, toolId: string, start: Date | null, end: Date, cap: number): Promise<number> {
-  const res = await tx.execute(sql`
-    select count(*)::int as n from (
+  const res = await executePrepared(
+    tx,
+    sql`select count(*)::int as n from (
       select 1 from reading_tools
-      join readings on readings.id = reading_tools.reading_id
       where reading_tools.tool_id = ${toolId} and reading_tools.taken_at <= ${end.toISOString()}
-        ${start ? sql`and reading_tools.taken_at >= ${start.toISOString()}` : sql``} and ${readingNotSuperseded}
-      limit ${cap}) x`);
+        and reading_tools.taken_at >= ${(start ?? new Date(0)).toISOString()}
+      limit ${cap}) x`,
+  );
   return Number((res.rows[0] as { n: number }).n);
 }
 
