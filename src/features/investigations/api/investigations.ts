@@ -49,7 +49,13 @@ function fetchInvestigations(p: InvestigationListParams): Promise<Page<Investiga
 }
 
 export const investigationsQueryOptions = (p: InvestigationListParams) =>
-  queryOptions({ queryKey: investigationKeys.list(p), queryFn: () => fetchInvestigations(p), placeholderData: keepPreviousData });
+  queryOptions({
+    queryKey: investigationKeys.list(p),
+    queryFn: () => fetchInvestigations(p),
+    placeholderData: keepPreviousData,
+    // While one on the page is still gathering its readings, its counts are asked for again every few seconds.
+    refetchInterval: (query) => (query.state.data?.items.some((i) => i.gathering) ? 3000 : false),
+  });
 export const useInvestigations = (p: InvestigationListParams) => useQuery(investigationsQueryOptions(p));
 
 export const investigationQueryOptions = (id: string) =>

@@ -39,9 +39,9 @@ const columns = [
   col.accessor("affectedCount", { header: "Affected", cell: (c) => (c.row.original.gathering ? <span className="text-ink-soft">gathering…</span> : c.getValue()) }),
   col.accessor("couldChangeCount", {
     header: "Could change",
-    cell: (c) => <span className={c.getValue() > 0 ? "font-semibold text-stop" : ""}>{c.getValue()}</span>,
+    cell: (c) => (c.row.original.gathering ? "—" : <span className={c.getValue() > 0 ? "font-semibold text-stop" : ""}>{c.getValue()}</span>),
   }),
-  col.accessor("undisposedCount", { header: "Awaiting disposition" }),
+  col.accessor("undisposedCount", { header: "Awaiting disposition", cell: (c) => (c.row.original.gathering ? "—" : c.getValue()) }),
   col.accessor("openedAt", { header: "Opened", cell: (c) => when(c.getValue()) }),
 ];
 
