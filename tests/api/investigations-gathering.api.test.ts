@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import { createTestApp, memoryMailer, type TestApp } from "../support/test-app";
 import { makeTool } from "../support/factories";
-import { makeExactCalibration, makeJob, makeLimitTable } from "../support/factories-investigations";
+import { makeExactCalibration, makeJob, makeLimitTable, VALVE_SCENARIO } from "../support/factories-investigations";
 import { onOutOfToleranceFinding, type Finding } from "../../server/modules/investigations/investigations.hooks";
 import { gatherPendingInvestigations } from "../../server/modules/investigations/investigations.service";
 import { auditEvents, readingTools, readings } from "../../server/db/schema";
@@ -15,10 +15,7 @@ import { sizeFromValues } from "../../shared/inspection/sizes";
 // gathering cut off (a dropped connection) is finished by the minute's sweep, once. Demo limits and errors (invented):
 // stem 0.4335–0.4340 in, guide 0.4355–0.4370 in, clearance 0.0015–0.0035 in; as-found +0.0003 in at 0.500 in.
 
-const NOW = "2026-06-15T15:00:00Z";
-const GOOD_CAL = "2026-01-10T15:00:00Z";
-const FINDING_AT = "2026-06-15T14:00:00Z";
-const VALVES = 8;
+const { now: NOW, goodCal: GOOD_CAL, findingAt: FINDING_AT, valves: VALVES, stems, guides } = VALVE_SCENARIO;
 const SHEETS = 4;
 
 let t: TestApp;
@@ -39,8 +36,6 @@ async function micrometerWithSheets(tag: string) {
   const tool = await makeTool(t.db, { assetTag: tag });
   await makeExactCalibration(t.db, tool.id, { performedAt: GOOD_CAL, points: [{ nominal: "0.500", asFound: "0.5000" }] });
   const bad = await makeExactCalibration(t.db, tool.id, { performedAt: FINDING_AT, points: [{ nominal: "0.500", asFound: "0.5003", asLeft: "0.5000" }] });
-  const stems = ["0.4336", "0.4337", "0.4338", "0.4339", "0.4336", "0.4340", "0.4337", "0.4335"];
-  const guides = ["0.4362", "0.4369", "0.4356", "0.4365", "0.4370", "0.4358", "0.4363", "0.4367"];
   const within = (v: string, min: string, max: string) => (Number(v) >= Number(min) && Number(v) <= Number(max) ? ("within_limits" as const) : ("outside_limits" as const));
   const base = new Date("2026-02-01T15:00:00Z").getTime();
   for (let j = 0; j < SHEETS; j++) {

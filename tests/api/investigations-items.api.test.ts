@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq, inArray, sql } from "drizzle-orm";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { makeTool } from "../support/factories";
-import { makeExactCalibration, makeJob, makeLimitTable, makeReading } from "../support/factories-investigations";
+import { makeExactCalibration, makeJob, makeLimitTable, makeReading, VALVE_SCENARIO } from "../support/factories-investigations";
 import { onOutOfToleranceFinding, type Finding } from "../../server/modules/investigations/investigations.hooks";
 import { dispositions, limitItems, readingTools, readings } from "../../server/db/schema";
 import { evidenceOfRows } from "../../server/modules/readings/reading-evidence";
@@ -15,10 +15,7 @@ import { sizeFromValues } from "../../shared/inspection/sizes";
 // as-found error (+0.0003 in at 0.500 in) is invented; the re-judging it feeds is checked against the shared
 // computation (shared/investigations/affected-reading.ts), the same one the check sheet's judging uses.
 
-const NOW = "2026-06-15T15:00:00Z";
-const GOOD_CAL = "2026-01-10T15:00:00Z";
-const FINDING_AT = "2026-06-15T14:00:00Z";
-const VALVES = 8;
+const { now: NOW, goodCal: GOOD_CAL, findingAt: FINDING_AT, valves: VALVES, stems, guides } = VALVE_SCENARIO;
 const SHEETS = 12;
 
 let t: TestApp;
@@ -74,8 +71,6 @@ async function manySheets() {
   ]);
   const jobs: Awaited<ReturnType<typeof makeJob>>[] = [];
   for (let j = 0; j < SHEETS; j++) jobs.push(await makeJob(t.db, table.id, { engineSerial: `HF-BULK-${String(j + 1).padStart(2, "0")}` }));
-  const stems = ["0.4336", "0.4337", "0.4338", "0.4339", "0.4336", "0.4340", "0.4337", "0.4335"];
-  const guides = ["0.4362", "0.4369", "0.4356", "0.4365", "0.4370", "0.4358", "0.4363", "0.4367"];
   type Row = typeof readings.$inferInsert & { tools: string[] };
   const rows: Row[] = [];
   const base = new Date("2026-02-01T15:00:00Z").getTime();

@@ -10,7 +10,7 @@ import { createTestDatabase, type TestDatabase } from "../support/test-db";
 import { makeFamily, makeLab, makeTool } from "../support/factories";
 import { calibrations, calibrationReviews, checkouts, holds, intermediateChecks, labShipments, toolLifecycleEvents, tools, users } from "../../server/db/schema";
 import { gatherStatusesAt, statusesFor, type StatusContext, type ToolStatusView } from "../../server/modules/tools/tool-status.service";
-import { countByStatus, statusCase, statusIn, statusNow } from "../../server/modules/tools/tool-states.sql";
+import { countByStatus, statusCase, statusCountSql, statusIn, statusNow } from "../../server/modules/tools/tool-states.sql";
 import { TOOL_STATUSES, type ToolStatus } from "../../shared/tools/tool-status";
 import { addDays, calendarDate } from "../../shared/common/dates";
 import type { DbOrTx } from "../../server/db/client";
@@ -183,6 +183,15 @@ describe("the indexed status (tool_states) against the definition (deriveToolSta
         const inCal = (v: ToolStatusView, d: number) => ["in_calibration", "due_soon", "limited"].includes(v.status) && v.daysToDue != null && v.daysToDue >= 0 && v.daysToDue <= d;
         expect(counts.byStatus).toEqual(want);
         expect(counts.dueWithin).toEqual([views.filter((v) => inCal(v, 7)).length, views.filter((v) => inCal(v, 30)).length]);
+        // The register's total when filtered by status alone: each status, and several at once.
+        const mix: ToolStatus[] = ["overdue", "due_soon", "quarantined"];
+        const totals = await db.execute(sql`select ${sql.join(
+          TOOL_STATUSES.map((st) => sql`${statusCountSql([st], now)} as ${sql.raw(`"n_${st}"`)}`),
+          sql`, `,
+        )}, ${statusCountSql(mix, now)} as n_mix`);
+        const t = totals.rows[0] as Record<string, unknown>;
+        expect(Object.fromEntries(TOOL_STATUSES.map((st) => [st, Number(t[`n_${st}`])]))).toEqual(want);
+        expect(Number(t.n_mix)).toBe(mix.reduce((a, st) => a + want[st], 0));
       }
     }
     expect(mismatches.slice(0, 10)).toEqual([]);

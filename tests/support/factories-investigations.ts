@@ -29,6 +29,19 @@ export const VALVE_ITEMS: ItemSpec[] = [
   { key: "pin", label: "Rocker pin", kind: "journal", min: "0.1000", max: "0.1010" },
 ];
 
+/**
+ * The valve-sheet scenario of the investigation tests (demo values, invented): a micrometer known good in January and
+ * found out of tolerance in June, eight valves a sheet, the stems and guides measured on each.
+ */
+export const VALVE_SCENARIO = {
+  now: "2026-06-15T15:00:00Z",
+  goodCal: "2026-01-10T15:00:00Z",
+  findingAt: "2026-06-15T14:00:00Z",
+  valves: 8,
+  stems: ["0.4336", "0.4337", "0.4338", "0.4339", "0.4336", "0.4340", "0.4337", "0.4335"],
+  guides: ["0.4362", "0.4369", "0.4356", "0.4365", "0.4370", "0.4358", "0.4363", "0.4367"],
+} as const;
+
 export async function makeLimitTable(db: Db, items: ItemSpec[] = VALVE_ITEMS, over: Partial<typeof limitTables.$inferInsert> = {}) {
   const [table] = await db
     .insert(limitTables)

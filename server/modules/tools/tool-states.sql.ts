@@ -87,6 +87,30 @@ export function statusIn(statuses: readonly ToolStatus[], now: StatusNow): SQL {
 }
 
 /**
+ * How many tools have one of these statuses on that date, as SQL: a sum of counts over disjoint pieces, each a range of
+ * tool_states_status_idx read from the index alone. One count over statusIn's disjunction ("overdue": due before today
+ * or out of uses) made PostgreSQL visit the table page of every overdue tool; the pieces read a few index pages.
+ */
+export function statusCountSql(statuses: readonly ToolStatus[], now: StatusNow): SQL {
+  const wanted = [...new Set(statuses)];
+  const fixed = wanted.filter((x) => (FIXED_STATUSES as readonly string[]).includes(x));
+  const pieces: SQL[] = [];
+  for (const st of wanted) {
+    if (fixed.includes(st)) continue;
+    if (st === "overdue") {
+      pieces.push(sql`s.base_status = 'calibrated' and s.cal_next_due < ${now.today}`);
+      pieces.push(sql`s.base_status = 'calibrated' and s.usage_exhausted and (s.cal_next_due >= ${now.today} or s.cal_next_due is null)`);
+    } else pieces.push(statusIs(st, now));
+  }
+  if (fixed.length) pieces.push(sql`s.base_status = any(${pgArray(fixed)}::text[])`);
+  if (pieces.length === 0) return sql`0`;
+  return sql`(${sql.join(
+    pieces.map((p) => sql`(select count(*) from tool_states s where ${p})`),
+    sql` + `,
+  )})::int`;
+}
+
+/**
  * Count of tools by status, and of tools still in calibration due within each of some numbers of days. The register is
  * first grouped by the columns the status reads (a few hundred groups: one per due date and state), and the status is
  * worked out once per group, not once per tool; the due-within counts are range scans on tool_states.

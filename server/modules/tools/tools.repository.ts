@@ -9,7 +9,7 @@ import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
 import { executePrepared } from "../../db/prepared";
 import { columnsOf } from "../../db/columns";
-import { eventsAfterSql, statusColumns, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
+import { eventsAfterSql, statusColumns, statusCountSql, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 
 export type ToolRow = typeof tools.$inferSelect;
@@ -201,13 +201,17 @@ export const toolsRepository = {
     // the left joins, and a count by status is a count on tool_states' indexes alone.
     // Was the clock set back (a tool with an event after `at`)? Asked with the count: one statement fewer.
     const setBack = eventsAfterSql(at);
-    const countQ = paging
-      ? sql`select count(*)::int as total, ${setBack} as clock_set_back
+    // Filtered by status alone (the register's status tabs, the overdue list): counted off the status index alone.
+    const byStatusAlone = f.statuses && !whereOf(f) && !f.dueWithin && !f.dueFrom && !f.dueTo;
+    const countQ = !paging
+      ? sql`select -1 as total, ${setBack} as clock_set_back`
+      : byStatusAlone
+        ? sql`select ${statusCountSql(f.statuses!, now)} as total, ${setBack} as clock_set_back`
+        : sql`select count(*)::int as total, ${setBack} as clock_set_back
           from tool_states s
           left join tools on tools.id = s.tool_id
           left join families on families.id = tools.family_id
-          where ${where}`
-      : sql`select -1 as total, ${setBack} as clock_set_back`;
+          where ${where}`;
     // Named prepared statements (planned once per connection), except with free text: how many tools a search
     // matches decides between the trigram index and a scan, so that plan is made for each search.
     const run = (q: SQL) => (f.q ? db.execute(q) : executePrepared(db, q));
