@@ -5,10 +5,9 @@ import express, { type Request, type Response, type NextFunction } from "express
 import session from "express-session";
 import helmet from "helmet";
 import compression from "compression";
-import { pinoHttp } from "pino-http";
 import { pino } from "pino";
 import { OpenApiRegistry } from "./openapi/registry";
-import { nextRequestId, requestLog } from "./http/request-log";
+import { identifyRequest, requestLog } from "./http/request-log";
 import { fixedHeadersOf, quickGets } from "./http/quick-get";
 import { compressWholeAnswers } from "./http/compress-answer";
 import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
@@ -37,6 +36,7 @@ export function createApp(services: AppServices) {
     },
     strictTransportSecurity: services.config.COOKIE_SECURE,
   });
+  const headers = fixedHeadersOf(securityHeaders);
   const logRequest = requestLog();
 
   // The session table comes with the migrations (the runtime role creates no tables). Pruning is a
@@ -62,18 +62,24 @@ export function createApp(services: AppServices) {
         const person = id === null ? undefined : signedInUserIfKnown(id);
         return person && person.active ? toSessionUser(person) : null;
       },
-      headers: fixedHeadersOf(securityHeaders),
+      headers,
       begin: (req, res) => {
-        req.id = nextRequestId();
-        req.log = logger.child({ reqId: req.id });
+        identifyRequest(req, logger);
         logRequest(req, res, () => undefined);
       },
     }),
   );
-  app.use(securityHeaders);
-  // req.log: a child logger with the request's id. The request line itself is requestLog's: one line
+  // helmet's headers are the same on every answer (no per-request values with these options): set in one step.
+  app.use((_req: Request, res: Response, next: NextFunction) => {
+    for (const [name, value] of headers) res.setHeader(name, value);
+    next();
+  });
+  // req.id and req.log (a child logger with the request's id). The request line itself is requestLog's: one line
   // at info (method, path, status, ms, user), the headers only at debug.
-  app.use(pinoHttp({ logger, genReqId: nextRequestId, quietReqLogger: true, quietResLogger: true, autoLogging: false }));
+  app.use((req: Request, _res: Response, next: NextFunction) => {
+    identifyRequest(req, logger);
+    next();
+  });
   app.use(logRequest);
   // Answers and the client's files travel compressed when the browser accepts it; progress streams
   // (application/x-ndjson) are left alone so each line arrives when it is written. Answers are compressed anew for
