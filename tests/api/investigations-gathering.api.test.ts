@@ -1,4 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { Writable } from "node:stream";
+import { pino } from "pino";
 import { and, eq } from "drizzle-orm";
 import { createTestApp, memoryMailer, type TestApp } from "../support/test-app";
 import { makeTool } from "../support/factories";
@@ -56,8 +58,22 @@ async function micrometerWithSheets(tag: string) {
 }
 
 /** Opens the finding in its own transaction, as recording the calibration does; `inlineReadings` 0 gathers afterwards. */
+/** The operator's log, as written lines. */
+const warnings: { investigationId?: string; msg: string }[] = [];
+const logger = pino(
+  { level: "warn" },
+  new Writable({
+    write(chunk, _enc, cb) {
+      for (const l of String(chunk).split("\n")) if (l.trim()) warnings.push(JSON.parse(l));
+      cb();
+    },
+  }),
+);
+
 async function open(finding: Finding, inlineReadings?: number) {
-  const out = await t.db.transaction((tx) => onOutOfToleranceFinding(tx, { clock: t.clock, mailer: t.mailer, timeZone: "America/Chicago", inlineReadings }, finding));
+  const out = await t.db.transaction((tx) =>
+    onOutOfToleranceFinding(tx, { clock: t.clock, mailer: t.mailer, logger, timeZone: "America/Chicago", inlineReadings }, finding),
+  );
   return out!.investigationId;
 }
 
@@ -185,6 +201,10 @@ describe("a finding over a large window", () => {
     const a = await t.agent("auditor");
     await new Promise((r) => setTimeout(r, 200));
     expect((await a.get(`/api/investigations/${id!}`)).body.gathering).toBe(true);
+    // The operator's log says so, naming the investigation.
+    expect(warnings.filter((w) => w.investigationId === id!).map((w) => w.msg)).toEqual([
+      "investigation: gathering its affected readings failed; the minute's sweep gathers them",
+    ]);
     expect(await gatherPendingInvestigations(t.db, { clock: t.clock, mailer: t.mailer })).toBe(1);
     expect(await gatherPendingInvestigations(t.db, { clock: t.clock, mailer: t.mailer })).toBe(0);
     const inv = await a.get(`/api/investigations/${id!}`);

@@ -298,7 +298,7 @@ export function calibrationsService(deps: RegisterDeps) {
         // conditional statements are listed for the quality manager's review instead.
         const opened = computed.asFoundInTolerance
           ? null
-          : await onOutOfToleranceFinding(tx, { clock, mailer: deps.mailer, timeZone }, { kind: "as_found_failure", toolId: tool.id, calibrationId: row.id, at: performedAt, actorId });
+          : await onOutOfToleranceFinding(tx, { clock, mailer: deps.mailer, logger: deps.logger, timeZone }, { kind: "as_found_failure", toolId: tool.id, calibrationId: row.id, at: performedAt, actorId });
         return { id: row.id, investigationId: opened?.investigationId ?? null };
       }).catch((e: unknown) => {
         // Simultaneous corrections of one record: the unique index lets exactly one through.

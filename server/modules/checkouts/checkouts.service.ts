@@ -1,3 +1,4 @@
+import type { Logger } from "pino";
 import { checkPointOutsideRange } from "../../../shared/tools/check-range";
 import type { Db, DbOrTx } from "../../db/client";
 import type { Clock } from "../../platform/clock";
@@ -35,6 +36,8 @@ export interface CribDeps {
   config: Config;
   mailer?: Mailer;
   storage?: ObjectStorage | null;
+  /** Told of what fails after a reply was sent (an investigation's readings not gathered). */
+  logger?: Logger;
 }
 
 export interface UploadedPhoto {
@@ -95,7 +98,7 @@ export function toCheckout(row: CheckoutViewRow, status: ToolStatusView | undefi
 export function checkoutsService(deps: CribDeps) {
   const { db, clock, config } = deps;
   const zone = () => config.SHOP_TIME_ZONE;
-  const findingDeps = async (tx: DbOrTx) => ({ clock, mailer: deps.mailer, timeZone: (await statusContext(tx, zone())).timeZone });
+  const findingDeps = async (tx: DbOrTx) => ({ clock, mailer: deps.mailer, logger: deps.logger, timeZone: (await statusContext(tx, zone())).timeZone });
 
   async function views(rows: CheckoutViewRow[], now: Date): Promise<Checkout[]> {
     const ctx = await statusContext(db, zone());

@@ -83,7 +83,7 @@ export function checksService(deps: RegisterDeps) {
           note: input.note ?? null,
         });
         await recordAudit(tx, { actorId, action: passed ? "check.pass" : "check.fail", entityType: "intermediate_check", entityId: row.id, after: { assetTag: tool.assetTag, ...row }, at: now });
-        const opened = passed ? null : await onOutOfToleranceFinding(tx, { clock, mailer: deps.mailer, timeZone: ctx.timeZone }, { kind: "check_failure", toolId: tool.id, checkId: row.id, at: now, actorId });
+        const opened = passed ? null : await onOutOfToleranceFinding(tx, { clock, mailer: deps.mailer, logger: deps.logger, timeZone: ctx.timeZone }, { kind: "check_failure", toolId: tool.id, checkId: row.id, at: now, actorId });
         return { row, investigationId: opened?.investigationId ?? null };
       });
       const [check] = await toChecks(db, [row]);

@@ -49,7 +49,7 @@ export function sendAfterCommit(tx: DbOrTx, mailer: Mailer | undefined, clock: C
  * of what the transaction wrote, so it must look before it acts (a claim, a row still pending). Its failures are left
  * to the minute's sweeps, which look for the same pending rows.
  */
-export function afterCommit(tx: DbOrTx, work: (db: Db) => Promise<void>) {
+export function afterCommit(tx: DbOrTx, work: (db: Db) => Promise<void>, onError: (err: unknown) => void = () => undefined) {
   const client = (tx as unknown as { session?: { client?: unknown } }).session?.client as (pg.PoolClient & { release: (err?: Error | boolean) => void }) | undefined;
   if (client && typeof client.release === "function") {
     const release = client.release;
@@ -61,13 +61,16 @@ export function afterCommit(tx: DbOrTx, work: (db: Db) => Promise<void>) {
         .then(
           () => release.call(client),
           // A connection that failed mid-work is not handed to the next request.
-          (e: unknown) => release.call(client, e instanceof Error ? e : true),
+          (e: unknown) => {
+            onError(e);
+            release.call(client, e instanceof Error ? e : true);
+          },
         );
     };
     return;
   }
   // Not inside a pooled transaction: every statement has already committed.
-  queueMicrotask(() => void work(tx as Db).catch(() => undefined));
+  queueMicrotask(() => void work(tx as Db).catch(onError));
 }
 
 /** Sends every notice still pending (a sweep for notices a crash left behind; the seed uses it too). */

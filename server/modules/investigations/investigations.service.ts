@@ -242,9 +242,13 @@ const openedAudit = (inv: repo.InvestigationRow, items: ItemInsert[] | null) => 
  * process did not finish (a crash, a lost connection) is gathered by the minute's sweep (gatherPendingInvestigations).
  */
 function gatherAfterCommit(tx: Tx, deps: FindingDeps, investigationId: string) {
-  afterCommit(tx, async (db) => {
-    if ((await gatherReadings(db, deps, investigationId)) && deps.mailer) await deliverNotices(db, deps.mailer, deps.clock, investigationId);
-  });
+  afterCommit(
+    tx,
+    async (db) => {
+      if ((await gatherReadings(db, deps, investigationId)) && deps.mailer) await deliverNotices(db, deps.mailer, deps.clock, investigationId);
+    },
+    (err) => deps.logger?.warn({ err, investigationId }, "investigation: gathering its affected readings failed; the minute's sweep gathers them"),
+  );
 }
 
 /**

@@ -2,6 +2,7 @@
 // in one direction only: hooks → service → notify → repository (none of them back).
 import type { Clock } from "../../platform/clock";
 import type { Mailer } from "../../platform/mailer";
+import type { Logger } from "pino";
 import type { LengthUnit } from "../../../shared/common/units";
 
 /** What opened an investigation; each is linked to the record that found it. */
@@ -15,6 +16,8 @@ export interface FindingDeps {
   clock: Clock;
   mailer?: Mailer;
   timeZone: string;
+  /** Told when gathering an investigation's readings after its finding committed fails (the sweep gathers them later). */
+  logger?: Pick<Logger, "warn">;
   /** How many readings an opening re-judges in its own transaction (INLINE_READINGS unless given). */
   inlineReadings?: number;
 }

@@ -1,3 +1,4 @@
+import type { Logger } from "pino";
 // Small pieces shared by the register modules (families, tools, standards, labs, calibrations, checks).
 import { z } from "zod";
 import type { Db } from "../../db/client";
@@ -13,6 +14,8 @@ export interface RegisterDeps {
   clock: Clock;
   mailer?: Mailer;
   storage?: ObjectStorage | null;
+  /** Told of what fails after a reply was sent (an investigation's readings not gathered). */
+  logger?: Logger;
   /** Configured shop time zone; the settings may override it. */
   defaultTimeZone: string;
 }
