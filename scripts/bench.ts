@@ -242,8 +242,11 @@ async function fill(url: string, shape: Shape) {
 }
 
 // ---- Processes ---------------------------------------------------------------------------------------------
-/** Node options for the app's process only, e.g. BENCH_APP_NODE_ARGS="--cpu-prof --cpu-prof-dir=/tmp/prof" to profile it. */
-const appNodeArgs = (process.env.BENCH_APP_NODE_ARGS ?? "").split(" ").filter(Boolean);
+/**
+ * The app's Node.js flags: the server's own, as `npm start` gives them (SERVER_NODE_FLAGS, scripts/lib.sh), then any
+ * for this run alone, e.g. BENCH_APP_NODE_ARGS="--cpu-prof --cpu-prof-dir=/tmp/prof" to profile it.
+ */
+const appNodeArgs = `${process.env.SERVER_NODE_FLAGS ?? ""} ${process.env.BENCH_APP_NODE_ARGS ?? ""}`.split(" ").filter(Boolean);
 function startChild(kind: "app" | "floor", env: Record<string, string>): Promise<{ child: ChildProcess; url: string }> {
   const child =
     kind === "app"

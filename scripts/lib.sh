@@ -63,6 +63,14 @@ reachable_data_dir() {
   echo "$wanted"
 }
 
+# SERVER_NODE_FLAGS: the server's own Node.js flags, for `npm start` and the benchmark's app alike. A larger young
+# generation (--max-semi-space-size, Node's CLI documentation: "may improve throughput … at the cost of more
+# memory"; 16 MiB by default on 64-bit, three semi-spaces): a register page of 50 tools allocates about 1 MB, so at
+# 16 MiB a scavenge of 2-3 ms fell inside one request in every 13 or so, which is what a page's 95th percentile
+# was made of; at 64 MiB one in every 50 or so (docs/performance.md, 2026-12-04 fifth). About 150 MB more at most.
+SERVER_NODE_FLAGS="--max-semi-space-size=64"
+export SERVER_NODE_FLAGS
+
 # pg_memory_opts: PostgreSQL's own cache sized for the machine, where its default (128 MB) would hold a few percent of
 # a large shop's database and every other page would be copied in from the system's cache as it is read. A quarter of
 # the memory (of the container's limit, when lower), as PostgreSQL's manual suggests for a starting value, at least

@@ -33,7 +33,8 @@ else
 fi
 
 export NODE_ENV=production
-node dist/server/server/launch.js &
+# shellcheck disable=SC2086 # the flags are words
+node $SERVER_NODE_FLAGS dist/server/server/launch.js &
 APP=$!
 CLEANED=""
 cleanup() {

@@ -10,6 +10,20 @@ import type { StatusContext } from "./tool-status.service";
 import { calendarDate } from "../../../shared/common/dates";
 
 /**
+ * The tool_states columns the derivation reads (fromState), named: `s.*` also brought the columns only SQL reads
+ * (base_status, usage_exhausted, usage_warn, tool_id), and every column of a page's 50 rows is parsed.
+ */
+const STATE_COLUMNS = [
+  "lifecycle", "calibration_required", "usage_limit",
+  "cal_id", "cal_performed_at", "cal_result", "cal_next_due", "cal_limited_min", "cal_limited_max", "cal_limited_note",
+  "pending_performed_at", "pending_lab", "uses_since_cal", "failed_check_at", "failed_check_deviation",
+  "hold_since", "hold_reason", "lab_since", "lab_name", "lab_expected_back",
+  "custody_checkout_id", "custody_user_id", "custody_since", "custody_due_back", "settled_at",
+]
+  .map((c) => `s.${c}`)
+  .join(", ");
+
+/**
  * The columns a tool's status is derived from (statusesOfRows in tool-status.service.ts) and a status answer shows,
  * for a statement over `tools` named `tool`, its `tool_states s` and the custodian `users` named `custodian`, both
  * outer-joined.
@@ -17,7 +31,7 @@ import { calendarDate } from "../../../shared/common/dates";
 export function statusColumns(tool: string, custodian: string): SQL {
   return sql.raw(
     `${tool}.id, ${tool}.asset_tag, ${tool}.unit, ${tool}.description, ${tool}.location, ${tool}.owner_type, ${tool}.owner_user_id, ${tool}.owner_name, ` +
-      `s.*, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
+      `${STATE_COLUMNS}, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
   );
 }
 

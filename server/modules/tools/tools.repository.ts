@@ -8,13 +8,18 @@ import { intermediateChecks } from "../checks/checks.table";
 import type { ToolListQuery } from "../../../shared/tools/tools.schemas";
 import { listPage, pageOffset } from "../../db/paging";
 import { executePrepared } from "../../db/prepared";
-import { columnsOf } from "../../db/columns";
 import { eventsAfterSql, statusColumns, statusCountSql, statusIn, statusOrder, type StatusNow } from "./tool-states.sql";
 import type { ToolStatus } from "../../../shared/tools/tool-status";
 
 export type ToolRow = typeof tools.$inferSelect;
 export type SetElementRow = typeof setElements.$inferSelect;
-export type ToolListRow = { tool: ToolRow; familyName: string; kind: (typeof families.$inferSelect)["kind"] };
+/** What a line of the register shows of a tool itself (toToolSummary); its status comes beside it. */
+export type ToolSummaryRow = Pick<
+  ToolRow,
+  | "id" | "assetTag" | "description" | "familyId" | "unit" | "rangeMin" | "rangeMax" | "resolution" | "serialNumber" | "maker" | "model"
+  | "location" | "ownerType" | "ownerUserId" | "ownerName" | "intervalDays" | "lifecycle" | "calibrationRequired" | "acceptanceUse"
+>;
+export type ToolListRow = { tool: ToolSummaryRow; familyName: string; kind: (typeof families.$inferSelect)["kind"] };
 
 /** Filters of the register that SQL can apply (status is derived, see tools.service listTools). */
 export type ToolSqlFilters = Pick<ToolListQuery, "familyId" | "kind" | "q" | "custodianId" | "ownerUserId" | "location" | "ownerType">;
@@ -56,8 +61,38 @@ function orderOf(sort: { key: SqlSortKey; desc: boolean }) {
 
 const listColumns = { tool: tools, familyName: families.name, kind: families.kind };
 
-/** A tool's own columns in a statement written as SQL over `tools`, each as `tool.<name>`, and their reader. */
-const TOOL = columnsOf(tools, "tools", "tool.");
+/**
+ * The register page's own columns of `tools`: what a line shows beyond the columns the status reads (statusColumns
+ * gives id, tag, unit, description, location and owner, not read twice). Read into one object literal per row
+ * (readListTool): a spread of a reader's dynamically built object left every line's objects slow to read and to
+ * write as JSON, and doubled the page's garbage collection.
+ */
+const LIST_TOOL = sql.raw(
+  "tools.family_id as tool_family_id, tools.range_min as tool_range_min, tools.range_max as tool_range_max, tools.resolution as tool_resolution, " +
+    "tools.serial_number as tool_serial_number, tools.maker as tool_maker, tools.model as tool_model, tools.interval_days as tool_interval_days, " +
+    "tools.lifecycle as tool_lifecycle, tools.calibration_required as tool_calibration_required, tools.acceptance_use as tool_acceptance_use",
+);
+const readListTool = (r: Record<string, unknown>): ToolSummaryRow => ({
+  id: String(r.id),
+  assetTag: String(r.asset_tag),
+  description: String(r.description),
+  familyId: String(r.tool_family_id),
+  unit: r.unit as ToolRow["unit"],
+  rangeMin: String(r.tool_range_min),
+  rangeMax: String(r.tool_range_max),
+  resolution: String(r.tool_resolution),
+  serialNumber: String(r.tool_serial_number),
+  maker: (r.tool_maker as string | null) ?? null,
+  model: (r.tool_model as string | null) ?? null,
+  location: (r.location as string | null) ?? null,
+  ownerType: r.owner_type as ToolRow["ownerType"],
+  ownerUserId: (r.owner_user_id as string | null) ?? null,
+  ownerName: (r.owner_name as string | null) ?? null,
+  intervalDays: Number(r.tool_interval_days),
+  lifecycle: r.tool_lifecycle as ToolRow["lifecycle"],
+  calibrationRequired: Boolean(r.tool_calibration_required),
+  acceptanceUse: Boolean(r.tool_acceptance_use),
+});
 
 /** Filters on the indexed status (docs/decisions/013). */
 export interface StatusFilters {
@@ -189,42 +224,44 @@ export const toolsRepository = {
     const limit = paging ? sql` limit ${literalLimit(paging.pageSize)}${skip > 0 ? sql` offset ${skip}` : sql``}` : sql``;
     // Blanks last either way (asc puts nulls last already, so an index on the value serves it in order).
     const order = sort.desc ? sql`(${value}) desc nulls last` : sql`(${value}) asc`;
-    const pageQ = sql`select ${TOOL.list}, ${statusColumns("tools", "cu")}, families.name as family_name, families.kind as family_kind,
-        (${value})::text as sort_value
-      from tools
-      join families on families.id = tools.family_id
-      left join tool_states s on s.tool_id = tools.id
-      left join users cu on cu.id = s.custody_user_id
-      where ${where}${keyset}
-      order by ${order}, tools.asset_tag asc${limit}`;
     // From the state rows (one per tool, kept by triggers): with no filter on the tool itself PostgreSQL drops
     // the left joins, and a count by status is a count on tool_states' indexes alone.
     // Was the clock set back (a tool with an event after `at`)? Asked with the count: one statement fewer.
     const setBack = eventsAfterSql(at);
     // Filtered by status alone (the register's status tabs, the overdue list): counted off the status index alone.
     const byStatusAlone = f.statuses && !whereOf(f) && !f.dueWithin && !f.dueFrom && !f.dueTo;
-    const countQ = !paging
-      ? sql`select -1 as total, ${setBack} as clock_set_back`
+    const counted = !paging
+      ? sql`-1`
       : byStatusAlone
-        ? sql`select ${statusCountSql(f.statuses!, now)} as total, ${setBack} as clock_set_back`
-        : sql`select count(*)::int as total, ${setBack} as clock_set_back
-          from tool_states s
-          left join tools on tools.id = s.tool_id
-          left join families on families.id = tools.family_id
-          where ${where}`;
+        ? statusCountSql(f.statuses!, now)
+        : sql`(select count(*)::int from tool_states s
+            left join tools on tools.id = s.tool_id
+            left join families on families.id = tools.family_id
+            where ${where})`;
+    // The page carries the count and the clock check in each row (uncorrelated subqueries, each run once as an
+    // init plan): one statement and one round trip a page, where two in parallel cost two hand-overs each way.
+    const pageQ = sql`select ${LIST_TOOL}, ${statusColumns("tools", "cu")}, families.name as family_name, families.kind as family_kind,
+        (${value})::text as sort_value, ${counted} as total, ${setBack} as clock_set_back
+      from tools
+      join families on families.id = tools.family_id
+      left join tool_states s on s.tool_id = tools.id
+      left join users cu on cu.id = s.custody_user_id
+      where ${where}${keyset}
+      order by ${order}, tools.asset_tag asc${limit}`;
     // Named prepared statements (planned once per connection), except with free text: how many tools a search
     // matches decides between the trigram index and a scan, so that plan is made for each search.
     const run = (q: SQL) => (f.q ? db.execute(q) : executePrepared(db, q));
-    const [page, counted] = await Promise.all([run(pageQ), run(countQ)]);
-    const rows = (page.rows as Record<string, unknown>[]).map((r) => ({
-      tool: TOOL.read(r) as ToolRow,
+    const pageRows = (await run(pageQ)).rows as Record<string, unknown>[];
+    const rows = pageRows.map((r) => ({
+      tool: readListTool(r),
       familyName: String(r.family_name),
       kind: r.family_kind as ToolListRow["kind"],
       sortValue: (r.sort_value as string | null) ?? null,
       /** The columns the tool's status is derived from (statusesOfRows). */
       state: r,
     }));
-    const { total, clock_set_back } = counted.rows[0] as { total: number; clock_set_back: boolean };
+    // An empty page carries neither: asked on their own (a page past the end, or nothing matches).
+    const { total, clock_set_back } = (pageRows[0] ?? (await run(sql`select ${counted} as total, ${setBack} as clock_set_back`)).rows[0]) as { total: number; clock_set_back: boolean };
     return { rows, total: paging ? total : rows.length, clockSetBack: Boolean(clock_set_back) };
   },
 
