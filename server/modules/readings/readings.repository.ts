@@ -1,6 +1,7 @@
 import { and, asc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { DbOrTx } from "../../db/client";
+import { timeOrderedId } from "../../db/ids";
 import { columnsOf, insertShape, keysOfRow, shapeValues } from "../../db/columns";
 import { executePrepared, executeShaped } from "../../db/prepared";
 import { inList } from "../../db/values";
@@ -112,7 +113,8 @@ export const readingsRepository = {
     // whether partners are asked. Every value is a placeholder.
     const { jobId, ...row } = values;
     const readingKeys = keysOfRow(row);
-    const judgementRow = { ...judgement, readingId: values.id };
+    // The judgement's own key in the order made, as the reading's (server/db/ids.ts).
+    const judgementRow = { ...judgement, id: timeOrderedId(), readingId: values.id };
     const judgementKeys = keysOfRow(judgementRow);
     const toolLinks = toolRows.map((t) => ({ ...t, readingId: values.id }));
     const toolKeys = toolLinks.length ? keysOfRow(toolLinks[0]) : [];

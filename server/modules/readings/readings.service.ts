@@ -1,8 +1,8 @@
-import { randomUUID } from "node:crypto";
 import { z } from "zod";
 import { sql } from "drizzle-orm";
 import type { Db, DbOrTx } from "../../db/client";
 import { inList } from "../../db/values";
+import { timeOrderedId } from "../../db/ids";
 import type { Clock } from "../../platform/clock";
 import type { SessionUser } from "../../http/route";
 import { AppError, Errors, notFound, refused } from "../../http/errors";
@@ -258,7 +258,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     const judged = judgeReading(item, evidence, jctx);
     const verdict = judged.view.verdict;
     const flagList = [...flags];
-    const readingId = randomUUID();
+    const readingId = timeOrderedId();
     const stored = { ...values, id: readingId, verdict, flags: flagList };
     const audit = {
       actorId: user.id,
