@@ -15,7 +15,7 @@ import { authRoutes, configurePassport, toSessionUser } from "./auth/auth.routes
 import { signedInUserIfKnown } from "./modules/users/signed-in-cache";
 import { csrfProtection } from "./auth/csrf";
 import { SessionStore } from "./auth/session-store";
-import { moduleRouters, quickGetRoutes } from "./modules";
+import { moduleRouters, quickGetRoutes, quickWriteRoutes } from "./modules";
 import type { AppDeps, AppServices } from "./app-deps";
 
 /** Builds the Express app; only server/index.ts listens. */
@@ -51,16 +51,24 @@ export function createApp(services: AppServices) {
   });
   const sessionCookie = { name: "tenthwise.sid", secret: services.config.SESSION_SECRET, secure: services.config.COOKIE_SECURE, maxAgeMs: 12 * 60 * 60 * 1000 };
 
-  // A tool's status asked with a session and person this instance read moments ago is answered here, before the
-  // middleware below, with what it would have added (server/http/quick-get.ts); anything else goes on.
+  // The JSON body parser and the compression of whole answers, one instance each for the whole way and the front.
+  const parseJson = express.json({ limit: "5mb" });
+  const compressWhole = compressWholeAnswers();
+
+  // A tool's status asked, or a reading recorded, with a session and person this instance read moments ago is
+  // answered here, before the middleware below, with what it would have added (server/http/quick-get.ts); anything
+  // else goes on.
   app.use(
     quickGets({
       routes: quickGetRoutes(deps),
       cookie: sessionCookie,
+      writes: quickWriteRoutes(deps),
+      parseJson,
+      compress: compressWhole,
       signedIn: (sid) => {
-        const id = store.signedInFromCache(sid);
-        const person = id === null ? undefined : signedInUserIfKnown(id);
-        return person && person.active ? toSessionUser(person) : null;
+        const cached = store.signedInFromCache(sid);
+        const person = cached === null ? undefined : signedInUserIfKnown(cached.userId);
+        return cached && person && person.active ? { user: toSessionUser(person), csrfToken: cached.csrfToken } : null;
       },
       headers,
       begin: (req, res) => {
@@ -89,8 +97,8 @@ export function createApp(services: AppServices) {
   const compressAnswer = compression({ filter: compressible, level: 1, brotli: { params: { [zlib.constants.BROTLI_PARAM_QUALITY]: 1 } } });
   const compressFile = compression({ filter: compressible });
   app.use((req, res, next) => (req.path.startsWith("/api/") ? compressAnswer : compressFile)(req, res, next));
-  app.use("/api", compressWholeAnswers());
-  app.use(express.json({ limit: "5mb" }));
+  app.use("/api", compressWhole);
+  app.use(parseJson);
 
   app.use(
     session({

@@ -37,7 +37,7 @@ type PgStoreOptions = ConstructorParameters<typeof PgStore>[0];
 /** connect-pg-simple's store, with the expiry written only when it moved by TOUCH_INTERVAL_MS. */
 export class SessionStore extends PgStore {
   readonly #written = new Map<string, number>();
-  readonly #cached = new Map<string, { at: number; json: string; userId: string | null; expires: number }>();
+  readonly #cached = new Map<string, { at: number; json: string; userId: string | null; csrfToken: string | null; expires: number }>();
   /** Moves on every change or end of a session here, so a read that was in flight across one is not cached. */
   #epoch = 0;
 
@@ -54,7 +54,8 @@ export class SessionStore extends PgStore {
     if (this.#cached.size >= MAX_CACHED) this.#cached.clear();
     const expires = sess.cookie?.expires ? new Date(sess.cookie.expires).getTime() : Infinity;
     const userId = (sess as { passport?: { user?: string } }).passport?.user ?? null;
-    this.#cached.set(sid, { at: Date.now(), json: JSON.stringify(sess), userId, expires });
+    const token = (sess as { csrfToken?: unknown }).csrfToken;
+    this.#cached.set(sid, { at: Date.now(), json: JSON.stringify(sess), userId, csrfToken: typeof token === "string" ? token : null, expires });
   }
 
   override get(sid: string, fn: (err: unknown, session?: session.SessionData | null) => void) {
@@ -73,17 +74,17 @@ export class SessionStore extends PgStore {
   }
 
   /**
-   * The person signed in to session `sid`, when this instance read the session within SESSION_REUSE_MS, it has not
+   * The person signed in to session `sid` and the session's CSRF token, when this instance read the session within SESSION_REUSE_MS, it has not
    * expired and its expiry does not need moving now; else null, and the request goes the whole way (express-session
    * reads, touches and caches it). What a request answered from the caches alone may rely on (server/http/quick-get.ts).
    */
-  signedInFromCache(sid: string): string | null {
+  signedInFromCache(sid: string): { userId: string; csrfToken: string | null } | null {
     const hit = this.#cached.get(sid);
     const now = Date.now();
     if (!hit || !hit.userId || now - hit.at >= SESSION_REUSE_MS || hit.expires <= now) return null;
     const written = this.#written.get(sid);
     if (written === undefined || now - written >= this.touchIntervalMs) return null;
-    return hit.userId;
+    return { userId: hit.userId, csrfToken: hit.csrfToken };
   }
 
   /** Forget the cached sessions of one person. */

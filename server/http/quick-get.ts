@@ -1,7 +1,7 @@
 import type { NextFunction, Request, RequestHandler, Response } from "express";
 import { unsign } from "cookie-signature";
 import { cookieValue } from "./cookies";
-import type { SessionUser } from "./route";
+import type { RouteRunner, SessionUser } from "./route";
 
 /** A GET a signed-in person asks very often, answered from the caches when they hold everything it needs. */
 export interface QuickGet {
@@ -11,12 +11,35 @@ export interface QuickGet {
   answer: (params: string[], user: SessionUser) => Promise<unknown>;
 }
 
+/**
+ * A write a signed-in person makes very often (a reading recorded), taken at the front when the caches hold the session
+ * and the request carries that session's CSRF token, then run by its route's own runner (role, input, validation,
+ * handler, answer), after the same JSON body parser as the whole way.
+ */
+export interface QuickWrite {
+  /** The route's path as the router has it (`/api/jobs/:id/readings`). */
+  path: string;
+  run: RouteRunner;
+}
+
+/** The signed-in person of a session and the session's CSRF token, from this instance's caches only. */
+export interface CachedSession {
+  user: SessionUser;
+  csrfToken: string | null;
+}
+
 export interface QuickGetOptions {
   routes: QuickGet[];
+  /** POSTs taken at the front (QuickWrite). */
+  writes?: QuickWrite[];
+  /** The JSON body parser of the whole way (the same instance, so the same limit and errors). */
+  parseJson?: RequestHandler;
+  /** Wraps the answer as the whole way's compression of whole JSON answers does (compress-answer.ts). */
+  compress?: RequestHandler;
   /** The session cookie as express-session writes it (`s:` + the signed session id). */
   cookie: { name: string; secret: string; secure: boolean; maxAgeMs: number };
   /** The active person signed in to a session id, from this instance's caches only; null sends the request the whole way. */
-  signedIn: (sid: string) => SessionUser | null;
+  signedIn: (sid: string) => CachedSession | null;
   /** The headers every answer carries (the security headers), captured once from their middleware. */
   headers: ReadonlyArray<readonly [string, string]>;
   /** Gives the request its id and request-log line, as the whole way does. */
@@ -34,9 +57,13 @@ const MAX_VERIFIED = 10_000;
  * service call as the whole way; anything else (no cookie, a bad signature, a session or person not in the caches,
  * a query string, an odd path) goes the whole way, which fills the caches. It only answers what the whole way would:
  * a signed-out or deactivated session is dropped from the caches when it ends (session-store.ts, signed-in-cache.ts).
+ * A write (QuickWrite: a reading recorded) is taken the same way when its body is declared JSON and it carries the
+ * session's own CSRF token; its route's own runner does the rest (docs/decisions/026).
  */
 export function quickGets(options: QuickGetOptions): RequestHandler {
-  const { routes, cookie, signedIn, headers, begin } = options;
+  const { routes, cookie, signedIn, headers, begin, parseJson, compress } = options;
+  const writes = (options.writes ?? []).map((w) => ({ ...w, ...patternOf(w.path) }));
+  if (writes.length && !parseJson) throw new Error("quickGets: writes need the JSON body parser");
   // Cookie values already checked, each with its session id: the signature of a value never changes.
   const verified = new Map<string, string>();
   const sessionOf = (raw: string): string | null => {
@@ -49,8 +76,30 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
     verified.set(raw, sid);
     return sid;
   };
+  /** The session's person and the raw cookie when the caches know them, else null (the request goes the whole way). */
+  const cachedSession = (req: Request) => {
+    if (cookie.secure && !req.secure) return null;
+    const raw = cookieValue(req.headers.cookie, cookie.name);
+    const sid = raw === null ? null : sessionOf(raw);
+    const found = sid === null ? null : signedIn(sid);
+    return found && raw !== null ? { ...found, raw } : null;
+  };
+  /** What every answer taken here carries, as the whole way's middleware would have given it. */
+  const start = (req: Request, res: Response, user: SessionUser, raw: string) => {
+    begin(req, res);
+    req.user = user;
+    for (const [name, value] of headers) res.setHeader(name, value);
+    // The rolling session cookie, as express-session writes it on every answer.
+    res.setHeader(
+      "Set-Cookie",
+      `${cookie.name}=${encodeURIComponent(raw)}; Path=/; Expires=${new Date(Date.now() + cookie.maxAgeMs).toUTCString()}; HttpOnly; SameSite=Lax${cookie.secure ? "; Secure" : ""}`,
+    );
+    res.vary("Accept-Encoding");
+    compress?.(req, res, () => undefined);
+  };
 
   return (req: Request, res: Response, next: NextFunction) => {
+    if (req.method === "POST" && writes.length) return quickWrite(req, res, next);
     if (req.method !== "GET") return next();
     const url = req.url;
     let route: QuickGet | undefined;
@@ -63,36 +112,76 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
       }
     }
     if (!route || !match) return next();
-    const params: string[] = [];
-    for (const p of match.slice(1)) {
-      let value: string;
-      try {
-        value = decodeURIComponent(p);
-      } catch {
-        return next();
-      }
-      if (value.includes("\u0000")) return next();
-      params.push(value);
-    }
-    if (cookie.secure && !req.secure) return next();
-    const raw = cookieValue(req.headers.cookie, cookie.name);
-    const sid = raw === null ? null : sessionOf(raw);
-    const user = sid === null ? null : signedIn(sid);
-    if (!user || raw === null) return next();
-
-    begin(req, res);
-    req.user = user;
-    for (const [name, value] of headers) res.setHeader(name, value);
-    // The rolling session cookie, as express-session writes it on every answer.
-    res.setHeader(
-      "Set-Cookie",
-      `${cookie.name}=${encodeURIComponent(raw)}; Path=/; Expires=${new Date(Date.now() + cookie.maxAgeMs).toUTCString()}; HttpOnly; SameSite=Lax${cookie.secure ? "; Secure" : ""}`,
-    );
-    res.vary("Accept-Encoding");
-    route.answer(params, user).then((out) => {
+    const params = paramsOf(match);
+    if (!params) return next();
+    const session = cachedSession(req);
+    if (!session) return next();
+    start(req, res, session.user, session.raw);
+    route.answer(params, session.user).then((out) => {
       if (!res.headersSent) res.status(200).json(out);
     }, next);
   };
+
+  function quickWrite(req: Request, res: Response, next: NextFunction) {
+    const url = req.url;
+    let write: (typeof writes)[number] | undefined;
+    let match: RegExpExecArray | null = null;
+    for (const w of writes) {
+      match = w.pattern.exec(url);
+      if (match) {
+        write = w;
+        break;
+      }
+    }
+    if (!write || !match) return next();
+    const values = paramsOf(match);
+    if (!values) return next();
+    // Only a JSON body (anything else is the whole way's to refuse), and only with this session's token: a request
+    // without it goes the whole way, where the CSRF check refuses it.
+    if (!/^application\/json\s*(;|$)/i.test(String(req.headers["content-type"] ?? ""))) return next();
+    const session = cachedSession(req);
+    const token = req.headers["x-csrf-token"];
+    if (!session || !session.csrfToken || typeof token !== "string" || token !== session.csrfToken) return next();
+    start(req, res, session.user, session.raw);
+    const w = write;
+    parseJson!(req, res, (err?: unknown) => {
+      if (err) return next(err);
+      req.params = Object.fromEntries(w.names.map((n, i) => [n, values[i]]));
+      w.run(req, res).catch(next);
+    });
+  }
+}
+
+/** The path's parameters, percent-decoded; null when one cannot be decoded or holds a NUL (the whole way refuses it). */
+function paramsOf(match: RegExpExecArray): string[] | null {
+  const params: string[] = [];
+  for (const p of match.slice(1)) {
+    let value: string;
+    try {
+      value = decodeURIComponent(p);
+    } catch {
+      return null;
+    }
+    if (value.includes("\u0000")) return null;
+    params.push(value);
+  }
+  return params;
+}
+
+/** A route path with `:name` segments as a pattern over the whole URL (no query string) and the names in order. */
+function patternOf(path: string): { pattern: RegExp; names: string[] } {
+  const names: string[] = [];
+  const source = path
+    .split("/")
+    .map((seg) => {
+      if (seg.startsWith(":")) {
+        names.push(seg.slice(1));
+        return "([^/?#]+)";
+      }
+      return seg.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+    })
+    .join("/");
+  return { pattern: new RegExp(`^${source}$`), names };
 }
 
 /** The headers a header-setting middleware (helmet) sets on every answer, captured by running it once. */

@@ -14,7 +14,7 @@ export interface SessionUser {
 
 type Access = Permission | "signedIn" | "public";
 
-interface RouteSpec<B extends z.ZodType | undefined, Q extends z.ZodType | undefined> {
+export interface RouteSpec<B extends z.ZodType | undefined, Q extends z.ZodType | undefined> {
   method: "get" | "post" | "put" | "patch" | "delete";
   path: string;
   summary: string;
@@ -39,6 +39,9 @@ export interface RouteContext<B, Q> {
 
 type Infer<T> = T extends z.ZodType ? z.infer<T> : undefined;
 
+/** A route's own part of answering a request (routeRunner): what runs once the middleware has run. */
+export type RouteRunner = (req: Request, res: Response) => Promise<void>;
+
 /**
  * Declares one HTTP route: role guard, zod validation of body and query, the
  * handler's answer as JSON, and its entry in the OpenAPI document.
@@ -47,7 +50,7 @@ export function defineRoutes(router: Router, registry: OpenApiRegistry, tag: str
   return function route<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined>(
     spec: RouteSpec<B, Q>,
     handler: (ctx: RouteContext<Infer<B>, Infer<Q>>) => Promise<unknown> | unknown,
-  ) {
+  ): RouteRunner {
     registry.add({
       method: spec.method,
       path: spec.path,
@@ -60,21 +63,35 @@ export function defineRoutes(router: Router, registry: OpenApiRegistry, tag: str
       status: spec.status ?? (spec.method === "post" ? 201 : 200),
       produces: spec.produces,
     });
-    router[spec.method](spec.path, async (req: Request, res: Response) => {
-      const user = req.user as SessionUser | undefined;
-      if (spec.access !== "public") {
-        if (!user) throw Errors.notSignedIn();
-        if (spec.access !== "signedIn" && !can(user.role, spec.access)) throw Errors.forbidden(`Your role (${user.role}) may not do this.`);
-      }
-      refuseUnreadableInput(req, spec.method !== "get" && spec.method !== "delete");
-      const body = spec.body ? spec.body.parse(req.body ?? {}) : undefined;
-      const query = spec.query ? spec.query.parse(req.query ?? {}) : undefined;
-      const out = await handler({ body, query, params: req.params as Record<string, string>, user: user as SessionUser, req, res } as RouteContext<Infer<B>, Infer<Q>>);
-      if (res.headersSent) return;
-      const status = spec.status ?? (spec.method === "post" ? 201 : 200);
-      if (status === 204) res.status(204).end();
-      else res.status(status).json(out);
-    });
+    const run = routeRunner(spec, handler);
+    router[spec.method](spec.path, run);
+    return run;
+  };
+}
+
+/**
+ * The route's own part, without the router: role guard, refusal of unreadable input, zod validation of body and
+ * query, the handler, the answer. The same function answers whether the request came through the router or was
+ * taken at the front (server/http/quick-get.ts).
+ */
+export function routeRunner<B extends z.ZodType | undefined = undefined, Q extends z.ZodType | undefined = undefined>(
+  spec: RouteSpec<B, Q>,
+  handler: (ctx: RouteContext<Infer<B>, Infer<Q>>) => Promise<unknown> | unknown,
+): RouteRunner {
+  return async (req: Request, res: Response) => {
+    const user = req.user as SessionUser | undefined;
+    if (spec.access !== "public") {
+      if (!user) throw Errors.notSignedIn();
+      if (spec.access !== "signedIn" && !can(user.role, spec.access)) throw Errors.forbidden(`Your role (${user.role}) may not do this.`);
+    }
+    refuseUnreadableInput(req, spec.method !== "get" && spec.method !== "delete");
+    const body = spec.body ? spec.body.parse(req.body ?? {}) : undefined;
+    const query = spec.query ? spec.query.parse(req.query ?? {}) : undefined;
+    const out = await handler({ body, query, params: req.params as Record<string, string>, user: user as SessionUser, req, res } as RouteContext<Infer<B>, Infer<Q>>);
+    if (res.headersSent) return;
+    const status = spec.status ?? (spec.method === "post" ? 201 : 200);
+    if (status === 204) res.status(204).end();
+    else res.status(status).json(out);
   };
 }
 

@@ -1,6 +1,6 @@
 import type { Router } from "express";
 import type { AppDeps } from "../app-deps";
-import type { QuickGet } from "../http/quick-get";
+import type { QuickGet, QuickWrite } from "../http/quick-get";
 import { usersRoutes } from "./users/users.routes";
 import { settingsRoutes } from "./settings/settings.routes";
 import { familiesRoutes } from "./families/families.routes";
@@ -14,7 +14,7 @@ import { shipmentsRoutes } from "./shipments/shipments.routes";
 import { labelsRoutes } from "./labels/labels.routes";
 import { limitTablesRoutes } from "./limit-tables/limit-tables.routes";
 import { jobsRoutes } from "./jobs/jobs.routes";
-import { readingsRoutes } from "./readings/readings.routes";
+import { readingsQuickWrites, readingsRoutes } from "./readings/readings.routes";
 import { investigationsRoutes } from "./investigations/investigations.routes";
 import { remindersRoutes } from "./reminders/reminders.routes";
 import { statsRoutes } from "./stats/stats.routes";
@@ -50,3 +50,4 @@ export const moduleRouters: ((deps: AppDeps) => Router)[] = [
 
 /** The GETs answered before the middleware when the caches know the session (server/http/quick-get.ts). */
 export const quickGetRoutes = (deps: AppDeps): QuickGet[] => [...toolsQuickGets(deps)];
+export const quickWriteRoutes = (deps: AppDeps): QuickWrite[] => [...readingsQuickWrites(deps)];
