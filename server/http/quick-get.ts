@@ -101,19 +101,9 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
   return (req: Request, res: Response, next: NextFunction) => {
     if (req.method === "POST" && writes.length) return quickWrite(req, res, next);
     if (req.method !== "GET") return next();
-    const url = req.url;
-    let route: QuickGet | undefined;
-    let match: RegExpExecArray | null = null;
-    for (const r of routes) {
-      match = r.pattern.exec(url);
-      if (match) {
-        route = r;
-        break;
-      }
-    }
-    if (!route || !match) return next();
-    const params = paramsOf(match);
-    if (!params) return next();
+    const found = firstMatch(routes, req.url);
+    if (!found) return next();
+    const { item: route, params } = found;
     const session = cachedSession(req);
     if (!session) return next();
     start(req, res, session.user, session.raw);
@@ -123,19 +113,9 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
   };
 
   function quickWrite(req: Request, res: Response, next: NextFunction) {
-    const url = req.url;
-    let write: (typeof writes)[number] | undefined;
-    let match: RegExpExecArray | null = null;
-    for (const w of writes) {
-      match = w.pattern.exec(url);
-      if (match) {
-        write = w;
-        break;
-      }
-    }
-    if (!write || !match) return next();
-    const values = paramsOf(match);
-    if (!values) return next();
+    const found = firstMatch(writes, req.url);
+    if (!found) return next();
+    const { item: write, params: values } = found;
     // Only a JSON body (anything else is the whole way's to refuse), and only with this session's token: a request
     // without it goes the whole way, where the CSRF check refuses it.
     if (!/^application\/json\s*(;|$)/i.test(String(req.headers["content-type"] ?? ""))) return next();
@@ -143,13 +123,23 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
     const token = req.headers["x-csrf-token"];
     if (!session || !session.csrfToken || typeof token !== "string" || token !== session.csrfToken) return next();
     start(req, res, session.user, session.raw);
-    const w = write;
     parseJson!(req, res, (err?: unknown) => {
       if (err) return next(err);
-      req.params = Object.fromEntries(w.names.map((n, i) => [n, values[i]]));
-      w.run(req, res).catch(next);
+      req.params = Object.fromEntries(write.names.map((n, i) => [n, values[i]]));
+      write.run(req, res).catch(next);
     });
   }
+}
+
+/** The first of `items` whose pattern matches the whole URL, with the path's parameters; null when none does or a parameter cannot be read. */
+function firstMatch<T extends { pattern: RegExp }>(items: readonly T[], url: string): { item: T; params: string[] } | null {
+  for (const item of items) {
+    const match = item.pattern.exec(url);
+    if (!match) continue;
+    const params = paramsOf(match);
+    return params ? { item, params } : null;
+  }
+  return null;
 }
 
 /** The path's parameters, percent-decoded; null when one cannot be decoded or holds a NUL (the whole way refuses it). */
