@@ -71,6 +71,8 @@ export function createApp(services: AppServices) {
         return cached && person && person.active ? { user: toSessionUser(person), csrfToken: cached.csrfToken } : null;
       },
       headers,
+      // The request log's details at debug read the answer's headers as Express keeps them.
+      plainAnswers: !logger.isLevelEnabled("debug"),
       begin: (req, res) => {
         identifyRequest(req, logger);
         logRequest(req, res, () => undefined);

@@ -1,5 +1,6 @@
 import type { NextFunction, Request, RequestHandler, Response } from "express";
 import { unsign } from "cookie-signature";
+import etag from "etag";
 import { cookieValue } from "./cookies";
 import type { RouteRunner, SessionUser } from "./route";
 
@@ -44,7 +45,16 @@ export interface QuickGetOptions {
   headers: ReadonlyArray<readonly [string, string]>;
   /** Gives the request its id and request-log line, as the whole way does. */
   begin: (req: Request, res: Response) => void;
+  /**
+   * Sends a small GET answer in one step with node's own writeHead (headers as one list) instead of Express's res.json:
+   * the same status line, headers and body, without the header-by-header bookkeeping. Off when the request log writes
+   * the answer's headers (at debug), which it reads from that bookkeeping.
+   */
+  plainAnswers?: boolean;
 }
+
+/** An answer this long or longer goes through res.json and the compression of whole answers (compress-answer.ts THRESHOLD). */
+const PLAIN_MAX_BYTES = 1024;
 
 const MAX_VERIFIED = 10_000;
 
@@ -88,14 +98,50 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
   const start = (req: Request, res: Response, user: SessionUser, raw: string) => {
     begin(req, res);
     req.user = user;
+    headed(req, res, raw);
+  };
+  /** The headers of `start`, set one by one for Express's own sending (res.json, the error handler). */
+  const headed = (req: Request, res: Response, raw: string) => {
     for (const [name, value] of headers) res.setHeader(name, value);
-    // The rolling session cookie, as express-session writes it on every answer.
-    res.setHeader(
-      "Set-Cookie",
-      `${cookie.name}=${encodeURIComponent(raw)}; Path=/; Expires=${new Date(Date.now() + cookie.maxAgeMs).toUTCString()}; HttpOnly; SameSite=Lax${cookie.secure ? "; Secure" : ""}`,
-    );
+    res.setHeader("Set-Cookie", sessionCookieText(raw));
     res.vary("Accept-Encoding");
     compress?.(req, res, () => undefined);
+  };
+  /** The rolling session cookie, as express-session writes it on every answer (Expires has whole seconds: kept for one). */
+  let expiresAt = { second: NaN, text: "" };
+  const sessionCookieText = (raw: string) => {
+    const expires = Date.now() + cookie.maxAgeMs;
+    const second = Math.floor(expires / 1000);
+    if (second !== expiresAt.second) expiresAt = { second, text: new Date(expires).toUTCString() };
+    return `${cookie.name}=${encodeURIComponent(raw)}; Path=/; Expires=${expiresAt.text}; HttpOnly; SameSite=Lax${cookie.secure ? "; Secure" : ""}`;
+  };
+  const fixedHeaders = headers.flatMap(([name, value]) => [name, value]);
+  /**
+   * A 200 JSON answer as res.json sends it (Content-Type, Content-Length, the weak ETag Express makes with the same
+   * package), headers and body in one write. A conditional request, or an answer large enough to be compressed, goes
+   * through res.json and the compression of whole answers instead.
+   */
+  const answer = (req: Request, res: Response, out: unknown, raw: string) => {
+    const body = JSON.stringify(out);
+    const length = Buffer.byteLength(body);
+    if (!options.plainAnswers || length >= PLAIN_MAX_BYTES || req.headers["if-none-match"] !== undefined || req.headers["if-modified-since"] !== undefined) {
+      headed(req, res, raw);
+      return void res.status(200).json(out);
+    }
+    res.writeHead(200, [
+      ...fixedHeaders,
+      "Content-Type",
+      "application/json; charset=utf-8",
+      "Content-Length",
+      String(length),
+      "ETag",
+      etag(body, { weak: true }),
+      "Set-Cookie",
+      sessionCookieText(raw),
+      "Vary",
+      "Accept-Encoding",
+    ]);
+    res.end(body);
   };
 
   return (req: Request, res: Response, next: NextFunction) => {
@@ -106,10 +152,17 @@ export function quickGets(options: QuickGetOptions): RequestHandler {
     const { item: route, params } = found;
     const session = cachedSession(req);
     if (!session) return next();
-    start(req, res, session.user, session.raw);
-    route.answer(params, session.user).then((out) => {
-      if (!res.headersSent) res.status(200).json(out);
-    }, next);
+    begin(req, res);
+    req.user = session.user;
+    route
+      .answer(params, session.user)
+      .then((out) => {
+        if (!res.headersSent) answer(req, res, out, session.raw);
+      })
+      .catch((err: unknown) => {
+        if (!res.headersSent) headed(req, res, session.raw);
+        next(err);
+      });
   };
 
   function quickWrite(req: Request, res: Response, next: NextFunction) {

@@ -30,6 +30,21 @@ describe("calendar date of an instant in the shop's time zone", () => {
     expect(calendarDate("2026-10-25T23:00:00Z", "Europe/Berlin")).toBe("2026-10-26");
   });
 
+  it("asked one after another, the last millisecond of a day and the first of the next give two dates, in whole-hour and whole-second zones", () => {
+    // The answer is kept for its UTC second (one status lookup after another asks for the same second); a local
+    // midnight falls on a whole UTC second because zone offsets are whole seconds. Africa/Monrovia kept -0:44:30
+    // until 1972 (tz database, from memory; the runtime's own zone data agrees with it here).
+    expect(calendarDate("2026-03-08T05:59:59.000Z", "America/Chicago")).toBe("2026-03-07");
+    expect(calendarDate("2026-03-08T05:59:59.999Z", "America/Chicago")).toBe("2026-03-07");
+    expect(calendarDate("2026-03-08T06:00:00.000Z", "America/Chicago")).toBe("2026-03-08");
+    expect(calendarDate("1970-01-01T00:44:29.000Z", "Africa/Monrovia")).toBe("1969-12-31");
+    expect(calendarDate("1970-01-01T00:44:29.999Z", "Africa/Monrovia")).toBe("1969-12-31");
+    expect(calendarDate("1970-01-01T00:44:30.000Z", "Africa/Monrovia")).toBe("1970-01-01");
+    // The same second in another zone is another answer.
+    expect(calendarDate("1970-01-01T00:44:30.000Z", "Asia/Tokyo")).toBe("1970-01-01");
+    expect(calendarDate("1970-01-01T00:44:30.000Z", "America/Chicago")).toBe("1969-12-31");
+  });
+
   it("accepts a Date as well as ISO text, and refuses text that is not an instant", () => {
     expect(calendarDate(new Date("2026-06-15T12:00:00Z"), "Europe/Berlin")).toBe("2026-06-15");
     expect(() => calendarDate("not a date", "UTC")).toThrow(RangeError);

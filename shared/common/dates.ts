@@ -37,15 +37,19 @@ export function calendarDate(instant: Date | string, timeZone: string): string {
   const d = instant instanceof Date ? instant : new Date(instant);
   const ms = d.getTime();
   if (Number.isNaN(ms)) throw new RangeError(`Not an instant: ${String(instant)}`);
-  // A page of statuses asks for the date of the same instant once per row; the last answer is kept.
-  if (ms === lastDate.ms && timeZone === lastDate.timeZone) return lastDate.date;
+  // The last answer is kept for its whole UTC second: a page of statuses asks for the same instant once per row, and
+  // every status lookup in the same second asks for the same date. Exact for every zone: an offset from UTC is a whole
+  // number of seconds and changes only at a whole second (the tz database's resolution), so a local midnight always
+  // falls on a whole UTC second and never inside one.
+  const second = Math.floor(ms / 1000);
+  if (second === lastDate.second && timeZone === lastDate.timeZone) return lastDate.date;
   const parts = formatterFor(timeZone).formatToParts(d);
   const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? "";
   const date = `${get("year").padStart(4, "0")}-${get("month")}-${get("day")}`;
-  lastDate = { ms, timeZone, date };
+  lastDate = { second, timeZone, date };
   return date;
 }
-let lastDate = { ms: NaN, timeZone: "", date: "" };
+let lastDate = { second: NaN, timeZone: "", date: "" };
 
 function toUtcMs(date: string): number {
   if (!isCalendarDate(date)) throw new RangeError(`Not a calendar date (YYYY-MM-DD): ${date}`);

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { Writable } from "node:stream";
 import request from "supertest";
+import etag from "etag";
 import { pino } from "pino";
 import { createApp } from "../../server/app";
 import { SessionStore } from "../../server/auth/session-store";
@@ -41,6 +42,11 @@ describe("a status lookup answered from the kept session", () => {
     expect(second.body).toEqual({ ...first.body, at: second.body.at });
     expect(second.body).toMatchObject({ assetTag: "QS-0001", status: "in_calibration", usable: true, dueAt: "2027-03-01" });
     expect(steadyHeaders(second)).toEqual(steadyHeaders(first));
+    // Each answer's validator is Express's weak ETag of its own body (the etag package's form: W/"<length in hex>-<hash>").
+    for (const res of [first, second]) {
+      expect(res.headers["etag"]).toBe(etag(res.text, { weak: true }));
+      expect(res.headers["content-length"]).toBe(String(Buffer.byteLength(res.text)));
+    }
     expect(second.headers["content-security-policy"]).toContain("default-src 'self'");
     expect(second.headers["x-frame-options"]).toBe("SAMEORIGIN");
     // The same session, its expiry moved on: twelve hours from now, as at every answer.

@@ -17,19 +17,32 @@ const KEY = "shop";
 export const SETTINGS_CACHE_MS = 5_000;
 let cache = new WeakMap<object, { at: number; defaultTimeZone: string; value: Promise<Settings> }>();
 
-/** The shop's settings: stored values over defaults (time zone default from configuration). */
+/** The shop's settings: stored values over defaults (time zone default from configuration). A copy the caller may change. */
 export async function getSettings(db: DbOrTx, defaultTimeZone: string): Promise<Settings> {
-  // Inside a transaction always the row itself: a change in the same transaction must be seen.
+  // Inside a transaction always the row itself (a new object): a change in the same transaction must be seen.
   if ("rollback" in db) return readSettings(db, defaultTimeZone);
+  return structuredClone(await keptSettings(db, defaultTimeZone));
+}
+
+/**
+ * The same settings as kept for SETTINGS_CACHE_MS, not a copy: for a caller that only reads a few values from them
+ * (the time zone and warning window of every status lookup), which a copy of the whole object cost more than.
+ */
+export async function readOnlySettings(db: DbOrTx, defaultTimeZone: string): Promise<Readonly<Settings>> {
+  if ("rollback" in db) return readSettings(db, defaultTimeZone);
+  return keptSettings(db, defaultTimeZone);
+}
+
+function keptSettings(db: DbOrTx, defaultTimeZone: string): Promise<Settings> {
   const now = Date.now();
   const hit = cache.get(db);
-  if (hit && hit.defaultTimeZone === defaultTimeZone && now - hit.at < SETTINGS_CACHE_MS) return structuredClone(await hit.value);
+  if (hit && hit.defaultTimeZone === defaultTimeZone && now - hit.at < SETTINGS_CACHE_MS) return hit.value;
   const value = readSettings(db, defaultTimeZone);
   const entry = { at: now, defaultTimeZone, value };
   cache.set(db, entry);
   // A failed read is not kept.
   value.catch(() => cache.get(db) === entry && cache.delete(db));
-  return structuredClone(await value);
+  return value;
 }
 
 async function readSettings(db: DbOrTx, defaultTimeZone: string): Promise<Settings> {

@@ -7,7 +7,7 @@ import { executePrepared, executeShaped } from "../../db/prepared";
 import { statusColumns } from "./tool-states.sql";
 import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
-import { getSettings } from "../settings/settings.service";
+import { readOnlySettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
 
 export interface StatusContext {
@@ -33,7 +33,7 @@ export interface ToolStatusView extends ToolStatusResult {
 
 /** Time zone and warning window from the shop's settings. */
 export async function statusContext(db: DbOrTx, defaultTimeZone: string): Promise<StatusContext> {
-  return statusContextOf(await getSettings(db, defaultTimeZone));
+  return statusContextOf(await readOnlySettings(db, defaultTimeZone));
 }
 
 /** The same from settings already read. */
