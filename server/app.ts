@@ -8,7 +8,7 @@ import compression from "compression";
 import { pino } from "pino";
 import { OpenApiRegistry } from "./openapi/registry";
 import { identifyRequest, requestLog } from "./http/request-log";
-import { fixedHeadersOf, quickGets } from "./http/quick-get";
+import { fixedHeadersOf, quickGets, runBeforeRouter } from "./http/quick-get";
 import { compressWholeAnswers } from "./http/compress-answer";
 import { errorHandler, isDatabaseUnavailable, sendError } from "./http/error-handler";
 import { authRoutes, configurePassport, toSessionUser } from "./auth/auth.routes";
@@ -56,9 +56,10 @@ export function createApp(services: AppServices) {
   const compressWhole = compressWholeAnswers();
 
   // A tool's status asked, or a reading recorded, with a session and person this instance read moments ago is
-  // answered here, before the middleware below, with what it would have added (server/http/quick-get.ts); anything
-  // else goes on.
-  app.use(
+  // answered here, before the router and the middleware below, with what they would have added
+  // (server/http/quick-get.ts); anything else goes on to the router.
+  runBeforeRouter(
+    app,
     quickGets({
       routes: quickGetRoutes(deps),
       cookie: sessionCookie,
@@ -78,6 +79,7 @@ export function createApp(services: AppServices) {
         logRequest(req, res, () => undefined);
       },
     }),
+    errorHandler,
   );
   // helmet's headers are the same on every answer (no per-request values with these options): set in one step.
   app.use((_req: Request, res: Response, next: NextFunction) => {
