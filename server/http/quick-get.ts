@@ -207,7 +207,14 @@ export function runBeforeRouter(app: Express, front: RequestHandler, onError: Er
     // As the router sets them before its first layer.
     req.originalUrl ||= req.url;
     req.baseUrl = "";
-    void front(req, res, (err?: unknown) => (err === undefined ? handle(req, res, callback) : onError(err, req, res, () => undefined)));
+    const failed = (err: unknown) => onError(err, req, res, () => undefined);
+    // A throw inside `front` goes to the error handler, as the router's try around each layer sends it: never out of
+    // the server's request event, where it would end the process.
+    try {
+      void front(req, res, (err?: unknown) => (err === undefined ? handle(req, res, callback) : failed(err)));
+    } catch (err) {
+      failed(err);
+    }
   };
 }
 
