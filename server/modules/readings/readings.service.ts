@@ -13,7 +13,7 @@ import { itemViewsOf } from "../limit-tables/limit-tables.service";
 import { readingsRepository, type ReadingInsert } from "./readings.repository";
 import { studyFlagCondition } from "../studies/studies.service";
 import { STUDY_READING_FLAG } from "../../../shared/studies/studies.schemas";
-import { getSettings } from "../settings/settings.service";
+import { readOnlySettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
 import { can } from "../../../shared/auth/roles";
 import { num } from "../../../shared/common/decimal";
@@ -87,7 +87,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     place: Place,
     input: CreateReading,
     user: SessionUser,
-    settings: Settings,
+    settings: Readonly<Settings>,
     extra: { supersedesId?: string; supersedeReason?: string } = {},
   ): Promise<ReadingResult> {
     const at = clock.now();
@@ -342,7 +342,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
     /** POST /api/jobs/:id/readings */
     async create(jobId: string, input: CreateReading, user: SessionUser) {
       // The shop's settings as this instance holds them (read again every few seconds).
-      const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
+      const settings = await readOnlySettings(db, deps.config.SHOP_TIME_ZONE);
       const index = input.index ?? 1;
       // The sheet and the tools named with their status in one statement: the write looks at the sheet and the place
       // again under their locks; the tools are not what the locks guard (a tool's status may change while a reading
@@ -353,7 +353,7 @@ export function readingsService(deps: { db: Db; clock: Clock; config: { SHOP_TIM
 
     /** POST /api/readings/:id/supersede — append-only correction; the old reading stays, marked superseded. */
     async supersede(readingId: string, input: Omit<CreateReading, "itemKey" | "index"> & { reason: string }, user: SessionUser) {
-      const settings = await getSettings(db, deps.config.SHOP_TIME_ZONE);
+      const settings = await readOnlySettings(db, deps.config.SHOP_TIME_ZONE);
       const old = await readingsRepository.findById(db, readingId);
       if (!old) throw notFound("reading", readingId);
       // A correction is allowed on a signed sheet: it reopens the sheet for signing again.
