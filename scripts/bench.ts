@@ -205,8 +205,13 @@ const FILL: { name: string; sql: (s: Shape) => string }[] = [
       select r.id, ${JUDGING_RULES_VERSION}, ${benchJudgementSql}, r.taken_at from readings r`,
   },
 ];
-/** Empty sheets the record_reading measure writes to (five per round, 1,000 places each), made afresh for every run. */
-const WRITE_SHEETS_PER_ROUND = 5;
+/**
+ * Empty sheets the record_reading measure writes to (1,000 places each), made afresh for every run: one per second of
+ * a round's load and one more, so every place a round writes is new up to 1,000 readings a second. Five a round ran
+ * out on a fast run (about 750 a second), which wrapped round to places already read, and the app rightly refused
+ * those with 409.
+ */
+const WRITE_SHEETS_PER_ROUND = Math.ceil(WARMUP + DURATION) + 1;
 const writeSheetsSql = (run: string) => `
   insert into jobs (limit_table_id, engine_serial, engine_model, work_order, opened_by, opened_at)
   select (select id from limit_tables limit 1), 'BW-${run}-' || g, 'BENCH-1', 'WO-W${run}-' || g, (select id from users where role = 'inspector'), now() - interval '1 hour'
