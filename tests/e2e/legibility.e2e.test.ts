@@ -125,6 +125,8 @@ async function settle(page: Page) {
   await page.waitForLoadState("networkidle");
   await page.waitForFunction(() => !document.querySelector('[aria-busy="true"]') && !/^(Loading|Checking)[^…]*…$/m.test(document.body.innerText));
   await page.evaluate(() => document.fonts.ready.then(() => undefined));
+  // Text laid out again in the web font is measured in the next frame (resize observers run then): wait two.
+  await page.evaluate(() => new Promise<void>((done) => requestAnimationFrame(() => requestAnimationFrame(() => done()))));
 }
 
 /** Serious and critical WCAG 2 A/AA violations on the page, one line per element. */

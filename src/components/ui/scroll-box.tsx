@@ -1,4 +1,5 @@
 import { useEffect, useLayoutEffect, useRef, useState, type ReactNode } from "react";
+import { flushSync } from "react-dom";
 import { cx } from "./cx";
 
 /**
@@ -9,7 +10,9 @@ import { cx } from "./cx";
  *
  * The size is measured after every render, before the browser paints (so rows that arrive and make the
  * table wider bring the tab stop in the same commit, never a moment later), and again whenever the box or
- * its content is resized (a turned phone, a narrower window).
+ * its content is resized (a turned phone, a narrower window, a web font arriving and widening the text). The
+ * observer's change is committed at once (flushSync): the observer runs after layout and before paint, so the
+ * tab stop is in place in the frame where the table first overflows, not one task later.
  */
 export function ScrollBox({ label, className, children }: { label: string; className?: string; children: ReactNode }) {
   const ref = useRef<HTMLDivElement>(null);
@@ -22,7 +25,7 @@ export function ScrollBox({ label, className, children }: { label: string; class
   useEffect(() => {
     const el = ref.current;
     if (!el) return;
-    const observer = new ResizeObserver(measure);
+    const observer = new ResizeObserver(() => flushSync(measure));
     observer.observe(el);
     if (el.firstElementChild) observer.observe(el.firstElementChild);
     return () => observer.disconnect();

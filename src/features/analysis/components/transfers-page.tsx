@@ -7,6 +7,7 @@ import { errorMessage, ApiError } from "../../../lib/api-client";
 import { IMPORT_FIELDS, IMPORT_FIELD_LABELS, REQUIRED_IMPORT_FIELDS, type CommitResult, type DryRunResult, type ImportError, type ImportMapping } from "../../../../shared/transfers/transfers.schemas";
 import { sendImport, useAfterImport, type ImportProgress } from "../api/transfers";
 import { downloadCsv } from "../lib/export-csv";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 
 export function TransfersPage() {
   const canImport = useCan("import.run");
@@ -235,7 +236,7 @@ function Preview({ rows, columns }: { rows: Record<string, string | null>[]; col
   return (
     <details>
       <summary className="cursor-pointer text-sm font-semibold">First rows of the file</summary>
-      <div className="mt-1 overflow-x-auto">
+      <ScrollBox label="First rows of the file" className="mt-1">
         <table className="text-left text-xs" aria-label="First rows of the file">
           <thead className="bg-paper-sunk">
             <tr>
@@ -258,7 +259,7 @@ function Preview({ rows, columns }: { rows: Record<string, string | null>[]; col
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollBox>
     </details>
   );
 }

@@ -20,6 +20,7 @@ import { FilterSelect } from "../../../components/ui/filter-select";
 import { cx } from "../../../components/ui/cx";
 import { SortableHead } from "../../../components/ui/data-table";
 import { DispositionForm } from "./disposition-form";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 
 const FILTER_KEYS = ["couldChange", "verdict", "disposition", "jobId", "q"] as const;
 const PAGE_SIZE = 50;
@@ -263,7 +264,7 @@ export function AffectedItemsTable({ inv, canDispose }: { inv: InvestigationDeta
           </div>
         )}
         {q.isError && <ErrorNote>{errorMessage(q.error)}</ErrorNote>}
-        <div className="overflow-x-auto">
+        <ScrollBox label="Affected items">
           <table className="w-full text-left text-sm" aria-label="Affected items" aria-busy={q.isFetching}>
             <SortableHead table={table} canSort={(column) => column.columnDef.enableSorting === true} />
             <tbody>
@@ -288,7 +289,7 @@ export function AffectedItemsTable({ inv, canDispose }: { inv: InvestigationDeta
             </tbody>
           </table>
           {!q.isPending && data.length === 0 && <p className="p-4 text-center text-ink-soft">No affected item matches these filters.</p>}
-        </div>
+        </ScrollBox>
         <div className="no-print flex flex-wrap items-center justify-between gap-2 border-t border-paper-line p-2 text-sm">
           <span>
             {total === 0 ? "0" : `${(list.page - 1) * PAGE_SIZE + 1}–${Math.min(list.page * PAGE_SIZE, total)}`} of {total}

@@ -5,6 +5,7 @@ import { Button, ButtonLink } from "../../../components/ui/button";
 import { ApiError, errorMessage } from "../../../lib/api-client";
 import { cx } from "../../../components/ui/cx";
 import { formatInstant } from "../../../lib/format";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 
 export function OutboxPage() {
   const outbox = useOutbox();
@@ -30,7 +31,7 @@ export function OutboxPage() {
       {outbox.data && outbox.data.length === 0 && <EmptyState>No mail yet. Run the reminders from the Reminders page to send the digests due today.</EmptyState>}
       {outbox.data && outbox.data.length > 0 && (
         <>
-          <div className="overflow-x-auto rounded-card border border-paper-line bg-paper-raised shadow-card">
+          <ScrollBox label="Outbox" className="rounded-card border border-paper-line bg-paper-raised shadow-card">
             <table className="w-full text-left text-sm" aria-label="Outbox">
               <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
                 <tr>
@@ -55,7 +56,7 @@ export function OutboxPage() {
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollBox>
           {openId !== null && <MessageView id={openId} onClose={() => setOpenId(null)} />}
         </>
       )}

@@ -16,6 +16,7 @@ import { stageLabel } from "../../../../shared/reminders/reminder-plan";
 import type { ReminderRun, RunRemindersResult } from "../../../../shared/reminders/reminders.schemas";
 import type { Settings } from "../../../../shared/settings/settings.schemas";
 import { describeCron } from "../../../../shared/settings/cron-words";
+import { ScrollBox } from "../../../components/ui/scroll-box";
 
 const lowerFirst = (s: string) => s.charAt(0).toLowerCase() + s.slice(1);
 
@@ -149,7 +150,7 @@ function RunDetail({ id, onClose }: { id: string; onClose: () => void }) {
           {r.entries.length === 0 ? (
             <p className="text-ink-faint">This run claimed no reminders: nothing new was due.</p>
           ) : (
-            <div className="overflow-x-auto">
+            <ScrollBox label="Reminders of this run">
               <table className="w-full text-left text-sm" aria-label="Reminders of this run">
                 <thead className="bg-paper-sunk text-xs uppercase tracking-wide text-ink-soft">
                   <tr>
@@ -184,7 +185,7 @@ function RunDetail({ id, onClose }: { id: string; onClose: () => void }) {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollBox>
           )}
         </>
       )}
