@@ -325,6 +325,9 @@ const median = (xs: number[]) => [...xs].map((x) => (Number.isNaN(x) ? Infinity 
 /** A run in which no answer came back within its duration prints as ">duration". */
 const f = (x: number) => (Number.isFinite(x) ? x.toFixed(x < 10 ? 2 : 1) : `>${DURATION * 1000}`);
 
+/** One measure's figures at one scale, a value per round: p95s, req/s, and answers by status code. */
+type Result = { app: number[]; floor: number[]; appRps: number[]; floorRps: number[]; codes: Map<number, number> };
+
 // ---- One scale -------------------------------------------------------------------------------------------
 async function measureScale(tools: number) {
   const shape = shapeOf(tools);
@@ -352,7 +355,6 @@ async function measureScale(tools: number) {
     COOKIE_SECURE: "false",
   });
   const floor = await startChild("floor", { DATABASE_URL: urls.runtimeUrl, PORT: "0" });
-  type Result = { app: number[]; floor: number[]; appRps: number[]; floorRps: number[]; codes: Map<number, number> };
   const results = new Map<string, Result>();
   const extra: { investigation_open: number[]; investigation_gathered: number[]; reminder_run: number[]; reminder_run_nothing_new: number[] } = {
     investigation_open: [],
@@ -510,12 +512,21 @@ if (large.extra.reminder_run.length) {
   console.log(`RATIO reminder_run_nothing_new app_ms=${f(median(large.extra.reminder_run_nothing_new))} goal_ms=${REMINDER_RUN_NOTHING_NEW_GOAL_MS}`);
 }
 if (small) {
-  console.log(`\n# growth ${small.tools} → ${large.tools} tools (flat = 1; goal ≤ 1.5 for per-tool and per-page measures)`);
+  // Growth is read as the goals are: each scale's app p95 over the floor's p95 in the same round (the floor, one indexed
+  // lookup, stays flat with the register), median over the rounds, large over small. The two scales run minutes apart,
+  // and this machine's own speed moves by up to half again in that time, so the ratio of the two absolute p95s (raw=)
+  // mixes the machine's drift into the register's growth; it is printed beside, for reading, not judged.
+  console.log(`\n# growth ${small.tools} → ${large.tools} tools, each scale's ratio to the floor in the same round (flat = 1; goal ≤ 1.5 for per-tool and per-page measures)`);
+  const floorRatio = (r: Result) => median(r.app.map((a, i) => a / r.floor[i]));
   for (const m of MEASURES) {
     const a = small.results.get(m.name);
     const b = large.results.get(m.name);
     if (!a || !b) continue;
-    console.log(`GROWTH ${m.name} small_p95=${f(median(a.app))} large_p95=${f(median(b.app))} growth=${f(median(b.app) / median(a.app))}${m.perTool ? " goal=1.5" : ""}`);
+    const growth = floorRatio(b) / floorRatio(a);
+    const raw = median(b.app) / median(a.app);
+    console.log(
+      `GROWTH ${m.name} small_p95=${f(median(a.app))} large_p95=${f(median(b.app))} small_ratio=${f(floorRatio(a))} large_ratio=${f(floorRatio(b))} growth=${f(growth)} raw=${f(raw)}${m.perTool ? " goal=1.5" : ""}`,
+    );
   }
 }
 process.exit(0);
