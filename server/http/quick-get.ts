@@ -208,10 +208,12 @@ export function runBeforeRouter(app: Express, front: RequestHandler, onError: Er
     req.originalUrl ||= req.url;
     req.baseUrl = "";
     const failed = (err: unknown) => onError(err, req, res, () => undefined);
-    // A throw inside `front` goes to the error handler, as the router's try around each layer sends it: never out of
-    // the server's request event, where it would end the process.
+    // A throw inside `front`, or a promise it returns that rejects, goes to the error handler, as the router's try and
+    // promise check around each layer send them: never out of the server's request event, where it would end the
+    // process.
     try {
-      void front(req, res, (err?: unknown) => (err === undefined ? handle(req, res, callback) : failed(err)));
+      const returned = front(req, res, (err?: unknown) => (err === undefined ? handle(req, res, callback) : failed(err)));
+      if (returned instanceof Promise) returned.catch((err: unknown) => failed(err ?? new Error("the quick path rejected without a reason")));
     } catch (err) {
       failed(err);
     }

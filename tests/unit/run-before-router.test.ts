@@ -46,4 +46,18 @@ describe("the quick path before the router", () => {
     expect(passed.body.error.message).toBe("passed on");
     expect((await request(app).get("/api/things/3")).body.id).toBe("3");
   });
+
+  it("an asynchronous one that fails is an error answer too, never an unhandled rejection", async () => {
+    let calls = 0;
+    const app = appWith(async (_req, _res, next) => {
+      calls++;
+      await Promise.resolve();
+      if (calls === 1) throw new Error("failed after a wait");
+      next();
+    });
+    const failed = await request(app).get("/api/things/1");
+    expect(failed.status).toBe(500);
+    expect(failed.body.error.message).toBe("failed after a wait");
+    expect((await request(app).get("/api/things/2")).body.id).toBe("2");
+  });
 });
