@@ -131,14 +131,22 @@ export function AffectedItemsTable({ inv, canDispose }: { inv: InvestigationDeta
       col.display({
         id: "value",
         header: "As judged",
-        cell: ({ row }) => <span className="tabular-nums">{row.original.kind === "reading" ? length(row.original.measuredValue, row.original.unit) : signedLength(row.original.measuredValue, null)}</span>,
+        cell: ({ row }) => <span className="whitespace-nowrap tabular-nums">{row.original.kind === "reading" ? length(row.original.measuredValue, row.original.unit) : signedLength(row.original.measuredValue, null)}</span>,
       }),
       col.display({
         id: "band",
         header: "Over the error band",
         cell: ({ row }) => (
-          <span className="whitespace-nowrap tabular-nums">
-            {row.original.bandLow != null && row.original.bandHigh != null ? `${length(row.original.bandLow, row.original.unit)} to ${length(row.original.bandHigh, row.original.unit)}` : "—"}
+          // Each end of the band kept whole with its unit; the band breaks between them when the column is narrow.
+          <span className="tabular-nums">
+            {row.original.bandLow != null && row.original.bandHigh != null ? (
+              <>
+                <span className="whitespace-nowrap">{length(row.original.bandLow, row.original.unit)}</span> to{" "}
+                <span className="whitespace-nowrap">{length(row.original.bandHigh, row.original.unit)}</span>
+              </>
+            ) : (
+              "—"
+            )}
           </span>
         ),
       }),
@@ -146,7 +154,7 @@ export function AffectedItemsTable({ inv, canDispose }: { inv: InvestigationDeta
         id: "margin",
         header: "Worst margin",
         enableSorting: true,
-        cell: (c) => <span className={cx("tabular-nums", c.getValue() != null && c.getValue()! < 0 && "font-semibold text-stop")}>{signedLength(c.getValue(), c.row.original.unit)}</span>,
+        cell: (c) => <span className={cx("whitespace-nowrap tabular-nums", c.getValue() != null && c.getValue()! < 0 && "font-semibold text-stop")}>{signedLength(c.getValue(), c.row.original.unit)}</span>,
       }),
       col.display({ id: "verdict", header: "Verdict recorded", enableSorting: true, cell: ({ row }) => verdictText(row.original) }),
       col.accessor("verdictCouldChange", { id: "couldChange", header: "Re-judged", enableSorting: true, cell: (c) => <CouldChange value={c.getValue()} /> }),
