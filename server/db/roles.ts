@@ -22,7 +22,7 @@ const ident = (s: string) => `"${s.replace(/"/g, '""')}"`;
 const literal = (s: string) => `'${s.replace(/'/g, "''")}'`;
 
 /** Tables only database triggers write (docs/decisions/013-indexed-status.md): read-only to the app. */
-export const TRIGGER_KEPT_TABLES = ["tool_states", "job_activity", "job_people", "investigation_tallies", "sheet_references"];
+export const TRIGGER_KEPT_TABLES = ["tool_states", "tool_state_counts", "job_activity", "job_people", "investigation_tallies", "sheet_references"];
 
 /** Takes back from the app every write on the trigger-kept tables that exist (run at every start and after migrating). */
 const REVOKE_TRIGGER_KEPT_SQL = `DO $$ DECLARE t text; BEGIN

@@ -20,8 +20,6 @@ export const JobStatusSchema = z.enum(JOB_STATUSES);
  */
 export const JOB_LIST_STATUSES = ["open", "awaiting_signature", "signed"] as const;
 export type JobListStatus = (typeof JOB_LIST_STATUSES)[number];
-/** The filter's words live with every other state name in ./labels. */
-export { JOB_LIST_FILTER_LABELS as JOB_LIST_STATUS_LABELS } from "./labels";
 
 export const JobListQuerySchema = PageQuerySchema.extend({
   engineSerial: z.string().trim().max(60).optional(),

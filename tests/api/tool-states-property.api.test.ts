@@ -1,4 +1,4 @@
-// Property test of the indexed status (docs/decisions/013-indexed-status.md).
+// Property test of the indexed status (docs/decisions/013-indexed-status.md) and its kept counts (027).
 // Oracle: deriveToolStatus (shared/tools/tool-status.ts), fed by gatherStatusesAt, which reads the
 // records as they stood at the instant asked about — the definition of a tool's status. Generated
 // histories are written with set-based statements (as imports and the bench filler write), in a
@@ -10,7 +10,7 @@ import { createTestDatabase, type TestDatabase } from "../support/test-db";
 import { makeFamily, makeLab, makeTool } from "../support/factories";
 import { calibrations, calibrationReviews, checkouts, holds, intermediateChecks, labShipments, toolLifecycleEvents, tools, users } from "../../server/db/schema";
 import { gatherStatusesAt, statusesFor, type StatusContext, type ToolStatusView } from "../../server/modules/tools/tool-status.service";
-import { countByStatus, statusCase, statusCountSql, statusIn, statusNow } from "../../server/modules/tools/tool-states.sql";
+import { countByStatus, foldToolStateCounts, foldWanted, statusCase, statusCountSql, statusIn, statusNow } from "../../server/modules/tools/tool-states.sql";
 import { TOOL_STATUSES, type ToolStatus } from "../../shared/tools/tool-status";
 import { addDays, calendarDate } from "../../shared/common/dates";
 import type { DbOrTx } from "../../server/db/client";
@@ -248,6 +248,49 @@ describe("the indexed status (tool_states) against the definition (deriveToolSta
     expect(settledOnes).toBeGreaterThan(1000);
   }, 240_000);
 
+  it("keeps the counts by status equal to the tools counted one by one, through concurrent events, rolled-back ones and folds run meanwhile", async () => {
+    const db = tdb.db;
+    // The kept counts summed per combination, against tool_states grouped the same way (one row per tool).
+    const key = sql.raw("base_status || '|' || coalesce(cal_next_due::text, '-') || '|' || coalesce(cal_result, '-') || '|' || usage_exhausted || '|' || usage_warn");
+    const kept = async () =>
+      Object.fromEntries(((await db.execute(sql`select ${key} as k, sum(n)::int as n from tool_state_counts group by 1 having sum(n) <> 0 order by 1`)).rows as { k: string; n: number }[]).map((r) => [r.k, Number(r.n)]));
+    const counted = async () =>
+      Object.fromEntries(((await db.execute(sql`select ${key} as k, count(*)::int as n from tool_states group by 1 order by 1`)).rows as { k: string; n: number }[]).map((r) => [r.k, Number(r.n)]));
+    expect(await kept()).toEqual(await counted());
+
+    // Forty transactions at once, each about its own tool: a calibration with a new due date, a quarantine, a lab
+    // trip or a retirement; every fifth rolls back. Folds run among them.
+    const at = new Date("2026-01-30T09:00:00Z");
+    // Tools with no open hold or lab trip (a tool has at most one of each open).
+    const chosen = ((await db.execute(sql`select tool_id from tool_states where hold_since is null and lab_since is null order by tool_id limit 40`)).rows as { tool_id: string }[]).map((r) => r.tool_id);
+    expect(chosen).toHaveLength(40);
+    const lab = await makeLab(db);
+    const writes = chosen.map((toolId, i) =>
+      db
+        .transaction(async (tx) => {
+          if (i % 4 === 0) await tx.insert(calibrations).values({ toolId, performedAt: at, decisionRule: "simple", result: "pass", asFoundInTolerance: true, intervalDays: 180, nextDueAt: addDays("2026-07-01", i) });
+          else if (i % 4 === 1) await tx.insert(holds).values({ toolId, placedAt: at, reason: "Dropped on the bench" });
+          else if (i % 4 === 2) await tx.insert(labShipments).values({ toolId, labId: lab.id, shippedAt: at });
+          else await tx.insert(toolLifecycleEvents).values({ toolId, at, lifecycle: "retired", reason: "Demo change" });
+          if (i % 5 === 4) throw new Error("roll back");
+        })
+        .catch((e: Error) => {
+          if (e.message !== "roll back") throw e;
+        }),
+    );
+    await Promise.all([...writes, foldToolStateCounts(db), foldToolStateCounts(db), foldToolStateCounts(db)]);
+    expect(await kept()).toEqual(await counted());
+
+    // A fold leaves one piece per combination, and the counts are unchanged by it.
+    const before = await kept();
+    await foldToolStateCounts(db);
+    expect(await kept()).toEqual(before);
+    const afterFold = await countByStatus(db, statusNow(at, { timeZone: "UTC", dueSoonDays: 30 }));
+    expect(afterFold.pieces).toBe(afterFold.combinations);
+    expect(foldWanted(afterFold)).toBe(false);
+    expect(foldWanted({ pieces: 3 * afterFold.combinations + 300, combinations: afterFold.combinations })).toBe(true);
+  });
+
   it("changes in the same transaction as the event: a quarantine shows inside it, and is gone when the transaction rolls back", async () => {
     const db = tdb.db;
     const tool = await makeTool(db, { assetTag: "P-TX" });
@@ -258,14 +301,18 @@ describe("the indexed status (tool_states) against the definition (deriveToolSta
     const statusIn_ = async (h: DbOrTx) =>
       ((await h.execute(sql`select ${statusCase(now)} as status from tool_states s where s.tool_id = ${tool.id}::uuid`)).rows[0] as { status: string }).status;
     expect(await statusIn_(db)).toBe("in_calibration");
+    const quarantinedBefore = (await countByStatus(db, now)).byStatus.quarantined;
     await expect(
       db.transaction(async (tx) => {
         await tx.insert(holds).values({ toolId: tool.id, placedAt: new Date("2026-01-20T10:00:00Z"), reason: "Dropped" });
         expect(await statusIn_(tx)).toBe("quarantined");
+        // The count by status moves inside the transaction too, and back when it rolls back.
+        expect((await countByStatus(tx, now)).byStatus.quarantined).toBe(quarantinedBefore + 1);
         throw new Error("roll back");
       }),
     ).rejects.toThrow("roll back");
     expect(await statusIn_(db)).toBe("in_calibration");
+    expect((await countByStatus(db, now)).byStatus.quarantined).toBe(quarantinedBefore);
     await db.update(tools).set({ calibrationRequired: false }).where(sql`${tools.id} = ${tool.id}::uuid`);
     expect(await statusIn_(db)).toBe("reference_only");
   });

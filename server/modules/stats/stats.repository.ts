@@ -1,4 +1,4 @@
-import { sql, type SQL } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { isoInstant } from "../../db/values";
 import { awaitingSignatureOfActivity, openOfActivity } from "../jobs/job-state";
@@ -24,17 +24,6 @@ export const statsRepository = {
   async allToolIds(db: DbOrTx): Promise<string[]> {
     const r = await db.execute(sql`select id from tools`);
     return (r.rows as Row[]).map((x) => String(x.id));
-  },
-
-  /** Tools still in calibration (not overdue) due in each of the next `weeks` weeks counted from today: a range scan on tool_states. */
-  async dueByWeek(db: DbOrTx, today: SQL, weeks: number): Promise<number[]> {
-    const r = await db.execute(sql`
-      select (s.cal_next_due - ${today}) / 7 as w, count(*)::int as n from tool_states s
-      where s.base_status = 'calibrated' and not s.usage_exhausted and s.cal_next_due >= ${today} and s.cal_next_due < ${today} + ${weeks * 7}::int
-      group by 1`);
-    const out = Array.from({ length: weeks }, () => 0);
-    for (const row of r.rows as Row[]) out[Number(row.w)] = Number(row.n);
-    return out;
   },
 
   async openInvestigations(db: DbOrTx): Promise<number> {

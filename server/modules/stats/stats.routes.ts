@@ -7,7 +7,7 @@ import { StatsDashboardSchema, StatsInspectionSchema, StatsMineSchema, StatsOver
 export function statsRoutes(deps: AppDeps) {
   const router = Router();
   const route = defineRoutes(router, deps.registry, "stats");
-  const service = statsService({ db: deps.db, clock: deps.clock, timeZone: deps.config.SHOP_TIME_ZONE });
+  const service = statsService({ db: deps.db, clock: deps.clock, timeZone: deps.config.SHOP_TIME_ZONE, logger: deps.logger });
 
   route(
     { method: "get", path: "/api/stats/overview", summary: "Tools by derived status, due within 30 days, overdue, open investigations", access: "signedIn", response: StatsOverviewSchema },

@@ -1,9 +1,10 @@
 import type { Db } from "../../db/client";
 import type { Clock } from "../../platform/clock";
+import type { Logger } from "pino";
 import { statsRepository } from "./stats.repository";
 import { intervalsRepository } from "../intervals/intervals.repository";
 import { gatherStatusesAt, statusContext, statusesOfRows, type StatusContext, type ToolStatusView } from "../tools/tool-status.service";
-import { countByStatus, eventsAfter, statusNow } from "../tools/tool-states.sql";
+import { countByStatus, eventsAfter, foldToolStateCounts, foldWanted, statusNow } from "../tools/tool-states.sql";
 import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
 import { addDays, calendarDate } from "../../../shared/common/dates";
 import type { StatsDashboard, StatsInspection, StatsMine, StatsOverview } from "../../../shared/stats/stats.schemas";
@@ -22,7 +23,7 @@ const IN_CALIBRATION: ReadonlySet<ToolStatus> = new Set(["in_calibration", "due_
  */
 export const FAMILY_RATES_REUSE_MS = 60_000;
 
-export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; timeZone: string }) {
+export function statsService({ db, clock, timeZone, logger }: { db: Db; clock: Clock; timeZone: string; logger?: Pick<Logger, "warn"> }) {
   let rates: { at: number; value: ReturnType<typeof intervalsRepository.familyRates> } | null = null;
   /** The family rates, read at most once a minute (by elapsed time, not the shop's clock); a failed read is not kept. */
   function familyRates() {
@@ -35,6 +36,20 @@ export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; ti
       });
     }
     return rates.value;
+  }
+
+  let folding: Promise<void> | null = null;
+  /**
+   * Folds the kept counts' pieces after this answer, once at a time per process (the database allows one at a time
+   * anyway). A failed fold loses nothing: the pieces stay and the next count asks again.
+   */
+  function foldCounts() {
+    if (folding) return;
+    folding = foldToolStateCounts(db)
+      .catch((err: unknown) => logger?.warn({ err }, "the status counts were not folded; they will be at the next count"))
+      .finally(() => {
+        folding = null;
+      });
   }
 
   /** Every tool's status at `at` from the records as they stood then, in chunks (a clock set back; see summary). */
@@ -50,7 +65,7 @@ export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; ti
 
   /**
    * Counts by status now, tools still in calibration due within 7 and 30 days and in each of the next
-   * twelve weeks: index scans on tool_states (docs/decisions/013). When some record is dated after now
+   * twelve weeks: from the kept counts (docs/decisions/027), the same work at any register size. When some record is dated after now
    * (a clock set back), every status is derived in full instead.
    */
   async function summary(at: Date) {
@@ -66,9 +81,9 @@ export function statsService({ db, clock, timeZone }: { db: Db; clock: Clock; ti
       }
       return { ...counts(views), totalTools: views.length, dueByWeek, today };
     }
-    const now = statusNow(at, ctx);
-    const [c, weeks] = await Promise.all([countByStatus(db, now, [7, 30]), statsRepository.dueByWeek(db, now.today, 12)]);
-    return { byStatus: c.byStatus, dueWithin7Days: c.dueWithin[0], dueWithin30Days: c.dueWithin[1], overdue: c.byStatus.overdue, totalTools: c.total, dueByWeek: weeks, today };
+    const c = await countByStatus(db, statusNow(at, ctx), [7, 30], 12);
+    if (foldWanted(c)) foldCounts();
+    return { byStatus: c.byStatus, dueWithin7Days: c.dueWithin[0], dueWithin30Days: c.dueWithin[1], overdue: c.byStatus.overdue, totalTools: c.total, dueByWeek: c.dueByWeek, today };
   }
 
   function counts(views: ToolStatusView[]) {

@@ -6,7 +6,6 @@ import { sql, type SQL } from "drizzle-orm";
 import { pgArray } from "../../db/values";
 import type { DbOrTx } from "../../db/client";
 import { TOOL_STATUSES, type ToolStatus } from "../../../shared/tools/tool-status";
-import type { StatusContext } from "./tool-status.service";
 import { calendarDate } from "../../../shared/common/dates";
 
 /**
@@ -33,6 +32,12 @@ export function statusColumns(tool: string, custodian: string): SQL {
     `${tool}.id, ${tool}.asset_tag, ${tool}.unit, ${tool}.description, ${tool}.location, ${tool}.owner_type, ${tool}.owner_user_id, ${tool}.owner_name, ` +
       `${STATE_COLUMNS}, s.tool_id is not null as has_state, ${custodian}.name as custody_name, ${custodian}.email as custody_email`,
   );
+}
+
+/** What a status question needs besides the records: the shop's zone (for "today") and the warning window in days. */
+export interface StatusContext {
+  timeZone: string;
+  dueSoonDays: number;
 }
 
 /** Statuses that the date never changes: tool_states.base_status holds them as they are. */
@@ -101,52 +106,69 @@ export function statusIn(statuses: readonly ToolStatus[], now: StatusNow): SQL {
 }
 
 /**
- * How many tools have one of these statuses on that date, as SQL: a sum of counts over disjoint pieces, each a range of
- * tool_states_status_idx read from the index alone. One count over statusIn's disjunction ("overdue": due before today
- * or out of uses) made PostgreSQL visit the table page of every overdue tool; the pieces read a few index pages.
+ * The kept counts (tool_state_counts, docs/decisions/027-status-counts-kept.md) as a relation `s` with the columns
+ * statusCase and statusIs read and `n`, the number of tools at each combination: a few hundred rows (one per due
+ * date) whatever the register's size, where tool_states has one per tool. `pieces` is how many stored pieces were
+ * summed, for the decision to fold them (foldWanted).
+ */
+const KEPT_COUNTS = sql.raw(`(select base_status, cal_next_due, cal_result, usage_exhausted, usage_warn, sum(n)::int as n, count(*)::int as pieces
+  from tool_state_counts group by 1, 2, 3, 4, 5)`);
+
+/**
+ * How many tools have one of these statuses on that date, as SQL: the number of tools at each combination of the
+ * status's columns that has the status, summed from the kept counts. The same predicates as the register's status
+ * filter (statusIs), over a few hundred combinations instead of one index entry per tool.
  */
 export function statusCountSql(statuses: readonly ToolStatus[], now: StatusNow): SQL {
-  const wanted = [...new Set(statuses)];
-  const fixed = wanted.filter((x) => (FIXED_STATUSES as readonly string[]).includes(x));
-  const pieces: SQL[] = [];
-  for (const st of wanted) {
-    if (fixed.includes(st)) continue;
-    if (st === "overdue") {
-      pieces.push(sql`s.base_status = 'calibrated' and s.cal_next_due < ${now.today}`);
-      pieces.push(sql`s.base_status = 'calibrated' and s.usage_exhausted and (s.cal_next_due >= ${now.today} or s.cal_next_due is null)`);
-    } else pieces.push(statusIs(st, now));
-  }
-  if (fixed.length) pieces.push(sql`s.base_status = any(${pgArray(fixed)}::text[])`);
-  if (pieces.length === 0) return sql`0`;
-  return sql`(${sql.join(
-    pieces.map((p) => sql`(select count(*) from tool_states s where ${p})`),
-    sql` + `,
-  )})::int`;
+  if (new Set(statuses).size === 0) return sql`0`;
+  return sql`(select coalesce(sum(s.n), 0) from ${KEPT_COUNTS} s where ${statusIn(statuses, now)})::int`;
+}
+
+/** More stored pieces than this over the combinations they sum to, and a count asks for a fold (foldToolStateCounts). */
+const FOLD_SLACK = 256;
+
+/** True when the kept counts hold enough pieces beyond one per combination that folding them is worth a statement. */
+export const foldWanted = (c: { pieces: number; combinations: number }) => c.pieces > 2 * c.combinations + FOLD_SLACK;
+
+/** Replaces the kept counts' pieces with one sum per combination (one fold at a time; see migration 0027). */
+export async function foldToolStateCounts(db: DbOrTx): Promise<void> {
+  await db.execute(sql`select tool_state_counts_fold()`);
 }
 
 /**
- * Count of tools by status, and of tools still in calibration due within each of some numbers of days. The register is
- * first grouped by the columns the status reads (a few hundred groups: one per due date and state), and the status is
- * worked out once per group, not once per tool; the due-within counts are range scans on tool_states.
+ * Count of tools by status, of tools still in calibration due within each of some numbers of days, and of those due
+ * in each of the next `weeks` weeks counted from today: all from the kept counts, one row per combination of the
+ * columns the status reads, so the work is the same at 2,000 tools as at 20,000. The status is worked out once per
+ * combination, not once per tool.
  */
-export async function countByStatus(db: DbOrTx, now: StatusNow, dueWithin: number[] = []) {
+export async function countByStatus(db: DbOrTx, now: StatusNow, dueWithin: number[] = [], weeks = 0) {
   const { today } = now;
   const inCal = sql`s.base_status = 'calibrated' and s.cal_next_due >= ${today} and not s.usage_exhausted`;
   const res = await db.execute(sql`
-    select coalesce(jsonb_object_agg(k, n), '{}'::jsonb) as by_status, coalesce(sum(n), 0)::int as total
+    with s as materialized ${KEPT_COUNTS}
+    select coalesce(jsonb_object_agg(k, n), '{}'::jsonb) as by_status, coalesce(sum(n), 0)::int as total,
+      (select coalesce(sum(pieces), 0)::int from s) as pieces, (select count(*)::int from s) as combinations,
+      (select coalesce(jsonb_object_agg(w, n), '{}'::jsonb) from (
+        select (s.cal_next_due - ${today}) / 7 as w, sum(s.n)::int as n from s
+        where ${inCal} and s.cal_next_due < ${today} + ${weeks * 7}::int group by 1) x) as by_week
       ${sql.join(
-        dueWithin.map((d, i) => sql`, (select count(*)::int from tool_states s where ${inCal} and s.cal_next_due <= ${today} + ${d}::int) as ${sql.raw(`due_${i}`)}`),
+        dueWithin.map((d, i) => sql`, (select coalesce(sum(s.n), 0)::int from s where ${inCal} and s.cal_next_due <= ${today} + ${d}::int) as ${sql.raw(`due_${i}`)}`),
         sql``,
       )}
-    from (
-      select ${statusCase(now)} as k, sum(s.n)::int as n
-      from (select base_status, cal_next_due, cal_result, usage_exhausted, usage_warn, count(*) as n from tool_states group by 1, 2, 3, 4, 5) s
-      group by 1
-    ) c`);
+    from (select ${statusCase(now)} as k, sum(s.n)::int as n from s group by 1 having sum(s.n) <> 0) c`);
   const row = res.rows[0] as Record<string, unknown>;
-  const raw = (typeof row.by_status === "string" ? JSON.parse(row.by_status) : row.by_status) as Record<string, number>;
+  const json = (v: unknown) => (typeof v === "string" ? JSON.parse(v) : v) as Record<string, number>;
+  const raw = json(row.by_status);
   const byStatus = Object.fromEntries(TOOL_STATUSES.map((st) => [st, Number(raw[st] ?? 0)])) as Record<ToolStatus, number>;
-  return { byStatus, total: Number(row.total), dueWithin: dueWithin.map((_, i) => Number(row[`due_${i}`])) };
+  const weekly = json(row.by_week);
+  return {
+    byStatus,
+    total: Number(row.total),
+    dueWithin: dueWithin.map((_, i) => Number(row[`due_${i}`])),
+    dueByWeek: Array.from({ length: weeks }, (_, w) => Number(weekly[w] ?? 0)),
+    pieces: Number(row.pieces),
+    combinations: Number(row.combinations),
+  };
 }
 
 /** True when some tool has a recorded event after `now` (a clock set back, a record dated ahead): lists then use the full derivation. */

@@ -59,3 +59,21 @@ export const toolStates = pgTable(
     index("tool_states_custody_user_idx").on(t.custodyUserId),
   ],
 );
+
+/**
+ * How many tools stand at each combination of the tool_states columns the date-dependent status reads (statusCase),
+ * as signed pieces (docs/decisions/027-status-counts-kept.md): a statement that moves tools between combinations adds
+ * one piece per combination it changed (−1 for each tool that left, +1 for each that came), by a trigger on
+ * tool_states in the same transaction. Pieces are only added, so concurrent writes never wait on each other here;
+ * a fold (tool_state_counts_fold) now and then replaces them with one sum per combination. The sum of `n` over a
+ * combination is its number of tools: a few hundred combinations (one per due date), whatever the register's size.
+ * Kept by the database alone; read-only to the app.
+ */
+export const toolStateCounts = pgTable("tool_state_counts", {
+  baseStatus: text("base_status").notNull(),
+  calNextDue: date("cal_next_due"),
+  calResult: text("cal_result"),
+  usageExhausted: boolean("usage_exhausted").notNull(),
+  usageWarn: boolean("usage_warn").notNull(),
+  n: integer("n").notNull(),
+});

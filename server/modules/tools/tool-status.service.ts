@@ -4,16 +4,13 @@ import type { DbOrTx } from "../../db/client";
 import { inList, isoInstant, pgArray } from "../../db/values";
 import { columnsOf } from "../../db/columns";
 import { executePrepared, executeShaped } from "../../db/prepared";
-import { statusColumns } from "./tool-states.sql";
+import { statusColumns, type StatusContext } from "./tool-states.sql";
 import { tools as toolsTable } from "./tools.table";
 import { deriveToolStatus, type ToolStatusInput, type ToolStatusResult } from "../../../shared/tools/tool-status";
 import { readOnlySettings } from "../settings/settings.service";
 import type { Settings } from "../../../shared/settings/settings.schemas";
 
-export interface StatusContext {
-  timeZone: string;
-  dueSoonDays: number;
-}
+export type { StatusContext } from "./tool-states.sql";
 
 export interface Custody {
   checkoutId: string;
