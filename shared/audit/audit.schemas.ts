@@ -14,6 +14,12 @@ export const AuditQuerySchema = PageQuerySchema.extend({
   action: z.string().trim().min(1).max(80).optional(),
   from: dateOrInstant.optional(),
   to: dateOrInstant.optional(),
+  /** Keyset paging: the nextCursor of the page before (same filters); the page then starts after its last line. */
+  after: z
+    .string()
+    .trim()
+    .regex(/^\d{1,20}_\d{1,20}$/, "Not a cursor from this list.")
+    .optional(),
 });
 export type AuditQuery = z.infer<typeof AuditQuerySchema>;
 
@@ -35,7 +41,16 @@ export const AuditEventSchema = z.object({
 });
 export type AuditEvent = z.infer<typeof AuditEventSchema>;
 
-export const AuditPageSchema = pageOf(AuditEventSchema);
+/** The most lines the trail counts for its total; past it the answer says "more than" (totalCapped). */
+export const AUDIT_TOTAL_CAP = 10_000;
+
+/**
+ * A page of the trail. A trail of millions of lines is not counted whole on each page: `total` counts up to
+ * AUDIT_TOTAL_CAP lines, and `totalCapped` says there are more. `nextCursor` asks for the page after this one by
+ * ?after= (null on the last page), at the same cost however deep.
+ */
+export const AuditPageSchema = pageOf(AuditEventSchema).extend({ totalCapped: z.boolean(), nextCursor: z.string().nullable() });
+export type AuditPage = z.infer<typeof AuditPageSchema>;
 
 /** Distinct record types and actions on the trail, for the filter lists. */
 export const AuditFacetsSchema = z.object({

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { sql } from "drizzle-orm";
 import { createTestApp, type TestApp } from "../support/test-app";
 import { makeCalibration, makeCheckout, makeTool } from "../support/factories";
 import { makeHold, makeJob, makeOpenInvestigation } from "../support/factories-quality";
@@ -109,6 +110,47 @@ describe("the audit trail", () => {
     expect(res.body.total).toBe(3);
     expect(res.body.items).toHaveLength(1);
     expect(res.body.items[0].entityId).toBe("MIC-A");
+  });
+
+  it("reads a long trail on by keyset, every line once and in order, and says 'more than' past 10,000 lines rather than counting them all", async () => {
+    // 10,050 lines of one record type, three to an instant and instants 7 µs apart (finer than a JavaScript date):
+    // a page that ends inside an instant must go on with the rest of it.
+    await t.db.execute(sql`
+      insert into audit_events (at, action, entity_type, entity_id)
+      select timestamptz '2026-03-01T08:00:00Z' + (g / 3) * interval '7 microseconds', 'tool.update', 'trail-long', 'MIC-' || g
+      from generate_series(0, 10049) g`);
+    const a = await t.agent("auditor");
+    const seen: number[] = [];
+    const ats: string[] = [];
+    let after: string | null = null;
+    let pages = 0;
+    do {
+      const res = await a.get(`/api/audit?entityType=trail-long&pageSize=500${after ? `&after=${after}` : ""}`);
+      expect(res.status, JSON.stringify(res.body)).toBe(200);
+      expect(res.body.total).toBe(10_000);
+      expect(res.body.totalCapped).toBe(true);
+      seen.push(...res.body.items.map((e: { id: number }) => e.id));
+      ats.push(...res.body.items.map((e: { at: string }) => e.at));
+      after = res.body.nextCursor;
+      pages++;
+    } while (after && pages < 30);
+    expect(pages).toBe(21);
+    expect(new Set(seen).size).toBe(10_050);
+    // Newest first; lines of one instant newest (highest id) first.
+    expect(ats).toEqual([...ats].sort().reverse());
+    for (let i = 1; i < seen.length; i++) if (ats[i] === ats[i - 1]) expect(seen[i]).toBeLessThan(seen[i - 1]);
+    // The keyset pages are the pages by number.
+    const third = await a.get("/api/audit?entityType=trail-long&pageSize=500&page=3");
+    expect(third.body.items.map((e: { id: number }) => e.id)).toEqual(seen.slice(1000, 1500));
+    // A short list is counted exactly, and says when no page follows.
+    const short = await a.get("/api/audit?entityType=trail-test");
+    expect(short.body).toMatchObject({ total: 3, totalCapped: false, nextCursor: null });
+  });
+
+  it("a cursor that this list did not give is bad input", async () => {
+    const res = await (await t.agent("auditor")).get("/api/audit?after=2026-03-01");
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe("invalid_input");
   });
 
   it("a person filter that is not an id is bad input", async () => {

@@ -4,6 +4,7 @@ import { seedUsers } from "../../server/seed/users.seed";
 import { makeCalibration, makeCheckout, makeTool } from "../support/factories";
 import { makeDriftingTool, makeJob, makeOpenInvestigation, makeRecalibratedFamily } from "../support/factories-quality";
 import { addDays } from "../../shared/common/dates";
+import { sql } from "drizzle-orm";
 
 let b: BrowserApp;
 let driftTag: string;
@@ -31,6 +32,11 @@ beforeAll(async () => {
   await makeCheckout(b.db, issued.id, people.mechanic.id, { issuedAt: ago(0.1), dueBackAt: new Date(Date.now() + 0.2 * DAY) });
   await makeJob(b.db, { openedBy: people.mechanic.id, readingsBy: people.mechanic.id, readings: 4, at: ago(1) });
   await makeOpenInvestigation(b.db, issued.id, 2);
+  // Older lines on the trail than one page holds (the tool register's edits of last month), for its paging.
+  await b.db.execute(sql`
+    insert into audit_events (at, actor_id, action, entity_type, entity_id)
+    select now() - interval '30 days' + g * interval '1 minute', ${people.quality.id}::uuid, 'tool.update', 'tool', 'MIC-0304'
+    from generate_series(1, 60) g`);
   driftTag = (
     await makeDriftingTool(b.db, [
       { date: addDays(today, -700), asFound: "0.50000" },
@@ -121,6 +127,17 @@ describe("the quality overview in the browser", () => {
     await expect(interval.getByRole("cell").allTextContents()).resolves.toEqual(["365", "65"]);
     await change.getByRole("rowheader", { name: "Rationale" }).waitFor();
     await b.screenshot(page, "quality-audit");
+    // "Next" reads on from the last line shown (by keyset: the cursor of the page before), "Previous" goes back.
+    const pager = page.getByText(/^Page 1 of \d+$/);
+    await pager.waitFor();
+    const onward = page.waitForRequest((r) => /\/api\/audit\?.*after=\d+_\d+/.test(r.url()));
+    await page.getByRole("button", { name: "Next" }).click();
+    await onward;
+    await page.getByText(/^Page 2 of \d+$/).waitFor();
+    await page.getByText(/^51–\d+ of \d+$/).waitFor();
+    await page.getByRole("button", { name: "Previous" }).click();
+    await pager.waitFor();
+    await page.getByRole("table", { name: "Audit trail" }).getByText("Family interval changed").first().waitFor();
     expect(errors).toEqual([]);
     await context.close();
   });

@@ -2,7 +2,7 @@ import { and, desc, eq, gte, lt, sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "../../db/client";
 import { auditEvents } from "./audit.table";
 import { users } from "../users/users.table";
-import { listPage, pageOffset } from "../../db/paging";
+import { pageOffset } from "../../db/paging";
 import { insertRows } from "../../db/columns";
 
 export interface AuditEntry {
@@ -52,10 +52,27 @@ export interface AuditFilter {
   toInstantExclusive?: SQL;
   page: number;
   pageSize: number;
+  /** A nextCursor: the page starts after that line (the page number is then only shown, not counted). */
+  after?: string;
+  /** Count at most this many lines for the total. */
+  totalCap: number;
+}
+
+/** A line's place in the trail's order, as a cursor: its instant in microseconds since 1970 (exact) and its id. */
+const cursorOf = sql<string>`(extract(epoch from ${auditEvents.at}) * 1000000)::bigint::text || '_' || ${auditEvents.id}::text`;
+
+/** Lines older than the cursor's, in the trail's order (at, id), newest first: a range of audit_events_at_id_idx. */
+function olderThan(cursor: string): SQL {
+  const [micros, id] = cursor.split("_");
+  return sql`(${auditEvents.at}, ${auditEvents.id}) < (timestamptz 'epoch' + ${micros}::bigint * interval '1 microsecond', ${id}::bigint)`;
 }
 
 export const auditRepository = {
-  /** A page of the trail, newest first; each filter matches an index (actor, entity, at). */
+  /**
+   * A page of the trail, newest first; each filter matches an index (actor, entity, at). By ?after= the page is read
+   * on from the line before by keyset, at the same cost however deep; the total counts at most `totalCap` lines (a
+   * trail of millions is never counted whole), with `totalCapped` when there are more.
+   */
   async list(db: DbOrTx, f: AuditFilter) {
     const where = and(
       f.actorId ? eq(auditEvents.actorId, f.actorId) : undefined,
@@ -65,7 +82,7 @@ export const auditRepository = {
       f.fromInstant ? gte(auditEvents.at, f.fromInstant) : undefined,
       f.toInstantExclusive ? lt(auditEvents.at, f.toInstantExclusive) : undefined,
     );
-    return listPage(
+    const [rows, counted] = await Promise.all([
       db
         .select({
           id: auditEvents.id,
@@ -77,15 +94,25 @@ export const auditRepository = {
           entityId: auditEvents.entityId,
           before: auditEvents.before,
           after: auditEvents.after,
+          cursor: cursorOf,
         })
         .from(auditEvents)
         .leftJoin(users, eq(users.id, auditEvents.actorId))
-        .where(where)
+        .where(f.after ? and(where, olderThan(f.after)) : where)
         .orderBy(desc(auditEvents.at), desc(auditEvents.id))
-        .limit(f.pageSize)
-        .offset(pageOffset(f.page, f.pageSize)),
-      db.select({ total: sql<number>`count(*)::int` }).from(auditEvents).where(where),
-    );
+        // One line more than the page: whether another page follows.
+        .limit(f.pageSize + 1)
+        .offset(f.after ? 0 : pageOffset(f.page, f.pageSize)),
+      db.execute(sql`select count(*)::int as n from (select 1 from ${auditEvents} where ${where ?? sql`true`} limit ${f.totalCap + 1}) x`),
+    ]);
+    const n = Number((counted.rows[0] as { n: number }).n);
+    const page = rows.slice(0, f.pageSize);
+    return {
+      items: page.map(({ cursor: _cursor, ...e }) => e),
+      total: Math.min(n, f.totalCap),
+      totalCapped: n > f.totalCap,
+      nextCursor: rows.length > f.pageSize ? page[page.length - 1].cursor : null,
+    };
   },
 
   /** Distinct record types on the trail, by a skip scan over the entity index (fast on millions of lines). */

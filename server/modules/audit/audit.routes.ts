@@ -3,7 +3,7 @@ import { sql } from "drizzle-orm";
 import { defineRoutes } from "../../http/route";
 import type { AppDeps } from "../../app-deps";
 import { auditRepository } from "./audit.repository";
-import { AuditFacetsSchema, AuditPageSchema, AuditQuerySchema } from "../../../shared/audit/audit.schemas";
+import { AUDIT_TOTAL_CAP, AuditFacetsSchema, AuditPageSchema, AuditQuerySchema } from "../../../shared/audit/audit.schemas";
 import { getSettings } from "../settings/settings.service";
 import { auditRecordKey, describeAuditRecords } from "./audit-records";
 import { auditActionLabel, auditRecordTypeLabel } from "../../../shared/audit/labels";
@@ -13,7 +13,7 @@ export function auditRoutes(deps: AppDeps) {
   const route = defineRoutes(router, deps.registry, "audit");
 
   route(
-    { method: "get", path: "/api/audit", summary: "The audit trail, newest first: filter by person, record and dates (a date is a whole day in the shop's zone)", access: "audit.read", query: AuditQuerySchema, response: AuditPageSchema },
+    { method: "get", path: "/api/audit", summary: "The audit trail, newest first: filter by person, record and dates (a date is a whole day in the shop's zone); ?after= pages on by keyset; the total counts up to 10,000 lines", access: "audit.read", query: AuditQuerySchema, response: AuditPageSchema },
     async ({ query }) => {
       const { shopTimeZone } = await getSettings(deps.db, deps.config.SHOP_TIME_ZONE);
       // A calendar date means the whole day in the shop's time zone: from its first instant, to before the next day's.
@@ -25,10 +25,11 @@ export function auditRoutes(deps: AppDeps) {
             : end
               ? sql`(${v}::timestamptz + interval '1 millisecond')`
               : sql`${v}::timestamptz`;
-      const { items, total } = await auditRepository.list(deps.db, {
+      const { items, total, totalCapped, nextCursor } = await auditRepository.list(deps.db, {
         ...query,
         fromInstant: bound(query.from, false),
         toInstantExclusive: bound(query.to, true),
+        totalCap: AUDIT_TOTAL_CAP,
       });
       const records = await describeAuditRecords(deps.db, items);
       return {
@@ -40,6 +41,8 @@ export function auditRoutes(deps: AppDeps) {
           record: records.get(auditRecordKey(e.entityType, e.entityId)) ?? null,
         })),
         total,
+        totalCapped,
+        nextCursor,
       };
     },
   );

@@ -15,5 +15,10 @@ export const auditEvents = pgTable(
     before: jsonb("before"),
     after: jsonb("after"),
   },
-  (t) => [index("audit_events_entity_idx").on(t.entityType, t.entityId), index("audit_events_actor_idx").on(t.actorId), index("audit_events_at_idx").on(t.at)],
+  // The trail is read newest first, by (at, id): whole (a page by keyset off the first index) or by one person.
+  (t) => [
+    index("audit_events_entity_idx").on(t.entityType, t.entityId),
+    index("audit_events_actor_at_idx").on(t.actorId, t.at, t.id),
+    index("audit_events_at_id_idx").on(t.at, t.id),
+  ],
 );

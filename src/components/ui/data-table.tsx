@@ -29,13 +29,17 @@ interface DataTableProps<T> {
   toolbar?: ReactNode;
   initialHidden?: string[];
   rowKey?: (row: T) => string;
+  /** The total is a floor: the list counted this many rows and stopped (a trail of millions is not counted whole). */
+  totalCapped?: boolean;
+  /** Whether a page follows this one, when the list says so itself (keyset paging); else worked out from the total. */
+  hasMore?: boolean;
 }
 
 /**
  * A server-paged, server-sorted table (TanStack Table in manual mode) with a
  * column chooser. Filtering lives in the page above it, in the URL.
  */
-export function DataTable<T>({ columns, data, total, page, pageSize, onPageChange, sorting, onSortingChange, label, loading, empty, toolbar, initialHidden, rowKey }: DataTableProps<T>) {
+export function DataTable<T>({ columns, data, total, page, pageSize, onPageChange, sorting, onSortingChange, label, loading, empty, toolbar, initialHidden, rowKey, totalCapped, hasMore }: DataTableProps<T>) {
   const [visibility, setVisibility] = useState<VisibilityState>(() => Object.fromEntries((initialHidden ?? []).map((c) => [c, false])));
   const [choosing, setChoosing] = useState(false);
   const table = useReactTable({
@@ -52,6 +56,11 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
     getRowId: rowKey ? (r) => rowKey(r) : undefined,
   });
   const pages = Math.max(1, Math.ceil(total / pageSize));
+  const first = (page - 1) * pageSize + 1;
+  const shown = totalCapped
+    ? `${data.length ? `${first.toLocaleString("en")}–${(first + data.length - 1).toLocaleString("en")}` : "0"} of more than ${total.toLocaleString("en")}`
+    : `${total === 0 ? "0" : `${first}–${Math.min(page * pageSize, total)}`} of ${total}`;
+  const nextOpen = hasMore ?? page < pages;
   return (
     <div className="min-w-0 rounded-card border border-paper-line bg-paper-raised shadow-card">
       <div className="no-print flex flex-wrap items-center justify-between gap-2 border-b border-paper-line p-2">
@@ -90,17 +99,13 @@ export function DataTable<T>({ columns, data, total, page, pageSize, onPageChang
         {!loading && data.length === 0 && <div className="p-4">{empty ?? <p className="text-center text-ink-faint">Nothing matches.</p>}</div>}
       </ScrollBox>
       <div className="no-print flex items-center justify-between gap-2 border-t border-paper-line p-2 text-sm">
-        <span>
-          {total === 0 ? "0" : `${(page - 1) * pageSize + 1}–${Math.min(page * pageSize, total)}`} of {total}
-        </span>
+        <span>{shown}</span>
         <div className="flex items-center gap-2">
           <Button variant="secondary" disabled={page <= 1} onClick={() => onPageChange(page - 1)}>
             Previous
           </Button>
-          <span>
-            Page {page} of {pages}
-          </span>
-          <Button variant="secondary" disabled={page >= pages} onClick={() => onPageChange(page + 1)}>
+          <span>{totalCapped ? `Page ${page.toLocaleString("en")}` : `Page ${page} of ${pages}`}</span>
+          <Button variant="secondary" disabled={!nextOpen} onClick={() => onPageChange(page + 1)}>
             Next
           </Button>
         </div>

@@ -1,7 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
-import type { AuditEvent } from "../../../../shared/audit/audit.schemas";
-import type { Page } from "../../../../shared/common/lists.schemas";
+import type { AuditPage } from "../../../../shared/audit/audit.schemas";
 
 export interface AuditParams {
   actorId?: string;
@@ -11,6 +10,8 @@ export interface AuditParams {
   to?: string;
   page: number;
   pageSize: number;
+  /** The page before's nextCursor, when known: the page is read on from there by keyset. */
+  after?: string;
 }
 
 export const auditKeys = {
@@ -20,7 +21,7 @@ export const auditKeys = {
 };
 
 export const auditQueryOptions = (p: AuditParams) =>
-  queryOptions({ queryKey: auditKeys.list(p), queryFn: () => api.get<Page<AuditEvent>>(`/api/audit${qs({ ...p })}`), placeholderData: keepPreviousData });
+  queryOptions({ queryKey: auditKeys.list(p), queryFn: () => api.get<AuditPage>(`/api/audit${qs({ ...p })}`), placeholderData: keepPreviousData });
 export const useAudit = (p: AuditParams) => useQuery(auditQueryOptions(p));
 export const useAuditFacets = () =>
   useQuery({ queryKey: auditKeys.facets, queryFn: () => api.get<{ entityTypes: string[]; entityTypeOptions: { value: string; label: string }[] }>("/api/audit/facets"), staleTime: 5 * 60_000 });
