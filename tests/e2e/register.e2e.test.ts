@@ -44,6 +44,25 @@ describe("the tool register in the browser", () => {
     await context.close();
   });
 
+  it("Next reads on from the last tool shown (by keyset), and lists the same tools as the page by its number", async () => {
+    const { page, context, errors } = await b.newPage();
+    await b.signIn(page, "crib");
+    await page.goto("/tools");
+    const table = registerTable(page);
+    await table.getByRole("link", { name: "MIC-0101" }).waitFor();
+    await page.getByText(/^Page 1 of [2-9]$/).waitFor();
+    const onward = page.waitForRequest((r) => /\/api\/tools\?.*after=/.test(r.url()) && /page=2/.test(r.url()));
+    await page.getByRole("button", { name: "Next" }).click();
+    await onward;
+    await page.getByText(/^Page 2 of [2-9]$/).waitFor();
+    await table.getByRole("link", { name: "MIC-0101" }).waitFor({ state: "detached" });
+    const shown = await table.locator("tbody tr td:first-child a").allTextContents();
+    const byNumber = (await (await page.request.get("/api/tools?sort=assetTag&page=2&pageSize=50")).json()) as { items: { assetTag: string }[] };
+    expect(shown).toEqual(byNumber.items.map((t) => t.assetTag));
+    expect(errors).toEqual([]);
+    await context.close();
+  });
+
   it("a dashboard link to tools due within 30 days lands on the register filtered on the server, shows the filter, and clearing it lists every tool again", async () => {
     const { page, context, errors } = await b.newPage();
     await b.signIn(page, "crib");

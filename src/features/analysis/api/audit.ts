@@ -1,5 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery } from "@tanstack/react-query";
 import { api, qs } from "../../../lib/api-client";
+import { cursorFromPageBefore } from "../../../lib/keyset-pages";
 import type { AuditPage } from "../../../../shared/audit/audit.schemas";
 
 export interface AuditParams {
@@ -10,8 +11,6 @@ export interface AuditParams {
   to?: string;
   page: number;
   pageSize: number;
-  /** The page before's nextCursor, when known: the page is read on from there by keyset. */
-  after?: string;
 }
 
 export const auditKeys = {
@@ -21,7 +20,11 @@ export const auditKeys = {
 };
 
 export const auditQueryOptions = (p: AuditParams) =>
-  queryOptions({ queryKey: auditKeys.list(p), queryFn: () => api.get<AuditPage>(`/api/audit${qs({ ...p })}`), placeholderData: keepPreviousData });
+  queryOptions({
+    queryKey: auditKeys.list(p),
+    queryFn: ({ client }) => api.get<AuditPage>(`/api/audit${qs({ ...p, after: cursorFromPageBefore(client, auditKeys.list, p) })}`),
+    placeholderData: keepPreviousData,
+  });
 export const useAudit = (p: AuditParams) => useQuery(auditQueryOptions(p));
 export const useAuditFacets = () =>
   useQuery({ queryKey: auditKeys.facets, queryFn: () => api.get<{ entityTypes: string[]; entityTypeOptions: { value: string; label: string }[] }>("/api/audit/facets"), staleTime: 5 * 60_000 });

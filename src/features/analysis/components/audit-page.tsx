@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { Link } from "react-router-dom";
 import { createColumnHelper } from "@tanstack/react-table";
 import { useAudit, useAuditFacets } from "../api/audit";
@@ -79,21 +79,8 @@ const columns = [
 export function AuditPage() {
   const list = useListParams(FILTERS, { pageSize: PAGE_SIZE });
   const f = list.filters;
-  const filters = { actorId: f.actorId || undefined, entityType: f.entityType || undefined, entityId: f.entityId || undefined, from: f.from || undefined, to: f.to || undefined };
-  // Each page's cursor, learnt from the page before it (for these filters): "Next" reads on by keyset, at the same
-  // cost however far back the trail goes; a page opened by its number alone is read by its offset.
-  const [cursors, setCursors] = useState<{ filters: string; byPage: Record<number, string> }>({ filters: "", byPage: {} });
-  const filterKey = JSON.stringify(filters);
-  const known = cursors.filters === filterKey ? cursors.byPage : {};
-  const q = useAudit({ ...filters, page: list.page, pageSize: PAGE_SIZE, after: known[list.page] });
-  const next = q.data?.nextCursor;
-  useEffect(() => {
-    if (!next || q.isPlaceholderData) return;
-    setCursors((c) => {
-      const byPage = c.filters === filterKey ? c.byPage : {};
-      return byPage[list.page + 1] === next ? c : { filters: filterKey, byPage: { ...byPage, [list.page + 1]: next } };
-    });
-  }, [next, q.isPlaceholderData, filterKey, list.page]);
+  // "Next" reads on from the last line shown, by keyset (cursorFromPageBefore), however far back the trail goes.
+  const q = useAudit({ actorId: f.actorId || undefined, entityType: f.entityType || undefined, entityId: f.entityId || undefined, from: f.from || undefined, to: f.to || undefined, page: list.page, pageSize: PAGE_SIZE });
   const facets = useAuditFacets();
   const rows = q.data?.items ?? [];
   return (
