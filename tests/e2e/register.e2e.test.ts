@@ -11,13 +11,19 @@ afterAll(async () => b?.close());
 
 const registerTable = (page: import("playwright-core").Page) => page.getByRole("table", { name: "Tool register" });
 
+/** The crib attendant on the whole register, its first page shown. */
+async function openRegister() {
+  const opened = await b.newPage();
+  await b.signIn(opened.page, "crib");
+  await opened.page.goto("/tools");
+  const table = registerTable(opened.page);
+  await table.getByRole("link", { name: "MIC-0101" }).waitFor();
+  return { ...opened, table };
+}
+
 describe("the tool register in the browser", () => {
   it("lists the shop's tools and filters to the overdue ones, keeping the filter in the address", async () => {
-    const { page, context, errors } = await b.newPage();
-    await b.signIn(page, "crib");
-    await page.goto("/tools");
-    const table = registerTable(page);
-    await table.getByRole("link", { name: "MIC-0101" }).waitFor();
+    const { page, context, errors, table } = await openRegister();
     await expect(table.getByRole("link", { name: "MIC-0110" }).count()).resolves.toBe(1);
     await b.screenshot(page, "register-all");
 
@@ -45,11 +51,7 @@ describe("the tool register in the browser", () => {
   });
 
   it("Next reads on from the last tool shown (by keyset), and lists the same tools as the page by its number", async () => {
-    const { page, context, errors } = await b.newPage();
-    await b.signIn(page, "crib");
-    await page.goto("/tools");
-    const table = registerTable(page);
-    await table.getByRole("link", { name: "MIC-0101" }).waitFor();
+    const { page, context, errors, table } = await openRegister();
     await page.getByText(/^Page 1 of [2-9]$/).waitFor();
     const onward = page.waitForRequest((r) => /\/api\/tools\?.*after=/.test(r.url()) && /page=2/.test(r.url()));
     await page.getByRole("button", { name: "Next" }).click();
